@@ -1,0 +1,234 @@
+"""The SEA model as plain, validated, immutable data.
+
+A :class:`Model` is what the solver consumes: subsystems with per-band modal density
+and damping loss factor, connections with a per-band coupling loss factor in one
+direction (the other direction follows from reciprocity in the solver), and
+excitations (input powers or prescribed levels). Every per-band array has shape
+``(len(bands),)``. Models are built by :mod:`seatool.modelfile` from a TOML file or
+directly in Python; solving never mutates them.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from typing import Literal
+
+import numpy as np
+import numpy.typing as npt
+
+from .bands import BandAxis
+
+__all__ = [
+    "Connection",
+    "Excitation",
+    "Model",
+    "ModelError",
+    "Subsystem",
+]
+
+Quantity = Literal["sound_pressure", "velocity", "energy"]
+Array = npt.NDArray[np.float64]
+
+
+class ModelError(ValueError):
+    """A model that is inconsistent (raised when building a :class:`Model` in Python)."""
+
+
+def _frozen(a: npt.ArrayLike, nb: int, what: str) -> Array:
+    arr = np.array(a, dtype=float)
+    if arr.ndim == 0:
+        arr = np.full(nb, float(arr))
+    if arr.shape != (nb,):
+        raise ModelError(f"{what}: expected {nb} band values, got shape {arr.shape}")
+    arr.setflags(write=False)
+    return arr
+
+
+@dataclass(frozen=True)
+class Subsystem:
+    """One wave field of one physical component.
+
+    Attributes
+    ----------
+    name : str
+        Unique name.
+    kind : str
+        What it represents ('cavity', 'structure', 'exterior', ...).
+    modal_density : ndarray
+        n(f) per band [modes/Hz]; ``inf`` for the exterior sink.
+    damping : ndarray
+        Damping (internal) loss factor per band [-].
+    quantity : {'sound_pressure', 'velocity', 'energy'}
+        Which level its energy converts to.
+    volume : float or None
+        Cavity volume [m^3] (sound-pressure subsystems).
+    mass : float or None
+        Mass [kg] (velocity subsystems).
+    density, sound_speed : float or None
+        Fluid density [kg/m^3] and speed of sound [m/s] (cavities).
+    sink : bool
+        True for a free-field exterior that absorbs what it receives: its energy is
+        held at zero and it returns nothing.
+    provenance : mapping
+        Where each derived value came from (e.g. ``{'modal_density': 'given'}``).
+    """
+
+    name: str
+    kind: str
+    modal_density: Array
+    damping: Array
+    quantity: Quantity = "energy"
+    volume: float | None = None
+    mass: float | None = None
+    density: float | None = None
+    sound_speed: float | None = None
+    sink: bool = False
+    provenance: Mapping[str, str] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Connection:
+    """A coupling between two subsystems, stated in one direction.
+
+    ``coupling_loss_factor`` is eta_ab from ``a`` to ``b`` per band; eta_ba follows
+    from reciprocity n_a eta_ab = n_b eta_ba (Lyon & DeJong 1995, eq. 3.x; Vigran
+    2008, eq. 7.6) inside the solver, so the system is consistent by construction.
+    """
+
+    name: str
+    a: str
+    b: str
+    coupling_loss_factor: Array
+    kind: str = "given"
+    provenance: Mapping[str, str] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Excitation:
+    """A source acting on one subsystem.
+
+    ``kind == 'power'``: ``power`` is the band input power [W].
+    ``kind == 'prescribed'``: ``energy`` is the band energy [J] the subsystem is held at
+    (converted from a measured level), ``level`` and ``quantity`` keep what was given.
+    """
+
+    name: str
+    subsystem: str
+    kind: Literal["power", "prescribed"]
+    power: Array | None = None
+    energy: Array | None = None
+    level: Array | None = None
+    quantity: str | None = None
+    description: str = ""
+
+
+@dataclass(frozen=True)
+class Model:
+    """A complete SEA model, ready to solve."""
+
+    bands: BandAxis
+    subsystems: tuple[Subsystem, ...]
+    connections: tuple[Connection, ...] = ()
+    excitations: tuple[Excitation, ...] = ()
+    title: str = ""
+    source: str = ""
+    notes: tuple[str, ...] = ()
+
+    def __post_init__(self) -> None:
+        nb = len(self.bands)
+        names = [s.name for s in self.subsystems]
+        if len(set(names)) != len(names):
+            dup = sorted({n for n in names if names.count(n) > 1})
+            raise ModelError(f"duplicate subsystem names: {', '.join(dup)}")
+        if not names:
+            raise ModelError("a model needs at least one subsystem")
+        known = set(names)
+        subs = []
+        for s in self.subsystems:
+            md = _frozen(s.modal_density, nb, f"subsystems.{s.name}.modal_density")
+            dm = _frozen(s.damping, nb, f"subsystems.{s.name}.damping")
+            if not s.sink and not np.all(np.isfinite(md) & (md > 0)):
+                raise ModelError(f"subsystems.{s.name}.modal_density must be positive and finite")
+            if not np.all(np.isfinite(dm) & (dm >= 0)):
+                raise ModelError(f"subsystems.{s.name}.damping must be >= 0 and finite")
+            subs.append(_replace(s, modal_density=md, damping=dm))
+        object.__setattr__(self, "subsystems", tuple(subs))
+        cons = []
+        cnames: set[str] = set()
+        for c in self.connections:
+            if c.name in cnames:
+                raise ModelError(f"duplicate connection name {c.name!r}")
+            cnames.add(c.name)
+            for end in (c.a, c.b):
+                if end not in known:
+                    raise ModelError(f"connections.{c.name}: unknown subsystem {end!r}")
+            if c.a == c.b:
+                raise ModelError(f"connections.{c.name}: a subsystem cannot connect to itself")
+            eta = _frozen(c.coupling_loss_factor, nb, f"connections.{c.name}.coupling_loss_factor")
+            if not np.all(np.isfinite(eta) & (eta > 0)):
+                raise ModelError(f"connections.{c.name}.coupling_loss_factor must be positive")
+            sa, sb = self.subsystem(c.a), self.subsystem(c.b)
+            if sa.sink and sb.sink:
+                raise ModelError(f"connections.{c.name}: two exterior sinks cannot be connected")
+            if sa.sink:
+                raise ModelError(
+                    f"connections.{c.name}: state the coupling from the structure to the exterior "
+                    f"(put {c.b!r} first in 'between')"
+                )
+            cons.append(_replace(c, coupling_loss_factor=eta))
+        object.__setattr__(self, "connections", tuple(cons))
+        exs = []
+        enames: set[str] = set()
+        for e in self.excitations:
+            if e.name in enames:
+                raise ModelError(f"duplicate excitation name {e.name!r}")
+            enames.add(e.name)
+            if e.subsystem not in known:
+                raise ModelError(f"excitations.{e.name}: unknown subsystem {e.subsystem!r}")
+            if e.kind == "power":
+                if e.power is None:
+                    raise ModelError(f"excitations.{e.name}: power missing")
+                p = _frozen(e.power, nb, f"excitations.{e.name}.power")
+                if not np.all(np.isfinite(p) & (p >= 0)):
+                    raise ModelError(f"excitations.{e.name}.power must be >= 0 and finite")
+                exs.append(_replace(e, power=p))
+            else:
+                if e.energy is None:
+                    raise ModelError(f"excitations.{e.name}: energy missing")
+                en = _frozen(e.energy, nb, f"excitations.{e.name}.energy")
+                if not np.all(np.isfinite(en) & (en >= 0)):
+                    raise ModelError(f"excitations.{e.name}.energy must be >= 0 and finite")
+                exs.append(_replace(e, energy=en))
+        held = [e.subsystem for e in exs if e.kind == "prescribed"]
+        for n in set(held):
+            if held.count(n) > 1:
+                raise ModelError(f"subsystem {n!r} has more than one prescribed level")
+            if any(e.kind == "power" and e.subsystem == n for e in exs):
+                raise ModelError(
+                    f"subsystem {n!r} has a prescribed level and an input power; "
+                    "a held level already fixes its energy"
+                )
+            if self.subsystem(n).sink:
+                raise ModelError(f"the exterior {n!r} cannot have a prescribed level")
+        object.__setattr__(self, "excitations", tuple(exs))
+
+    # -- lookup -------------------------------------------------------------------------
+    @property
+    def names(self) -> tuple[str, ...]:
+        return tuple(s.name for s in self.subsystems)
+
+    def subsystem(self, name: str) -> Subsystem:
+        for s in self.subsystems:
+            if s.name == name:
+                return s
+        raise KeyError(name)
+
+    def index(self) -> dict[str, int]:
+        return {s.name: i for i, s in enumerate(self.subsystems)}
+
+
+def _replace(obj: object, **changes: object):  # type: ignore[no-untyped-def]
+    from dataclasses import replace
+
+    return replace(obj, **changes)  # type: ignore[type-var]

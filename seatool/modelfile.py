@@ -1,0 +1,796 @@
+"""Reading and validating model files (TOML, SI units).
+
+The format is described in ``docs/model-format.md``. :func:`load` returns a
+:class:`seatool.model.Model` or raises :class:`seatool.errors.InputError` carrying every
+problem found, each with the file, the key path (``subsystems.floor.mass``), what is
+wrong and, for an unknown name, the closest valid one.
+
+Per-band values ("spectra") can be written three ways wherever the format says
+*spectrum*:
+
+* a number: the same value in every band;
+* a table ``{ band_hz = [...], values = [...] }`` with nominal band centres;
+* a CSV reference ``{ csv = "file.csv", column = "name" }``; the CSV has a header whose
+  first column is ``band_hz`` (path relative to the model file).
+
+New subsystem, connection and excitation kinds register a reader in
+:data:`SUBSYSTEM_KINDS`, :data:`CONNECTION_KINDS` or :data:`EXCITATION_KEYS`.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+import tomllib
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import numpy.typing as npt
+
+from . import levels
+from .bands import BandAxis, BandError, band_index
+from .errors import InputError, Problem, closest
+from .model import Connection, Excitation, Model, ModelError, Subsystem
+
+__all__ = ["CONNECTION_KINDS", "SUBSYSTEM_KINDS", "Reader", "load", "loads"]
+
+Array = npt.NDArray[np.float64]
+
+#: Fluid used by a cavity that names none: air at 20 C, 101.325 kPa
+#: (rho = 1.204 kg/m^3, c = 343.2 m/s; ideal-gas values, common practice).
+DEFAULT_FLUID = {"density": 1.204, "sound_speed": 343.2}
+
+_TOP_KEYS = (
+    "title",
+    "description",
+    "bands",
+    "fluids",
+    "materials",
+    "subsystems",
+    "connections",
+    "excitations",
+)
+
+_MISSING = object()
+
+
+@dataclass
+class Reader:
+    """Validation context: collects problems instead of stopping at the first."""
+
+    file: str
+    base_dir: Path
+    problems: list[Problem] = field(default_factory=list)
+    bands: BandAxis | None = None
+    fluids: dict[str, dict[str, float]] = field(default_factory=dict)
+    materials: dict[str, dict[str, float]] = field(default_factory=dict)
+
+    # -- reporting -----------------------------------------------------------------------
+    def error(self, path: str, message: str) -> None:
+        self.problems.append(Problem(self.file, path, message))
+
+    # -- structure -----------------------------------------------------------------------
+    def table(self, value: Any, path: str) -> dict[str, Any] | None:
+        if not isinstance(value, dict):
+            self.error(path, f"must be a table, got {_type_name(value)}")
+            return None
+        return value
+
+    def keys(
+        self,
+        table: Mapping[str, Any],
+        path: str,
+        allowed: tuple[str, ...],
+        required: tuple[str, ...] = (),
+    ) -> bool:
+        """Report unknown and missing keys; True if nothing is missing."""
+        ok = True
+        for k in table:
+            if k not in allowed:
+                self.error(_join(path, k), "unknown key" + closest(k, allowed))
+        for k in required:
+            if k not in table:
+                self.error(_join(path, k), "missing required key")
+                ok = False
+        return ok
+
+    def name_ref(
+        self, value: Any, path: str, choices: Mapping[str, Any] | list[str], what: str
+    ) -> str | None:
+        if not isinstance(value, str):
+            self.error(path, f"must be the name of a {what} (a string), got {_type_name(value)}")
+            return None
+        if value not in choices:
+            valid = list(choices)
+            hint = closest(value, valid)
+            if not hint and valid:
+                hint = f" (known: {', '.join(sorted(valid)[:8])})"
+            self.error(path, f"unknown {what} {value!r}" + hint)
+            return None
+        return value
+
+    def string(self, value: Any, path: str) -> str | None:
+        if not isinstance(value, str):
+            self.error(path, f"must be a string, got {_type_name(value)}")
+            return None
+        return value
+
+    # -- numbers -------------------------------------------------------------------------
+    def number(
+        self,
+        value: Any,
+        path: str,
+        *,
+        unit: str = "",
+        minimum: float | None = 0.0,
+        strict: bool = True,
+    ) -> float | None:
+        """A finite real number; by default strictly positive (a physical quantity)."""
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            self.error(path, f"must be a number{_unit(unit)}, got {_type_name(value)}")
+            return None
+        x = float(value)
+        if not math.isfinite(x):
+            self.error(path, f"must be finite, got {value}")
+            return None
+        if minimum is not None:
+            if strict and x <= minimum:
+                self.error(path, f"must be > {minimum:g}{_unit(unit)}, got {value}")
+                return None
+            if not strict and x < minimum:
+                self.error(path, f"must be >= {minimum:g}{_unit(unit)}, got {value}")
+                return None
+        return x
+
+    def spectrum(
+        self,
+        value: Any,
+        path: str,
+        *,
+        unit: str = "",
+        minimum: float | None = 0.0,
+        strict: bool = True,
+    ) -> Array | None:
+        """A per-band value: number, ``{band_hz, values}`` table or ``{csv, column}``."""
+        bands = self.bands
+        if bands is None:
+            return None
+        nb = len(bands)
+        if isinstance(value, dict):
+            if "csv" in value:
+                return self._csv_spectrum(value, path, unit=unit, minimum=minimum, strict=strict)
+            if not self.keys(value, path, ("band_hz", "values"), ("band_hz", "values")):
+                return None
+            fb, vals = value["band_hz"], value["values"]
+            if not isinstance(fb, list) or not isinstance(vals, list):
+                self.error(path, "band_hz and values must be arrays of numbers")
+                return None
+            if len(fb) != len(vals):
+                self.error(path, f"band_hz has {len(fb)} entries but values has {len(vals)}")
+                return None
+            return self._per_band(fb, vals, path, unit=unit, minimum=minimum, strict=strict)
+        x = self.number(value, path, unit=unit, minimum=minimum, strict=strict)
+        if x is None:
+            return None
+        return np.full(nb, x)
+
+    def _per_band(
+        self,
+        fb: list[Any],
+        vals: list[Any],
+        path: str,
+        *,
+        unit: str,
+        minimum: float | None,
+        strict: bool,
+        source: str = "",
+    ) -> Array | None:
+        assert self.bands is not None
+        bands = self.bands
+        out = np.full(len(bands), np.nan)
+        ok = True
+        seen: set[int] = set()
+        for k, (f, v) in enumerate(zip(fb, vals, strict=True)):
+            where = f"{path}.band_hz[{k}]" if not source else f"{path} ({source} row {k + 2})"
+            if isinstance(f, bool) or not isinstance(f, int | float):
+                self.error(where, f"band centre must be a number in Hz, got {_type_name(f)}")
+                ok = False
+                continue
+            try:
+                x = band_index(float(f), bands.kind)
+            except BandError as exc:
+                self.error(where, str(exc))
+                ok = False
+                continue
+            if x in seen:
+                self.error(where, f"band {f:g} Hz given twice")
+                ok = False
+                continue
+            seen.add(x)
+            j = x - int(bands.indices[0])
+            vpath = f"{path}.values[{k}]" if not source else where
+            val = self.number(v, vpath, unit=unit, minimum=minimum, strict=strict)
+            if val is None:
+                ok = False
+                continue
+            if 0 <= j < len(bands):
+                out[j] = val
+        missing = [bands.label(int(j)) for j in np.flatnonzero(np.isnan(out))]
+        if ok and missing:
+            shown = ", ".join(missing[:6]) + (" ..." if len(missing) > 6 else "")
+            self.error(path, f"no value for band(s) {shown}; give every band of the model")
+            ok = False
+        return out if ok else None
+
+    def _csv_spectrum(
+        self, value: dict[str, Any], path: str, *, unit: str, minimum: float | None, strict: bool
+    ) -> Array | None:
+        if not self.keys(value, path, ("csv", "column"), ("csv", "column")):
+            return None
+        fname = self.string(value["csv"], _join(path, "csv"))
+        column = self.string(value["column"], _join(path, "column"))
+        if fname is None or column is None:
+            return None
+        fpath = (self.base_dir / fname).resolve()
+        try:
+            text = fpath.read_text(encoding="utf-8-sig")
+        except FileNotFoundError:
+            self.error(_join(path, "csv"), f"file {fname!r} not found (looked in {self.base_dir})")
+            return None
+        except (OSError, UnicodeDecodeError) as exc:
+            self.error(_join(path, "csv"), f"cannot read {fname!r}: {exc}")
+            return None
+        rows = [r for r in csv.reader(text.splitlines()) if any(c.strip() for c in r)]
+        if not rows:
+            self.error(_join(path, "csv"), f"{fname!r} is empty; expected a header 'band_hz,...'")
+            return None
+        header = [h.strip() for h in rows[0]]
+        if not header or header[0] != "band_hz":
+            self.error(
+                _join(path, "csv"), f"{fname!r}: first column of the header must be 'band_hz'"
+            )
+            return None
+        if column not in header:
+            self.error(
+                _join(path, "column"),
+                f"no column {column!r} in {fname!r}" + closest(column, header[1:]),
+            )
+            return None
+        ci = header.index(column)
+        fb: list[Any] = []
+        vals: list[Any] = []
+        for r, row in enumerate(rows[1:], start=2):
+            if len(row) != len(header):
+                self.error(
+                    _join(path, "csv"),
+                    f"{fname!r} row {r}: {len(row)} cells, header has {len(header)}",
+                )
+                return None
+            try:
+                fb.append(float(row[0]))
+                vals.append(float(row[ci]))
+            except ValueError:
+                self.error(_join(path, "csv"), f"{fname!r} row {r}: not a number in {row!r}")
+                return None
+        return self._per_band(
+            fb, vals, path, unit=unit, minimum=minimum, strict=strict, source=fname
+        )
+
+
+def _join(path: str, key: str) -> str:
+    return f"{path}.{key}" if path else key
+
+
+def _unit(unit: str) -> str:
+    return f" [{unit}]" if unit else ""
+
+
+def _type_name(value: Any) -> str:
+    names = {
+        bool: "a boolean",
+        str: "a string",
+        int: "an integer",
+        float: "a number",
+        list: "an array",
+        dict: "a table",
+    }
+    for t, n in names.items():
+        if type(value) is t:
+            return f"{n} ({value!r})" if t in (str, int, float, bool) else n
+    return type(value).__name__
+
+
+# ----------------------------------------------------------------------------------------
+# Sections
+
+
+def _read_bands(rd: Reader, data: Any) -> None:
+    path = "bands"
+    if data is _MISSING:
+        rd.error(path, "missing required table [bands] (kind, lowest, highest)")
+        return
+    t = rd.table(data, path)
+    if t is None:
+        return
+    if not rd.keys(t, path, ("kind", "lowest", "highest"), ("lowest", "highest")):
+        return
+    kind = t.get("kind", "third-octave")
+    if kind not in ("third-octave", "octave"):
+        rd.error(
+            f"{path}.kind",
+            f"must be 'third-octave' or 'octave', got {kind!r}"
+            + closest(str(kind), ["third-octave", "octave"]),
+        )
+        return
+    lo = rd.number(t["lowest"], f"{path}.lowest", unit="Hz")
+    hi = rd.number(t["highest"], f"{path}.highest", unit="Hz")
+    if lo is None or hi is None:
+        return
+    ok = True
+    for key, f in (("lowest", lo), ("highest", hi)):
+        if not 20.0 * 0.99 <= f <= 20000.0 * 1.01:
+            rd.error(f"{path}.{key}", f"{f:g} Hz is outside 20 Hz - 20 kHz")
+            ok = False
+    if not ok:
+        return
+    try:
+        rd.bands = BandAxis.from_range(lo, hi, kind)
+    except BandError as exc:
+        rd.error(path, str(exc))
+
+
+def _read_fluids(rd: Reader, data: Any) -> None:
+    rd.fluids = {"air": dict(DEFAULT_FLUID)}
+    if data is _MISSING:
+        return
+    t = rd.table(data, "fluids")
+    if t is None:
+        return
+    for name, spec in t.items():
+        path = f"fluids.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        if not rd.keys(
+            s, path, ("density", "sound_speed", "description"), ("density", "sound_speed")
+        ):
+            continue
+        rho = rd.number(s["density"], f"{path}.density", unit="kg/m^3")
+        c = rd.number(s["sound_speed"], f"{path}.sound_speed", unit="m/s")
+        if rho is not None and c is not None:
+            rd.fluids[name] = {"density": rho, "sound_speed": c}
+
+
+_MATERIAL_KEYS = ("density", "youngs_modulus", "poisson_ratio", "loss_factor", "description")
+
+
+def _read_materials(rd: Reader, data: Any) -> None:
+    if data is _MISSING:
+        return
+    t = rd.table(data, "materials")
+    if t is None:
+        return
+    for name, spec in t.items():
+        path = f"materials.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        if not rd.keys(s, path, _MATERIAL_KEYS, ("density", "youngs_modulus", "poisson_ratio")):
+            continue
+        props: dict[str, float] = {}
+        rho = rd.number(s["density"], f"{path}.density", unit="kg/m^3")
+        e = rd.number(s["youngs_modulus"], f"{path}.youngs_modulus", unit="Pa")
+        nu = rd.number(s["poisson_ratio"], f"{path}.poisson_ratio", minimum=-1.0)
+        if nu is not None and nu >= 0.5:
+            rd.error(
+                f"{path}.poisson_ratio", f"must be < 0.5 for a stable isotropic solid, got {nu}"
+            )
+            nu = None
+        if "loss_factor" in s:
+            eta = rd.number(s["loss_factor"], f"{path}.loss_factor", minimum=0.0, strict=False)
+            if eta is not None:
+                props["loss_factor"] = eta
+        if rho is not None and e is not None and nu is not None:
+            props.update(density=rho, youngs_modulus=e, poisson_ratio=nu)
+            rd.materials[name] = props
+
+
+# Subsystem kinds ------------------------------------------------------------------------
+
+SubsystemReader = Callable[[Reader, str, dict[str, Any]], Subsystem | None]
+
+
+def _damping(rd: Reader, s: dict[str, Any], path: str) -> Array | None:
+    return rd.spectrum(s["damping"], f"{path}.damping", minimum=0.0, strict=False)
+
+
+def _read_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
+    path = f"subsystems.{name}"
+    allowed = ("kind", "description", "fluid", "volume", "modal_density", "damping")
+    if not rd.keys(s, path, allowed, ("volume", "modal_density", "damping")):
+        return None
+    fluid = DEFAULT_FLUID
+    if "fluid" in s:
+        fname = rd.name_ref(s["fluid"], f"{path}.fluid", rd.fluids, "fluid")
+        if fname is None:
+            return None
+        fluid = rd.fluids[fname]
+    vol = rd.number(s["volume"], f"{path}.volume", unit="m^3")
+    n = rd.spectrum(s["modal_density"], f"{path}.modal_density", unit="modes/Hz")
+    eta = _damping(rd, s, path)
+    if vol is None or n is None or eta is None:
+        return None
+    return Subsystem(
+        name=name,
+        kind="cavity",
+        modal_density=n,
+        damping=eta,
+        quantity="sound_pressure",
+        volume=vol,
+        density=fluid["density"],
+        sound_speed=fluid["sound_speed"],
+        provenance={"modal_density": "given", "damping": "given"},
+    )
+
+
+def _read_structure(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
+    path = f"subsystems.{name}"
+    allowed = ("kind", "description", "mass", "modal_density", "damping")
+    if not rd.keys(s, path, allowed, ("mass", "modal_density", "damping")):
+        return None
+    mass = rd.number(s["mass"], f"{path}.mass", unit="kg")
+    n = rd.spectrum(s["modal_density"], f"{path}.modal_density", unit="modes/Hz")
+    eta = _damping(rd, s, path)
+    if mass is None or n is None or eta is None:
+        return None
+    return Subsystem(
+        name=name,
+        kind="structure",
+        modal_density=n,
+        damping=eta,
+        quantity="velocity",
+        mass=mass,
+        provenance={"modal_density": "given", "damping": "given"},
+    )
+
+
+def _read_exterior(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
+    path = f"subsystems.{name}"
+    if not rd.keys(s, path, ("kind", "description")):
+        return None
+    assert rd.bands is not None
+    nb = len(rd.bands)
+    return Subsystem(
+        name=name,
+        kind="exterior",
+        modal_density=np.full(nb, np.inf),
+        damping=np.zeros(nb),
+        quantity="energy",
+        sink=True,
+        provenance={"modal_density": "free field (sink)"},
+    )
+
+
+#: Readers of subsystem kinds: ``kind`` value -> function(reader, name, table).
+SUBSYSTEM_KINDS: dict[str, SubsystemReader] = {
+    "cavity": _read_cavity,
+    "structure": _read_structure,
+    "exterior": _read_exterior,
+}
+
+
+def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
+    out: list[Subsystem] = []
+    if data is _MISSING:
+        rd.error("subsystems", "missing required section [subsystems.NAME]")
+        return out
+    t = rd.table(data, "subsystems")
+    if t is None:
+        return out
+    if not t:
+        rd.error("subsystems", "no subsystems defined")
+    for name, spec in t.items():
+        path = f"subsystems.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        if "kind" not in s:
+            rd.error(
+                f"{path}.kind", "missing required key (one of: " + ", ".join(SUBSYSTEM_KINDS) + ")"
+            )
+            continue
+        kind = s["kind"]
+        if not isinstance(kind, str) or kind not in SUBSYSTEM_KINDS:
+            rd.error(
+                f"{path}.kind",
+                f"unknown subsystem kind {kind!r}"
+                + (closest(kind, SUBSYSTEM_KINDS) if isinstance(kind, str) else "")
+                + f"; known kinds: {', '.join(SUBSYSTEM_KINDS)}",
+            )
+            continue
+        if "description" in s:
+            rd.string(s["description"], f"{path}.description")
+        sub = SUBSYSTEM_KINDS[kind](rd, name, s)
+        if sub is not None:
+            out.append(sub)
+    return out
+
+
+# Connections ----------------------------------------------------------------------------
+
+ConnectionReader = Callable[
+    [Reader, str, dict[str, Any], tuple[Subsystem, Subsystem]], Connection | None
+]
+
+
+def _read_given_connection(
+    rd: Reader, name: str, s: dict[str, Any], ends: tuple[Subsystem, Subsystem]
+) -> Connection | None:
+    path = f"connections.{name}"
+    if not rd.keys(
+        s,
+        path,
+        ("kind", "description", "between", "coupling_loss_factor"),
+        ("coupling_loss_factor",),
+    ):
+        return None
+    eta = rd.spectrum(s["coupling_loss_factor"], f"{path}.coupling_loss_factor")
+    if eta is None:
+        return None
+    return Connection(
+        name,
+        ends[0].name,
+        ends[1].name,
+        eta,
+        kind="given",
+        provenance={"coupling_loss_factor": "given"},
+    )
+
+
+#: Readers of connection kinds: ``kind`` value -> function(reader, name, table, (a, b)).
+CONNECTION_KINDS: dict[str, ConnectionReader] = {"given": _read_given_connection}
+
+
+def _read_connections(
+    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: list[str]
+) -> list[Connection]:
+    out: list[Connection] = []
+    if data is _MISSING:
+        return out
+    t = rd.table(data, "connections")
+    if t is None:
+        return out
+    for name, spec in t.items():
+        path = f"connections.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        if "between" not in s:
+            rd.error(f"{path}.between", "missing required key (two subsystem names)")
+            continue
+        btw = s["between"]
+        if not isinstance(btw, list) or len(btw) != 2:
+            rd.error(
+                f"{path}.between", f"must be an array of two subsystem names, got {_type_name(btw)}"
+            )
+            continue
+        names = []
+        for k, nm in enumerate(btw):
+            r = rd.name_ref(nm, f"{path}.between[{k}]", declared, "subsystem")
+            names.append(r)
+        if None in names:
+            continue
+        if names[0] == names[1]:
+            rd.error(f"{path}.between", f"connects {names[0]!r} to itself")
+            continue
+        if names[0] not in subs or names[1] not in subs:
+            continue  # that subsystem had its own problems, already reported
+        a, b = subs[names[0]], subs[names[1]]
+        if a.sink and b.sink:
+            rd.error(f"{path}.between", "two exterior subsystems cannot be connected")
+            continue
+        if a.sink:
+            rd.error(
+                f"{path}.between",
+                f"put the exterior {a.name!r} second: a coupling loss factor is stated from the structure into the exterior",
+            )
+            continue
+        kind = s.get("kind", "given")
+        if not isinstance(kind, str) or kind not in CONNECTION_KINDS:
+            rd.error(
+                f"{path}.kind",
+                f"unknown connection kind {kind!r}"
+                + (closest(kind, CONNECTION_KINDS) if isinstance(kind, str) else "")
+                + f"; known kinds: {', '.join(CONNECTION_KINDS)}",
+            )
+            continue
+        con = CONNECTION_KINDS[kind](rd, name, s, (a, b))
+        if con is not None:
+            out.append(con)
+    return out
+
+
+# Excitations ----------------------------------------------------------------------------
+
+#: Keys that state what an excitation gives, with the subsystem quantity they need
+#: (None: any subsystem) and their unit.
+EXCITATION_KEYS: dict[str, tuple[str | None, str]] = {
+    "power": (None, "W"),
+    "sound_power_level": (None, "dB re 1 pW"),
+    "sound_pressure_level": ("sound_pressure", "dB re 20 uPa"),
+    "velocity_level": ("velocity", "dB re 1e-9 m/s"),
+    "acceleration_level": ("velocity", "dB re 1e-6 m/s^2"),
+}
+
+
+def _read_excitations(
+    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: list[str]
+) -> list[Excitation]:
+    out: list[Excitation] = []
+    if data is _MISSING:
+        return out
+    t = rd.table(data, "excitations")
+    if t is None:
+        return out
+    assert rd.bands is not None
+    omega = rd.bands.omega
+    held: dict[str, str] = {}
+    powered: dict[str, str] = {}
+    for name, spec in t.items():
+        path = f"excitations.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        allowed = ("subsystem", "description", *EXCITATION_KEYS)
+        if not rd.keys(s, path, allowed, ("subsystem",)):
+            continue
+        given = [k for k in EXCITATION_KEYS if k in s]
+        if len(given) != 1:
+            what = "none" if not given else ", ".join(given)
+            rd.error(path, f"give exactly one of {', '.join(EXCITATION_KEYS)} (got {what})")
+            continue
+        key = given[0]
+        sname = rd.name_ref(s["subsystem"], f"{path}.subsystem", declared, "subsystem")
+        if sname is None or sname not in subs:
+            continue
+        sub = subs[sname]
+        need, unit = EXCITATION_KEYS[key]
+        if sub.sink:
+            rd.error(f"{path}.subsystem", f"{sname!r} is the exterior; it cannot be excited")
+            continue
+        if need is not None and sub.quantity != need:
+            rd.error(
+                f"{path}.{key}",
+                f"{key} needs a subsystem whose level is {need.replace('_', ' ')}; {sname!r} is a {sub.kind}",
+            )
+            continue
+        kpath = f"{path}.{key}"
+        if key == "power":
+            v = rd.spectrum(s[key], kpath, unit=unit, minimum=0.0, strict=False)
+            if v is None:
+                continue
+            power: Array | None = v
+        elif key == "sound_power_level":
+            v = rd.spectrum(s[key], kpath, unit=unit, minimum=None)
+            if v is None:
+                continue
+            power = levels.REFERENCE["power"] * 10.0 ** (v / 10.0)
+        else:
+            v = rd.spectrum(s[key], kpath, unit=unit, minimum=None)
+            if v is None:
+                continue
+            energy = _level_to_energy(key, v, sub, omega)
+            if sname in held or sname in powered:
+                other = held.get(sname) or powered[sname]
+                rd.error(
+                    kpath,
+                    f"{sname!r} already has excitation {other!r}; a prescribed level must be the only excitation of its subsystem",
+                )
+                continue
+            held[sname] = name
+            out.append(Excitation(name, sname, "prescribed", energy=energy, level=v, quantity=key))
+            continue
+        if sname in held:
+            rd.error(
+                kpath,
+                f"{sname!r} has the prescribed level {held[sname]!r}; it cannot also take an input power",
+            )
+            continue
+        powered.setdefault(sname, name)
+        out.append(
+            Excitation(
+                name, sname, "power", power=power, level=v if key != "power" else None, quantity=key
+            )
+        )
+    return out
+
+
+def _level_to_energy(key: str, level: Array, sub: Subsystem, omega: Array) -> Array:
+    """Band energy that produces a prescribed level (inverse of :mod:`seatool.levels`)."""
+    if key == "sound_pressure_level":
+        assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
+        p_sq = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (level / 10.0)
+        return p_sq * sub.volume / (sub.density * sub.sound_speed**2)
+    assert sub.mass is not None
+    if key == "velocity_level":
+        v_sq = levels.REFERENCE["velocity"] ** 2 * 10.0 ** (level / 10.0)
+    else:
+        v_sq = levels.REFERENCE["acceleration"] ** 2 * 10.0 ** (level / 10.0) / omega**2
+    return sub.mass * v_sq
+
+
+# ----------------------------------------------------------------------------------------
+
+
+def _declared_subsystems(data: Mapping[str, Any]) -> list[str]:
+    subs = data.get("subsystems")
+    return list(subs) if isinstance(subs, dict) else []
+
+
+def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
+    """Read a model from TOML text. See :func:`load`."""
+    rd = Reader(file=file, base_dir=Path(base_dir))
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError([Problem(file, "", f"not valid TOML: {exc}")]) from None
+    rd.keys(data, "", _TOP_KEYS)
+    title = data.get("title", "")
+    if not isinstance(title, str):
+        rd.error("title", f"must be a string, got {_type_name(title)}")
+        title = ""
+    if "description" in data:
+        rd.string(data["description"], "description")
+    _read_bands(rd, data.get("bands", _MISSING))
+    if rd.bands is None:
+        raise InputError(rd.problems)
+    _read_fluids(rd, data.get("fluids", _MISSING))
+    _read_materials(rd, data.get("materials", _MISSING))
+    declared = _declared_subsystems(data)
+    subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
+    cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
+    exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
+    if rd.problems:
+        raise InputError(rd.problems)
+    try:
+        return Model(
+            bands=rd.bands,
+            subsystems=tuple(subs.values()),
+            connections=tuple(cons),
+            excitations=tuple(exs),
+            title=title,
+            source=file,
+        )
+    except ModelError as exc:
+        raise InputError([Problem(file, "", str(exc))]) from None
+
+
+def load(path: str | Path) -> Model:
+    """Read and validate a model file.
+
+    Raises
+    ------
+    InputError
+        Every problem found, one per line (file, key path, what is wrong).
+    """
+    p = Path(path)
+    try:
+        raw = p.read_bytes()
+    except FileNotFoundError:
+        raise InputError([Problem(str(p), "", "file not found")]) from None
+    except IsADirectoryError:
+        raise InputError(
+            [Problem(str(p), "", "is a directory, expected a .toml model file")]
+        ) from None
+    except OSError as exc:
+        raise InputError([Problem(str(p), "", f"cannot read: {exc.strerror}")]) from None
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError:
+        raise InputError(
+            [Problem(str(p), "", "not a text file (not UTF-8); expected a TOML model file")]
+        ) from None
+    return loads(text, file=str(p), base_dir=p.parent)

@@ -1,0 +1,254 @@
+"""Results of an SEA solve as tidy tables.
+
+:class:`Result` only reads a solved model; it never changes it. Tables are pandas
+DataFrames with one row per subsystem (or connection) and band; column names carry
+their units.
+"""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+import numpy.typing as npt
+import pandas as pd
+
+from . import levels
+from .bands import a_weighting
+from .model import Model
+from .solve import Solution
+
+__all__ = ["CAUTION", "Result"]
+
+CAUTION = (
+    "Estimates guide design; they do not certify. Verify by measurement to the applicable "
+    "standards. Hearing-protection and occupational-exposure decisions follow local "
+    "regulations and qualified professionals."
+)
+
+Array = npt.NDArray[np.float64]
+
+
+@dataclass(frozen=True)
+class Result:
+    """Energies, levels and power flows of a solved model.
+
+    Attributes
+    ----------
+    model : Model
+        The model that was solved (unchanged).
+    solution : Solution
+        Raw arrays: ``energy`` (N, B) [J], ``input_power``, ``dissipated_power`` (N, B) [W],
+        ``connection_power`` (C, B) [W], conservation ``residual`` and ``condition`` (B,).
+    """
+
+    model: Model
+    solution: Solution
+
+    # -- arrays ------------------------------------------------------------------------
+    @property
+    def energy(self) -> Array:
+        """Band energies (N, B) [J]."""
+        return self.solution.energy
+
+    @property
+    def notes(self) -> tuple[str, ...]:
+        return self.model.notes + self.solution.notes
+
+    def level_array(self) -> tuple[Array, list[str], list[str]]:
+        """Levels (N, B) [dB], their quantity and reference label per subsystem."""
+        m = self.model
+        omega = m.bands.omega
+        out = np.empty_like(self.energy)
+        quantity: list[str] = []
+        refs: list[str] = []
+        for i, s in enumerate(m.subsystems):
+            e = self.energy[i]
+            if s.quantity == "sound_pressure" and not s.sink:
+                assert s.volume is not None and s.density is not None and s.sound_speed is not None
+                out[i] = levels.sound_pressure_level(
+                    levels.mean_square_pressure(e, s.volume, s.density, s.sound_speed)
+                )
+                quantity.append("sound_pressure")
+                refs.append(levels.reference_label("sound_pressure"))
+            elif s.quantity == "velocity" and s.mass is not None:
+                out[i] = levels.velocity_level(levels.mean_square_velocity(e, s.mass))
+                quantity.append("velocity")
+                refs.append(levels.reference_label("velocity"))
+            else:
+                out[i] = levels.energy_level(e)
+                quantity.append("energy")
+                refs.append(levels.reference_label("energy"))
+        del omega
+        return out, quantity, refs
+
+    # -- tables ------------------------------------------------------------------------
+    def _band_columns(self, n_rows: int) -> dict[str, Array]:
+        bands = self.model.bands
+        return {
+            "band_hz": np.tile(bands.nominal, n_rows),
+            "band_exact_hz": np.tile(bands.centre, n_rows),
+        }
+
+    def table(self) -> pd.DataFrame:
+        """Tidy table: one row per subsystem and band.
+
+        Columns: ``subsystem, band_hz`` (nominal), ``band_exact_hz``, ``energy_J``,
+        ``level_dB``, ``level_ref``, ``quantity``, ``velocity_level_dB``,
+        ``acceleration_level_dB`` (structures only, else NaN).
+        """
+        m = self.model
+        nb = len(m.bands)
+        lv, quantity, refs = self.level_array()
+        acc = np.full_like(lv, np.nan)
+        for i, s in enumerate(m.subsystems):
+            if quantity[i] == "velocity" and s.mass is not None:
+                acc[i] = levels.acceleration_level(
+                    levels.mean_square_velocity(self.energy[i], s.mass), m.bands.omega
+                )
+        return pd.DataFrame(
+            {
+                "subsystem": np.repeat(m.names, nb),
+                **self._band_columns(len(m.subsystems)),
+                "energy_J": self.energy.ravel(),
+                "level_dB": lv.ravel(),
+                "level_ref": np.repeat(refs, nb),
+                "quantity": np.repeat(quantity, nb),
+                "acceleration_level_dB": acc.ravel(),
+            }
+        )
+
+    def power_balance(self) -> pd.DataFrame:
+        """Per subsystem and band: ``input_W``, ``dissipated_W``, ``net_out_W``.
+
+        ``input_W`` is the external input (for a held level, the power needed to hold it);
+        ``dissipated_W`` the damping loss (for the exterior, the power it absorbs);
+        ``net_out_W`` the net power sent to neighbours. input = dissipated + net_out.
+        """
+        m = self.model
+        nb = len(m.bands)
+        sol = self.solution
+        net = sol.input_power - sol.dissipated_power
+        return pd.DataFrame(
+            {
+                "subsystem": np.repeat(m.names, nb),
+                **self._band_columns(len(m.subsystems)),
+                "input_W": sol.input_power.ravel(),
+                "dissipated_W": sol.dissipated_power.ravel(),
+                "net_out_W": net.ravel(),
+            }
+        )
+
+    def exchanges(self) -> pd.DataFrame:
+        """Net power through each connection per band (positive from ``from`` to ``to``)."""
+        m = self.model
+        nb = len(m.bands)
+        c = m.connections
+        return pd.DataFrame(
+            {
+                "connection": np.repeat([x.name for x in c], nb),
+                "from": np.repeat([x.a for x in c], nb),
+                "to": np.repeat([x.b for x in c], nb),
+                **self._band_columns(len(c)),
+                "net_power_W": self.solution.connection_power.ravel(),
+            }
+        )
+
+    def overall(self) -> pd.DataFrame:
+        """Overall (energetic band sum) level per subsystem, and A-weighted for cavities.
+
+        A-weighting per IEC 61672-1 at the exact mid-band frequencies.
+        """
+        m = self.model
+        lv, quantity, refs = self.level_array()
+        total = levels.level_sum(lv, axis=1)
+        aw = a_weighting(m.bands.centre)
+        a_total = np.where(
+            np.array(quantity) == "sound_pressure", levels.level_sum(lv + aw, axis=1), np.nan
+        )
+        return pd.DataFrame(
+            {
+                "subsystem": list(m.names),
+                "quantity": quantity,
+                "overall_dB": total,
+                "overall_dBA": a_total,
+                "level_ref": refs,
+            }
+        )
+
+    def wide(self, names: list[str] | None = None) -> pd.DataFrame:
+        """Levels as a band x subsystem table (for printing)."""
+        t = self.table()
+        if names is not None:
+            t = t[t["subsystem"].isin(names)]
+        w = t.pivot(index="band_hz", columns="subsystem", values="level_dB")
+        order = [n for n in self.model.names if n in w.columns]
+        return w[order]
+
+    # -- output ------------------------------------------------------------------------
+    def to_csv(self, path: str | os.PathLike[str]) -> None:
+        """Write :meth:`table` to ``path`` atomically (no half-written file on failure)."""
+        path = Path(path)
+        text = self.table().to_csv(index=False, float_format="%.10g")
+        fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=".csv", dir=path.parent or ".")
+        try:
+            with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
+                fh.write(text)
+            os.replace(tmp, path)
+        except BaseException:
+            Path(tmp).unlink(missing_ok=True)
+            raise
+
+    def render(self, names: list[str] | None = None, *, digits: int = 1) -> str:
+        """Compact text table of band levels with overall totals and notes."""
+        m = self.model
+        w = self.wide(names)
+        _, _, refs = self.level_array()
+        q = dict(zip(m.names, refs, strict=True))
+        cols = list(w.columns)
+        head = ["band"] + cols
+        values = w.to_numpy(dtype=float)
+        lines_tab = [
+            [m.bands.label(i)] + [f"{values[i, k]:.{digits}f}" for k in range(len(cols))]
+            for i in range(values.shape[0])
+        ]
+        ov = self.overall()
+        total = dict(zip(ov["subsystem"], ov["overall_dB"].to_numpy(dtype=float), strict=True))
+        a_total = dict(zip(ov["subsystem"], ov["overall_dBA"].to_numpy(dtype=float), strict=True))
+        lines_tab.append(["overall"] + [f"{total[c]:.{digits}f}" for c in cols])
+        if any(np.isfinite(a_total[c]) for c in cols):
+            lines_tab.append(
+                ["overall dB(A)"]
+                + [f"{a_total[c]:.{digits}f}" if np.isfinite(a_total[c]) else "-" for c in cols]
+            )
+        widths = [max(len(r[k]) for r in [head, *lines_tab]) for k in range(len(head))]
+        fmt = "  ".join(f"{{:>{wd}}}" for wd in widths)
+        out = []
+        if m.title:
+            out.append(m.title)
+        out.append(fmt.format(*head))
+        out.append(fmt.format(*["-" * wd for wd in widths]))
+        out.extend(fmt.format(*r) for r in lines_tab)
+        out.append("")
+        out.append("levels in dB: " + "; ".join(f"{c} {q[c]}" for c in cols))
+        out.append(f"conservation residual (max over bands): {self.solution.residual.max():.1e}")
+        for note in self.notes:
+            out.append(f"note: {note}")
+        return "\n".join(out)
+
+    def __str__(self) -> str:
+        return self.render()
+
+    def __repr__(self) -> str:
+        m = self.model
+        return (
+            f"<Result {m.title or 'model'}: {len(m.subsystems)} subsystems x {len(m.bands)} bands>"
+        )
+
+    def _repr_html_(self) -> str:
+        w = self.wide().round(1)
+        title = f"<b>{self.model.title}</b>" if self.model.title else ""
+        return title + w.to_html() + f"<p><small>{CAUTION}</small></p>"
