@@ -117,15 +117,16 @@ def exact_mid_frequency(
 def band_index(nominal_hz: float, kind: BandKind = "third-octave") -> int:
     """Band index x of a nominal mid-band frequency (e.g. 31.5 -> -15).
 
-    Accepts nominal labels (ISO 266) and exact values; the nearest band within a
-    sixth of a band is taken, otherwise :class:`BandError` is raised.
+    Accepts nominal labels (ISO 266) and exact values: the nearest band is taken if the
+    frequency lies within 2 % of its exact centre (nominal labels differ from the exact
+    base-10 values by at most about 1 %), otherwise :class:`BandError` is raised.
     """
     b = _fraction(kind)
     if not np.isfinite(nominal_hz) or nominal_hz <= 0:
         raise BandError(f"band frequency must be a positive number, got {nominal_hz!r}")
     xf = b * np.log(nominal_hz / REFERENCE_FREQUENCY) / np.log(OCTAVE_RATIO)
     x = round(float(xf))
-    if abs(xf - x) > 1.0 / 6.0:
+    if abs(nominal_hz / float(exact_mid_frequency(x, kind)) - 1.0) > 0.02:
         raise BandError(f"{nominal_hz:g} Hz is not the centre of a {kind} band")
     return x
 

@@ -88,13 +88,18 @@ class Reader:
     ) -> bool:
         """Report unknown and missing keys; True if nothing is missing."""
         ok = True
+        suggested: set[str] = set()
         for k in table:
             if k not in allowed:
-                self.error(_join(path, k), "unknown key" + closest(k, allowed))
+                hint = closest(k, allowed)
+                self.error(_join(path, k), "unknown key" + hint)
+                suggested.add(hint)
         for k in required:
             if k not in table:
-                self.error(_join(path, k), "missing required key")
                 ok = False
+                if closest(k, allowed) and f" (did you mean {k!r}?)" in suggested:
+                    continue  # the misspelt key's line already names it
+                self.error(_join(path, k), "missing required key")
         return ok
 
     def name_ref(

@@ -229,9 +229,13 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
             mat = sp.csc_matrix((summed[:, j], pattern.indices, pattern.indptr), shape=(nf, nf))
             try:
                 lu = spla.splu(mat)
-            except RuntimeError as exc:  # exactly singular
+            except RuntimeError:  # singular to working precision
+                ratio = asm.damping[free, j] / np.maximum(asm.diag[free, j], np.finfo(float).tiny)
+                names = ", ".join(model.subsystems[free[i]].name for i in np.argsort(ratio)[:3])
                 raise SolveError(
-                    f"band {model.bands.label(j)}: the power balance matrix is singular ({exc})"
+                    f"band {model.bands.label(j)}: the power balance is singular to working "
+                    f"precision; the least damped relative to their coupling are {names} - "
+                    "check their damping and coupling loss factors"
                 ) from None
             e_free = lu.solve(rhs[:, j])
             # M-matrix: ||L^-1||_1 = max(L^-T 1), exact, one extra triangular solve pair.

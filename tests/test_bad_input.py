@@ -1,0 +1,275 @@
+"""Every kind of bad model file answers with one clear line per problem and exit code 2."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from seatool.cli import main
+
+GOOD = """
+title = "two boxes"
+[bands]
+kind = "third-octave"
+lowest = 500
+highest = 1000
+[subsystems.box]
+kind = "cavity"
+volume = 2.0
+modal_density = 0.5
+damping = 0.01
+[subsystems.panel]
+kind = "structure"
+mass = 10.0
+modal_density = 0.3
+damping = 0.005
+[connections.rad]
+between = ["panel", "box"]
+coupling_loss_factor = 1e-4
+[excitations.shaker]
+subsystem = "panel"
+power = 1e-3
+"""
+
+
+def run(tmp_path: Path, text: str | bytes | None, capsys, *extra: str):
+    path = tmp_path / "model.toml"
+    if isinstance(text, bytes):
+        path.write_bytes(text)
+    elif text is not None:
+        path.write_text(text)
+    out_csv = tmp_path / "out.csv"
+    code = main(["solve", str(path), "--csv", str(out_csv), *extra])
+    cap = capsys.readouterr()
+    return code, cap.out, cap.err, out_csv
+
+
+def test_good_model_solves(tmp_path, capsys):
+    code, out, err, csv = run(tmp_path, GOOD, capsys)
+    assert code == 0, err
+    assert csv.exists()
+
+
+CASES = [
+    # (id, replace-from, replace-to, expected fragments in the one error line)
+    ("missing-key", "volume = 2.0\n", "", ["subsystems.box.volume", "missing required key"]),
+    (
+        "wrong-type",
+        "volume = 2.0",
+        'volume = "big"',
+        ["subsystems.box.volume", "must be a number", "string"],
+    ),
+    ("zero", "volume = 2.0", "volume = 0.0", ["subsystems.box.volume", "must be > 0"]),
+    ("negative", "mass = 10.0", "mass = -10.0", ["subsystems.panel.mass", "must be > 0"]),
+    ("nan", "mass = 10.0", "mass = nan", ["subsystems.panel.mass", "must be finite"]),
+    ("inf", "mass = 10.0", "mass = inf", ["subsystems.panel.mass", "must be finite"]),
+    (
+        "unknown-key",
+        "volume = 2.0",
+        "volume = 2.0\nvolme = 3",
+        ["subsystems.box.volme", "unknown key", "did you mean 'volume'"],
+    ),
+    (
+        "unknown-kind",
+        'kind = "cavity"',
+        'kind = "cavty"',
+        ["subsystems.box.kind", "did you mean 'cavity'"],
+    ),
+    (
+        "missing-subsystem",
+        '["panel", "box"]',
+        '["panel", "bx"]',
+        ["connections.rad.between[1]", "unknown subsystem 'bx'", "did you mean 'box'"],
+    ),
+    (
+        "unknown-excited",
+        'subsystem = "panel"',
+        'subsystem = "panle"',
+        ["excitations.shaker.subsystem", "did you mean 'panel'"],
+    ),
+    (
+        "unknown-fluid",
+        'kind = "cavity"',
+        'kind = "cavity"\nfluid = "water"',
+        ["subsystems.box.fluid", "unknown fluid 'water'"],
+    ),
+    (
+        "zero-clf",
+        "coupling_loss_factor = 1e-4",
+        "coupling_loss_factor = 0.0",
+        ["connections.rad.coupling_loss_factor", "must be > 0"],
+    ),
+    (
+        "negative-damping",
+        "damping = 0.01",
+        "damping = -0.01",
+        ["subsystems.box.damping", "must be >= 0"],
+    ),
+    (
+        "empty-bands",
+        "lowest = 500\nhighest = 1000",
+        "lowest = 1000\nhighest = 500",
+        ["bands", "empty band range"],
+    ),
+    ("low-bands", "lowest = 500", "lowest = 10", ["bands.lowest", "outside 20 Hz - 20 kHz"]),
+    (
+        "not-a-band",
+        "lowest = 500",
+        "lowest = 550",
+        ["bands", "not the centre of a third-octave band"],
+    ),
+    (
+        "band-kind",
+        'kind = "third-octave"',
+        'kind = "thirds"',
+        ["bands.kind", "must be 'third-octave' or 'octave'"],
+    ),
+    (
+        "table-length",
+        "damping = 0.005",
+        "damping = { band_hz = [500, 630, 800], values = [0.01, 0.02] }",
+        ["subsystems.panel.damping", "band_hz has 3 entries but values has 2"],
+    ),
+    (
+        "table-missing-band",
+        "damping = 0.005",
+        "damping = { band_hz = [500, 630, 800], values = [0.01, 0.02, 0.01] }",
+        ["subsystems.panel.damping", "no value for band(s) 1 kHz"],
+    ),
+    (
+        "table-bad-band",
+        "damping = 0.005",
+        "damping = { band_hz = [500, 630, 800, 1100], values = [0.01, 0.02, 0.01, 0.01] }",
+        ["subsystems.panel.damping.band_hz[3]", "not the centre"],
+    ),
+    (
+        "table-bad-key",
+        "damping = 0.005",
+        "damping = { bands = [500], values = [0.01] }",
+        ["subsystems.panel.damping.bands", "unknown key", "did you mean 'band_hz'"],
+    ),
+    ("not-toml", None, None, ["not valid TOML"]),
+    ("duplicate-table", "[subsystems.panel]", "[subsystems.box]", ["not valid TOML", "box"]),
+    (
+        "top-level-typo",
+        "[excitations.shaker]",
+        "[excitation.shaker]",
+        ["excitation", "unknown key", "did you mean 'excitations'"],
+    ),
+    (
+        "two-sources-one-held",
+        "power = 1e-3",
+        "power = 1e-3\nvelocity_level = 90",
+        ["excitations.shaker", "exactly one of"],
+    ),
+    (
+        "level-on-wrong-kind",
+        "power = 1e-3",
+        "sound_pressure_level = 90",
+        ["excitations.shaker.sound_pressure_level", "'panel' is a structure"],
+    ),
+    (
+        "between-self",
+        '["panel", "box"]',
+        '["panel", "panel"]',
+        ["connections.rad.between", "itself"],
+    ),
+]
+
+
+@pytest.mark.parametrize(("frm", "to", "frags"), [c[1:] for c in CASES], ids=[c[0] for c in CASES])
+def test_bad_input_one_line_exit_2(tmp_path, capsys, frm, to, frags):
+    if frm is None:
+        text = "this is [ not toml"
+    else:
+        assert frm in GOOD, frm
+        text = GOOD.replace(frm, to, 1)
+    code, out, err, csv = run(tmp_path, text, capsys)
+    lines = [ln for ln in err.splitlines() if ln.strip()]
+    assert code == 2, (out, err)
+    assert len(lines) == 1, err
+    assert "Traceback" not in err
+    assert str(tmp_path / "model.toml") in lines[0]
+    for frag in frags:
+        assert frag in lines[0], (frag, lines[0])
+    assert not csv.exists(), "no output file may be written on bad input"
+
+
+def test_several_problems_reported_together(tmp_path, capsys):
+    text = GOOD.replace("volume = 2.0", "volume = -1").replace("mass = 10.0", 'mass = "x"')
+    code, _, err, _ = run(tmp_path, text, capsys)
+    assert code == 2
+    lines = err.strip().splitlines()
+    assert len(lines) == 2
+    assert "subsystems.box.volume" in lines[0]
+    assert "subsystems.panel.mass" in lines[1]
+
+
+def test_missing_file(tmp_path, capsys):
+    code = main(["solve", str(tmp_path / "nope.toml")])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "nope.toml: file not found" in err
+    assert "Traceback" not in err
+
+
+def test_binary_file(tmp_path, capsys):
+    code, _, err, _ = run(tmp_path, b"\xff\xfe\x00\x01", capsys)
+    assert code == 2
+    assert "not a text file" in err
+
+
+def test_csv_spectrum_problems(tmp_path, capsys):
+    (tmp_path / "eta.csv").write_text("band_hz,eta\n500,0.01\n630,abc\n800,0.01\n1000,0.01\n")
+    text = GOOD.replace("damping = 0.005", 'damping = { csv = "eta.csv", column = "eta" }')
+    code, _, err, _ = run(tmp_path, text, capsys)
+    assert code == 2
+    assert "eta.csv' row 3: not a number" in err
+    (tmp_path / "eta.csv").write_text("band_hz,eta\n500,0.01\n630,0.01\n800,0.01\n1000,0.01\n")
+    text2 = GOOD.replace("damping = 0.005", 'damping = { csv = "eta.csv", column = "etta" }')
+    code, _, err, _ = run(tmp_path, text2, capsys)
+    assert code == 2
+    assert "no column 'etta'" in err and "did you mean 'eta'" in err
+    text3 = GOOD.replace("damping = 0.005", 'damping = { csv = "missing.csv", column = "eta" }')
+    code, _, err, _ = run(tmp_path, text3, capsys)
+    assert code == 2
+    assert "file 'missing.csv' not found" in err
+
+
+def test_csv_spectrum_read(tmp_path, capsys):
+    (tmp_path / "eta.csv").write_text("band_hz,eta\n500,0.01\n630,0.02\n800,0.03\n1000,0.04\n")
+    text = GOOD.replace("damping = 0.005", 'damping = { csv = "eta.csv", column = "eta" }')
+    import seatool
+
+    (tmp_path / "m.toml").write_text(text)
+    m = seatool.load(tmp_path / "m.toml")
+    assert list(m.subsystem("panel").damping) == [0.01, 0.02, 0.03, 0.04]
+
+
+def test_unknown_show_name(tmp_path, capsys):
+    code, _, err, _ = run(tmp_path, GOOD, capsys, "--show", "bx")
+    assert code == 2
+    assert "unknown subsystem 'bx'" in err and "did you mean 'box'" in err
+
+
+def test_singular_model_exit_2(tmp_path, capsys):
+    text = (
+        GOOD
+        + '[subsystems.loose]\nkind = "structure"\nmass = 1.0\nmodal_density = 1.0\ndamping = 0.0\n'
+    )
+    code, _, err, csv = run(tmp_path, text, capsys)
+    assert code == 2
+    assert "loose is undamped and unconnected" in err
+    assert not csv.exists()
+
+
+def test_internal_error_exit_1(tmp_path, capsys, monkeypatch):
+    def boom(*a, **k):
+        raise RuntimeError("simulated fault")
+
+    monkeypatch.setattr("seatool.run", boom)
+    code, _, err, csv = run(tmp_path, GOOD, capsys)
+    assert code == 1
+    assert "internal error" in err and "Traceback" not in err
+    assert not csv.exists()
