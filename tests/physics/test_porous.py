@@ -1,0 +1,308 @@
+"""Tests for seatool.physics.porous: published coefficients, limits, independent numerics."""
+
+from __future__ import annotations
+
+import math
+import warnings
+
+import numpy as np
+import pytest
+from scipy.integrate import quad, solve_ivp
+from scipy.optimize import minimize_scalar
+from scipy.special import jv
+
+from seatool.physics import porous as por
+
+RHO0, C0 = 1.21, 343.0
+Z0 = RHO0 * C0
+
+# ------------------------------------------------------------------------------------------
+# Delany-Bazley and Miki
+# ------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("sigma", [5e3, 2e4, 6e4])
+def test_delany_bazley_published_coefficients(sigma):
+    # Delany & Bazley (1970), Applied Acoustics 3, 105-116, as quoted in PHYSICS.md 8.1 [S]:
+    # Z = rho0 c0 (1 + 0.0571 X^-0.754 - j 0.087 X^-0.732),
+    # k = (omega/c0)(1 + 0.0978 X^-0.700 - j 0.189 X^-0.595), X = rho0 f/sigma
+    x = np.array([0.02, 0.1, 0.5, 0.9])
+    f = x * sigma / RHO0
+    z, k = por.delany_bazley(f, sigma, rho0=RHO0, c0=C0)
+    z_ref = Z0 * (1 + 0.0571 * x**-0.754 - 1j * 0.087 * x**-0.732)
+    k_ref = 2 * np.pi * f / C0 * (1 + 0.0978 * x**-0.700 - 1j * 0.189 * x**-0.595)
+    np.testing.assert_allclose(z, z_ref, rtol=1e-12)
+    np.testing.assert_allclose(k, k_ref, rtol=1e-12)
+    # exp(+j omega t): exp(-j k x) must decay (Im k < 0) and the layer is passive (Re Z > 0);
+    # the reactance of a porous medium is negative (mass-like density lags)
+    assert np.all(k.imag < 0)
+    assert np.all(z.real > Z0)
+    assert np.all(z.imag < 0)
+
+
+def test_delany_bazley_close_to_1970_form():
+    # PHYSICS.md 8.1 [S]: the paper's form with (10^3 f/sigma) and coefficients
+    # 9.08/0.75, 11.9/0.73, 10.8/0.70, 10.3/0.59 "gives very close results": within 3 %.
+    sigma = 1e4
+    f = np.array([150.0, 400.0, 1000.0, 3000.0, 7000.0])
+    z, k = por.delany_bazley(f, sigma)
+    ff = 1e3 * f / sigma
+    z70 = Z0 * (1 + 9.08 * ff**-0.75 - 1j * 11.9 * ff**-0.73)
+    k70 = 2 * np.pi * f / C0 * (1 + 10.8 * ff**-0.70 - 1j * 10.3 * ff**-0.59)
+    assert np.all(np.abs(z / z70 - 1) < 0.03)
+    assert np.all(np.abs(k / k70 - 1) < 0.03)
+
+
+@pytest.mark.parametrize("sigma", [8e3, 3e4])
+def test_miki_published_coefficients(sigma):
+    # Miki (1990), J. Acoust. Soc. Jpn (E) 11, 19-24, published with F = 10^3 f/sigma:
+    # Z = rho0 c0 (1 + 5.50 F^-0.632 - j 8.43 F^-0.632),
+    # k = (omega/c0)(1 + 7.81 F^-0.618 - j 11.41 F^-0.618)
+    # (coefficients as quoted in PHYSICS.md 8.2 [S]); checks our conversion to f/sigma.
+    f = np.array([0.02, 0.2, 0.8]) * sigma / RHO0
+    z, k = por.miki(f, sigma)
+    ff = 1e3 * f / sigma
+    z_ref = Z0 * (1 + 5.50 * ff**-0.632 - 1j * 8.43 * ff**-0.632)
+    k_ref = 2 * np.pi * f / C0 * (1 + 7.81 * ff**-0.618 - 1j * 11.41 * ff**-0.618)
+    np.testing.assert_allclose(z, z_ref, rtol=2e-3)
+    np.testing.assert_allclose(k, k_ref, rtol=2e-3)
+    assert np.all(k.imag < 0) and np.all(z.real > 0)
+
+
+def test_validity_warning():
+    # Delany & Bazley (1970): fitted range 0.01 < rho0 f/sigma < 1
+    assert issubclass(por.ValidityWarning, UserWarning)
+    with pytest.warns(por.ValidityWarning, match="outside"):
+        por.delany_bazley(50.0, 2e4)  # X = 0.003
+    with pytest.warns(por.ValidityWarning, match="outside"):
+        por.miki(20000.0, 5e3)  # X = 4.8
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        por.delany_bazley([200.0, 2000.0], 2e4)  # X = 0.012 .. 0.12: no warning
+
+
+def test_miki_removes_negative_resistance():
+    # Miki (1990) motivation (PHYSICS.md 8.2 [S]): Delany-Bazley can give Re(Z_s) < 0 for a
+    # thin layer at low X; Miki's model stays positive-real.
+    f, sigma, d = 125.0, 2e4, 0.025
+    with pytest.warns(por.ValidityWarning):
+        zs_db = por.rigid_backed_impedance(f, *por.delany_bazley(f, sigma), d)
+    with pytest.warns(por.ValidityWarning):
+        zs_mi = por.rigid_backed_impedance(f, *por.miki(f, sigma), d)
+    assert zs_db.real < 0 < zs_mi.real
+
+
+def test_similarity_property():
+    # exact invariance of the empirical laws: alpha(f, sigma, d) = alpha(l f, l sigma, d/l)
+    f = np.array([250.0, 500.0, 1000.0])
+    a1 = por.absorption_coefficient(por.rigid_backed_impedance(f, *por.delany_bazley(f, 1e4), 0.05))
+    f2 = 2 * f
+    a2 = por.absorption_coefficient(
+        por.rigid_backed_impedance(f2, *por.delany_bazley(f2, 2e4), 0.025)
+    )
+    np.testing.assert_allclose(a1, a2, rtol=1e-12)
+
+
+@pytest.mark.regression
+def test_rigid_backed_regression_table():
+    # regression: PHYSICS.md 8.3 table [C] (sigma = 10 kPa s/m^2, d = 50 mm), not published
+    f = np.array([250.0, 500.0, 1000.0, 2000.0, 4000.0])
+    a_db = por.absorption_coefficient(
+        por.rigid_backed_impedance(f, *por.delany_bazley(f, 1e4), 0.05)
+    )
+    a_mi = por.absorption_coefficient(por.rigid_backed_impedance(f, *por.miki(f, 1e4), 0.05))
+    np.testing.assert_allclose(a_db, [0.172, 0.496, 0.885, 0.986, 0.973], atol=1.5e-3)
+    np.testing.assert_allclose(a_mi, [0.192, 0.485, 0.883, 0.982, 0.971], atol=1.5e-3)
+
+
+# ------------------------------------------------------------------------------------------
+# rigid-backed layer: closed form vs an ODE solve
+# ------------------------------------------------------------------------------------------
+
+
+def _surface_impedance_by_ode(f, zc, kc, d):
+    """Independent: integrate p'' + kc^2 p = 0 from the rigid wall (p'=0) to the surface."""
+    w = 2 * math.pi * f
+    rho = zc * kc / w  # equivalent density of the fluid layer
+
+    def rhs(_x, y):
+        return [y[1], -(kc**2) * y[0]]
+
+    sol = solve_ivp(rhs, (d, 0.0), [1.0 + 0j, 0.0 + 0j], rtol=1e-11, atol=1e-13)
+    p, dp = sol.y[0, -1], sol.y[1, -1]
+    v = -dp / (1j * w * rho)  # Euler: j omega rho v = -dp/dx, v along +x (into the layer)
+    return p / v
+
+
+@pytest.mark.parametrize("f", [300.0, 1000.0, 3000.0])
+def test_rigid_backed_closed_form_vs_ode(f):
+    zc, kc = por.delany_bazley(f, 1.5e4)
+    d = 0.04
+    zs = por.rigid_backed_impedance(f, zc, kc, d)
+    zs_ode = _surface_impedance_by_ode(f, complex(zc), complex(kc), d)
+    np.testing.assert_allclose(zs, zs_ode, rtol=1e-7)
+    # Allard & Atalla (2009) ch. 3: Z_s = -j Z_c cot(k_c d)
+    np.testing.assert_allclose(zs, -1j * zc / np.tan(kc * d), rtol=1e-12)
+    a = por.absorption_coefficient(zs)
+    a_ode = 1 - abs((zs_ode - Z0) / (zs_ode + Z0)) ** 2
+    np.testing.assert_allclose(a, a_ode, rtol=1e-6)
+
+
+def test_extended_reaction_tends_to_local_for_dense_layer():
+    # Snell refraction: for |k_c| >> k0 the wave inside travels normally -> local reaction
+    f = 1000.0
+    k0 = 2 * math.pi * f / C0
+    kc = 40 * k0 * (1 - 0.3j)
+    zc = 20 * Z0 * (1 - 0.5j)
+    th = np.array([0.3, 0.8, 1.3])
+    z_loc = por.rigid_backed_impedance(f, zc, kc, 0.03, angle=th, reaction="local")
+    z_ext = por.rigid_backed_impedance(f, zc, kc, 0.03, angle=th, reaction="extended")
+    np.testing.assert_allclose(z_ext, z_loc, rtol=1e-3)
+
+
+# ------------------------------------------------------------------------------------------
+# Paris diffuse-field absorption
+# ------------------------------------------------------------------------------------------
+
+
+def test_paris_quadrature_matches_closed_form_local():
+    # London (1950) / Morse & Bolt (1944) closed form vs Paris integral by scipy.integrate.quad
+    for zeta in (1.0, 2.0 - 1.0j, 0.5 + 3.0j, 4.0 + 0.2j):
+        zs = zeta * Z0
+        closed = por.statistical_absorption_local(zs)
+        num = quad(
+            lambda t, zs=zs: por.absorption_coefficient(zs, angle=t) * math.sin(2 * t),
+            0,
+            math.pi / 2,
+        )[0]
+        np.testing.assert_allclose(closed, num, rtol=1e-9)
+        np.testing.assert_allclose(
+            por.paris_integral(lambda t, zs=zs: por.absorption_coefficient(zs, angle=t)),
+            num,
+            rtol=1e-8,
+        )
+    # analytic value at zeta = 1 from the closed form: 8 (3/2 - 2 ln 2) = 0.9096
+    np.testing.assert_allclose(
+        por.statistical_absorption_local(Z0), 8 * (1.5 - 2 * math.log(2)), rtol=1e-12
+    )
+
+
+def test_paris_maximum_0951():
+    # from memory (PHYSICS.md 8.3 [M]): max over real zeta of the locally reacting diffuse
+    # absorption is 0.951 near zeta = 1.6. Independent method: numerical optimisation of the
+    # quadrature (not the closed form).
+    def neg(r):
+        return -float(
+            quad(
+                lambda t: por.absorption_coefficient(r * Z0, angle=t) * math.sin(2 * t),
+                0,
+                math.pi / 2,
+            )[0]
+        )
+
+    res = minimize_scalar(neg, bounds=(0.5, 5.0), method="bounded", options={"xatol": 1e-8})
+    assert abs(-res.fun - 0.951) < 6e-4
+    assert 1.5 < res.x < 1.65
+    # and over complex zeta: the optimum is real (adding reactance only lowers it)
+    assert por.statistical_absorption_local((res.x + 0.3j) * Z0) < -res.fun
+
+
+def test_diffuse_absorption_local_vs_extended_and_bounds():
+    f = np.array([250.0, 1000.0, 4000.0])
+    zc, kc = por.delany_bazley(f, 1e4)
+    a_loc = por.diffuse_absorption(f, zc, kc, 0.05, reaction="local")
+    a_ext = por.diffuse_absorption(f, zc, kc, 0.05, reaction="extended")
+    zs = por.rigid_backed_impedance(f, zc, kc, 0.05)
+    np.testing.assert_allclose(a_loc, por.statistical_absorption_local(zs), rtol=1e-6)
+    assert a_loc.shape == a_ext.shape == f.shape
+    assert np.all((a_ext > 0) & (a_ext < 1))
+    # a light fibrous layer is not locally reacting: the two differ noticeably somewhere
+    assert np.max(np.abs(a_ext - a_loc)) > 0.01
+
+
+# ------------------------------------------------------------------------------------------
+# Johnson-Champoux-Allard
+# ------------------------------------------------------------------------------------------
+
+PHI, ALPHA_INF, SIGMA, LAM, LAM_T = 0.97, 1.05, 2e4, 80e-6, 160e-6
+
+
+def test_jca_density_limits():
+    # Johnson et al. (1987): omega -> 0, rho_eq -> sigma/(j omega) (Darcy);
+    # omega -> inf, rho_eq -> alpha_inf rho0 / phi
+    f_lo = np.array([1e-3, 1e-2])
+    rho_lo = por.jca_effective_density(f_lo, PHI, ALPHA_INF, SIGMA, LAM)
+    np.testing.assert_allclose(rho_lo * 1j * 2 * np.pi * f_lo / SIGMA, 1.0, rtol=1e-4)
+    rho_hi = por.jca_effective_density(1e9, PHI, ALPHA_INF, SIGMA, LAM)
+    np.testing.assert_allclose(rho_hi, ALPHA_INF * RHO0 / PHI, rtol=2e-3)
+    assert np.all(rho_lo.imag < 0)  # passive, exp(+j omega t)
+
+
+def test_jca_bulk_modulus_limits():
+    # Champoux & Allard (1991): K -> P0 (isothermal) at low f, gamma P0 (adiabatic) at high f
+    k_lo = por.jca_bulk_modulus(1e-3, PHI, LAM_T) * PHI
+    k_hi = por.jca_bulk_modulus(1e9, PHI, LAM_T) * PHI
+    np.testing.assert_allclose(k_lo, 101325.0, rtol=1e-5)
+    np.testing.assert_allclose(k_hi, 1.4 * 101325.0, rtol=2e-3)
+    k_mid = por.jca_bulk_modulus(np.logspace(1, 5, 9), PHI, LAM_T)
+    assert np.all(k_mid.imag > 0)  # passive: Im(1/K) < 0 for exp(+j omega t)
+
+
+def test_jca_vs_exact_circular_pores():
+    # Independent exact solution for straight circular pores of radius a (Zwikker & Kosten
+    # 1949; Stinson 1991), with sigma = 8 eta/(phi a^2), alpha_inf = 1, Lambda = Lambda' = a.
+    # JCA matches both limits exactly and interpolates between them; Johnson et al. (1987)
+    # report errors of a few per cent for this geometry (from memory) -> tolerances 6 % and 2 %.
+    a, phi = 100e-6, 0.9
+    eta, pr = por.AIR_VISCOSITY, por.AIR_PRANDTL
+    sigma = 8 * eta / (phi * a**2)
+    f = np.logspace(0, 6, 61)
+    w = 2 * np.pi * f
+
+    def bessel_ratio(s):
+        z = s * np.sqrt(-1j)
+        return 2 * jv(1, z) / (z * jv(0, z))
+
+    s = a * np.sqrt(w * RHO0 / eta)
+    rho_exact = RHO0 / (1 - bessel_ratio(s)) / phi
+    k_exact = 1.4 * 101325.0 / (1 + 0.4 * bessel_ratio(s * np.sqrt(pr))) / phi
+    rho = por.jca_effective_density(f, phi, 1.0, sigma, a)
+    kk = por.jca_bulk_modulus(f, phi, a)
+    assert np.max(np.abs(rho / rho_exact - 1)) < 0.06
+    assert np.max(np.abs(kk / k_exact - 1)) < 0.02
+    # and the limits agree to high accuracy at the ends of the range
+    np.testing.assert_allclose(rho[0], rho_exact[0], rtol=1e-3)
+    np.testing.assert_allclose(kk[0], k_exact[0], rtol=1e-3)
+
+
+def test_jca_wave_properties_and_high_frequency_speed():
+    f = np.array([100.0, 1000.0, 1e11])  # boundary-layer corrections fall only as f^-1/2
+    zc, kc = por.johnson_champoux_allard(f, PHI, ALPHA_INF, SIGMA, LAM, LAM_T)
+    assert np.all(zc.real > 0) and np.all(kc.imag < 0)
+    # high-frequency limit: c = c_adiabatic/sqrt(alpha_inf), c_ad = sqrt(gamma P0/rho0)
+    c_ad = math.sqrt(1.4 * 101325.0 / RHO0)
+    np.testing.assert_allclose(
+        2 * np.pi * f[-1] / kc[-1].real, c_ad / math.sqrt(ALPHA_INF), rtol=2e-3
+    )
+
+
+def test_limp_frame_limits():
+    # Panneton (2007) limp model: heavy frame -> rigid-frame density; locked fluid -> rho_t
+    rho_eq = por.jca_effective_density(np.array([50.0, 500.0]), PHI, ALPHA_INF, SIGMA, LAM)
+    np.testing.assert_allclose(por.limp_frame_density(rho_eq, 1e9, PHI), rho_eq, rtol=1e-6)
+    np.testing.assert_allclose(
+        por.limp_frame_density(1e12 * (1 - 1j), 30.0, PHI), 30.0 + PHI * RHO0, rtol=1e-9
+    )
+    with pytest.raises(ValueError, match="bulk_density"):
+        por.johnson_champoux_allard(100.0, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, frame="limp")
+
+
+def test_invalid_inputs():
+    with pytest.raises(ValueError, match="flow_resistivity"):
+        por.delany_bazley(1000.0, -1.0)
+    with pytest.raises(ValueError, match="porosity"):
+        por.jca_effective_density(100.0, 1.2, 1.0, 1e4, 1e-4)
+    with pytest.raises(ValueError, match="tortuosity"):
+        por.jca_effective_density(100.0, 0.9, 0.5, 1e4, 1e-4)
+    with pytest.raises(ValueError, match="thickness"):
+        por.rigid_backed_impedance(100.0, Z0, 1.0, 0.0)
