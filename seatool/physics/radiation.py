@@ -357,6 +357,11 @@ def forced_radiation_efficiency_en12354(
         Lambda = -0.964 - (0.5 + l2/(pi l1)) ln(l2/l1) + 5 l2/(2 pi l1) - 1/(4 pi l1 l2 k0^2)
         sigma_f = 0.5 (ln(k0 sqrt(l1 l2)) - Lambda),   sigma_f <= 2
 
+    Validity: ``k0 sqrt(l1 l2) >~ 1``. Below ``k0 sqrt(l1 l2) ~ 0.4`` the last term of
+    ``Lambda`` makes ``sigma_f`` rise again as ``f -> 0``, which is not physical (a small
+    panel radiates forced waves like a piston, ``sigma -> 0``); such panels are outside the
+    range of SEA anyway.
+
     The finite-panel forced radiation follows Sewell (1970); it enters the non-resonant
     transmission coefficient of :func:`seatool.physics.transmission.transmission_nonresonant`.
 
