@@ -400,7 +400,7 @@ def limp_frame_density(
     .. [1] Panneton, R. (2007) "Comments on the limp frame equivalent fluid model for porous
        media", J. Acoust. Soc. Am. 122(6), EL217-EL222, doi:10.1121/1.2800895.
     .. [2] Allard, J.F., Atalla, N. (2009) Propagation of Sound in Porous Media, 2nd ed.,
-       Wiley, ISBN 978-0-470-74661-5, sec. 6.x (limp frame).
+       Wiley, ISBN 978-0-470-74661-5 (limp-frame equivalent fluid).
     """
     rho_eq = np.asarray(rigid_density, dtype=np.complex128)
     rho1 = float(np.asarray(bulk_density, dtype=np.float64))
