@@ -687,7 +687,7 @@ def modal_radiation_efficiency_wallace(
         _positive(name, val)
     k = 2.0 * math.pi * f / c0
     ka = k * max(a, b)
-    base = int(40 + 3.0 * ka + 2.0 * max(m, n))
+    base = int(24 + ka + max(m, n))
     nt = n_theta if n_theta is not None else base
     npf = n_phi if n_phi is not None else base
     xt, wt = np.polynomial.legendre.leggauss(nt)
