@@ -8,6 +8,7 @@ from __future__ import annotations
 import argparse
 import sys
 from collections.abc import Callable, Sequence
+from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
@@ -20,7 +21,33 @@ __all__ = ["main"]
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
 
-COMMANDS: dict[str, tuple[str, Callable[[argparse.ArgumentParser], None]]] = {}
+Handler = Callable[[argparse.Namespace], int]
+
+
+@dataclass(frozen=True)
+class Command:
+    """A subcommand added by another module: help text, argument set-up and handler.
+
+    The handler returns an exit code and raises :class:`~seatool.errors.InputError` or
+    :class:`~seatool.solve.SolveError` for bad input (exit 2).
+    """
+
+    help: str
+    arguments: Callable[[argparse.ArgumentParser], None]
+    handler: Handler
+
+
+#: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
+COMMAND_MODULES: list[str] = []
+
+
+def _commands() -> dict[str, Command]:
+    import importlib
+
+    registry: dict[str, Command] = {}
+    for mod in COMMAND_MODULES:
+        importlib.import_module(mod).add_commands(registry)
+    return registry
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -58,11 +85,12 @@ def _parser() -> argparse.ArgumentParser:
         epilog="Caution: " + CAUTION,
     )
     cp.add_argument("model", help="model file (.toml)")
-    for name, (helptext, build) in COMMANDS.items():
+    for name, cmd in _commands().items():
         extra = sub.add_parser(
-            name, help=helptext, description=helptext, epilog="Caution: " + CAUTION
+            name, help=cmd.help, description=cmd.help, epilog="Caution: " + CAUTION
         )
-        build(extra)
+        cmd.arguments(extra)
+        extra.set_defaults(handler=cmd.handler)
     return p
 
 
@@ -70,6 +98,9 @@ def _load(path: str) -> Model:
     from .modelfile import load
 
     return load(path)
+
+
+load_model = _load
 
 
 def _names(model: Model, spec: str | None, file: str) -> list[str] | None:
@@ -188,7 +219,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         parser.print_help()
         return EXIT_INPUT
     try:
-        return HANDLERS[args.command](args)
+        handler = HANDLERS.get(args.command) or args.handler
+        return int(handler(args))
     except InputError as exc:
         for p in exc.problems:
             print(f"error: {p}", file=sys.stderr)

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 import numpy as np
 import numpy.typing as npt
@@ -72,6 +72,14 @@ class Subsystem:
         held at zero and it returns nothing.
     provenance : mapping
         Where each derived value came from (e.g. ``{'modal_density': 'given'}``).
+    component : str
+        The physical component this wave field belongs to (a plate carries bending,
+        longitudinal and shear fields as three subsystems of one component); defaults to
+        ``name``.
+    properties : mapping
+        Physical description used by coupling and excitation physics (see DEVELOPERS.md,
+        "Subsystem properties"): e.g. ``area``, ``thickness``, ``mass_per_area``,
+        ``wave_type``. Arrays in it are per band.
     """
 
     name: str
@@ -85,6 +93,12 @@ class Subsystem:
     sound_speed: float | None = None
     sink: bool = False
     provenance: Mapping[str, str] = field(default_factory=dict)
+    component: str = ""
+    properties: Mapping[str, Any] = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        if not self.component:
+            object.__setattr__(self, "component", self.name)
 
 
 @dataclass(frozen=True)
@@ -154,6 +168,7 @@ class Model:
                 raise ModelError(f"subsystems.{s.name}.damping must be >= 0 and finite")
             subs.append(_replace(s, modal_density=md, damping=dm))
         object.__setattr__(self, "subsystems", tuple(subs))
+        object.__setattr__(self, "_by_name", {s.name: s for s in subs})
         cons = []
         cnames: set[str] = set()
         for c in self.connections:
@@ -219,10 +234,9 @@ class Model:
         return tuple(s.name for s in self.subsystems)
 
     def subsystem(self, name: str) -> Subsystem:
-        for s in self.subsystems:
-            if s.name == name:
-                return s
-        raise KeyError(name)
+        """The subsystem called ``name`` (KeyError if there is none)."""
+        by_name: dict[str, Subsystem] = self.__dict__["_by_name"]
+        return by_name[name]
 
     def index(self) -> dict[str, int]:
         return {s.name: i for i, s in enumerate(self.subsystems)}

@@ -405,11 +405,38 @@ def _read_materials(rd: Reader, data: Any) -> None:
 
 # Subsystem kinds ------------------------------------------------------------------------
 
-SubsystemReader = Callable[[Reader, str, dict[str, Any]], Subsystem | None]
+#: A subsystem reader returns the wave fields (subsystems) of one component, or None
+#: after reporting its problems.
+SubsystemReader = Callable[[Reader, str, dict[str, Any]], "Subsystem | list[Subsystem] | None"]
+
+#: Ways to state a damping loss factor other than a spectrum: the key of the inline table
+#: (e.g. ``damping = { reverberation_time = 0.5 }``) -> reader(reader, table, path, context)
+#: returning the per-band loss factor. ``context`` carries what the subsystem reader knows
+#: (``volume``, ``surface_area``, ``fluid``, ``area``, ...).
+DampingReader = Callable[[Reader, dict[str, Any], str, Mapping[str, Any]], "Array | None"]
+DAMPING_FORMS: dict[str, DampingReader] = {}
 
 
-def _damping(rd: Reader, s: dict[str, Any], path: str) -> Array | None:
-    return rd.spectrum(s["damping"], f"{path}.damping", minimum=0.0, strict=False)
+def read_damping(
+    rd: Reader, value: Any, path: str, context: Mapping[str, Any] | None = None
+) -> Array | None:
+    """A damping loss factor: a spectrum, or one of the forms in :data:`DAMPING_FORMS`."""
+    if isinstance(value, dict) and not ({"band_hz", "values", "csv"} & set(value)):
+        forms = [k for k in value if k in DAMPING_FORMS]
+        if len(forms) != 1:
+            known = ", ".join(
+                ["a number", "{ band_hz, values }", "{ csv, column }", *DAMPING_FORMS]
+            )
+            rd.error(path, f"state damping as one of: {known}")
+            return None
+        return DAMPING_FORMS[forms[0]](rd, value, path, context or {})
+    return rd.spectrum(value, path, minimum=0.0, strict=False)
+
+
+def _damping(
+    rd: Reader, s: dict[str, Any], path: str, context: Mapping[str, Any] | None = None
+) -> Array | None:
+    return read_damping(rd, s["damping"], f"{path}.damping", context)
 
 
 def _read_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
@@ -425,7 +452,7 @@ def _read_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
         fluid = rd.fluids[fname]
     vol = rd.number(s["volume"], f"{path}.volume", unit="m^3")
     n = rd.spectrum(s["modal_density"], f"{path}.modal_density", unit="modes/Hz")
-    eta = _damping(rd, s, path)
+    eta = _damping(rd, s, path, {"volume": vol, "fluid": fluid})
     if vol is None or n is None or eta is None:
         return None
     return Subsystem(
@@ -518,21 +545,30 @@ def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
             continue
         if "description" in s:
             rd.string(s["description"], f"{path}.description")
-        sub = SUBSYSTEM_KINDS[kind](rd, name, s)
-        if sub is not None:
-            out.append(sub)
+        got = SUBSYSTEM_KINDS[kind](rd, name, s)
+        if got is None:
+            continue
+        out.extend(got if isinstance(got, list) else [got])
     return out
 
 
 # Connections ----------------------------------------------------------------------------
 
+#: A connection reader gets the connection's table, its ends (the subsystems named in
+#: ``between``, in order) and every subsystem read so far (to find the other wave fields
+#: of a component); it returns one or more connections, or None after reporting problems.
 ConnectionReader = Callable[
-    [Reader, str, dict[str, Any], tuple[Subsystem, Subsystem]], Connection | None
+    [Reader, str, dict[str, Any], list[Subsystem], Mapping[str, Subsystem]],
+    "Connection | list[Connection] | None",
 ]
 
 
 def _read_given_connection(
-    rd: Reader, name: str, s: dict[str, Any], ends: tuple[Subsystem, Subsystem]
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
 ) -> Connection | None:
     path = f"connections.{name}"
     if not rd.keys(
@@ -542,16 +578,24 @@ def _read_given_connection(
         ("coupling_loss_factor",),
     ):
         return None
+    if len(ends) != 2:
+        rd.error(
+            f"{path}.between", f"a given coupling loss factor joins two subsystems, got {len(ends)}"
+        )
+        return None
+    a, b = ends
+    if a.sink:
+        rd.error(
+            f"{path}.between",
+            f"put the exterior {a.name!r} second: a coupling loss factor is stated from the "
+            "structure into the exterior",
+        )
+        return None
     eta = rd.spectrum(s["coupling_loss_factor"], f"{path}.coupling_loss_factor")
     if eta is None:
         return None
     return Connection(
-        name,
-        ends[0].name,
-        ends[1].name,
-        eta,
-        kind="given",
-        provenance={"coupling_loss_factor": "given"},
+        name, a.name, b.name, eta, kind="given", provenance={"coupling_loss_factor": "given"}
     )
 
 
@@ -560,7 +604,7 @@ CONNECTION_KINDS: dict[str, ConnectionReader] = {"given": _read_given_connection
 
 
 def _read_connections(
-    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: list[str]
+    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: Mapping[str, None]
 ) -> list[Connection]:
     out: list[Connection] = []
     if data is _MISSING:
@@ -577,9 +621,10 @@ def _read_connections(
             rd.error(f"{path}.between", "missing required key (two subsystem names)")
             continue
         btw = s["between"]
-        if not isinstance(btw, list) or len(btw) != 2:
+        if not isinstance(btw, list) or len(btw) < 2:
             rd.error(
-                f"{path}.between", f"must be an array of two subsystem names, got {_type_name(btw)}"
+                f"{path}.between",
+                f"must be an array of at least two subsystem names, got {_type_name(btw)}",
             )
             continue
         names = []
@@ -588,20 +633,17 @@ def _read_connections(
             names.append(r)
         if None in names:
             continue
-        if names[0] == names[1]:
-            rd.error(f"{path}.between", f"connects {names[0]!r} to itself")
-            continue
-        if names[0] not in subs or names[1] not in subs:
-            continue  # that subsystem had its own problems, already reported
-        a, b = subs[names[0]], subs[names[1]]
-        if a.sink and b.sink:
-            rd.error(f"{path}.between", "two exterior subsystems cannot be connected")
-            continue
-        if a.sink:
+        if len(set(names)) != len(names):
             rd.error(
                 f"{path}.between",
-                f"put the exterior {a.name!r} second: a coupling loss factor is stated from the structure into the exterior",
+                "names the same subsystem twice (a subsystem cannot connect to itself)",
             )
+            continue
+        if any(n not in subs for n in names):
+            continue  # that subsystem had its own problems, already reported
+        ends = [subs[n] for n in names if n is not None]
+        if sum(e.sink for e in ends) > 1:
+            rd.error(f"{path}.between", "two exterior subsystems cannot be connected")
             continue
         kind = s.get("kind", "given")
         if not isinstance(kind, str) or kind not in CONNECTION_KINDS:
@@ -612,27 +654,91 @@ def _read_connections(
                 + f"; known kinds: {', '.join(CONNECTION_KINDS)}",
             )
             continue
-        con = CONNECTION_KINDS[kind](rd, name, s, (a, b))
-        if con is not None:
-            out.append(con)
+        got = CONNECTION_KINDS[kind](rd, name, s, ends, subs)
+        if got is None:
+            continue
+        out.extend(got if isinstance(got, list) else [got])
     return out
 
 
 # Excitations ----------------------------------------------------------------------------
 
-#: Keys that state what an excitation gives, with the subsystem quantity they need
-#: (None: any subsystem) and their unit.
-EXCITATION_KEYS: dict[str, tuple[str | None, str]] = {
-    "power": (None, "W"),
-    "sound_power_level": (None, "dB re 1 pW"),
-    "sound_pressure_level": ("sound_pressure", "dB re 20 uPa"),
-    "velocity_level": ("velocity", "dB re 1e-9 m/s"),
-    "acceleration_level": ("velocity", "dB re 1e-6 m/s^2"),
+ExcitationConvert = Callable[
+    [Reader, Subsystem, Array, str, dict[str, Any]], "tuple[str, Array] | None"
+]
+
+
+@dataclass(frozen=True)
+class ExcitationKey:
+    """How one excitation key is read.
+
+    ``convert(reader, subsystem, values, path, table)`` turns the per-band values into
+    ``('power', watts)`` or ``('prescribed', joules)``, or reports a problem and returns
+    None. ``extra`` lists further keys this form accepts in the same table.
+    """
+
+    unit: str
+    convert: ExcitationConvert
+    minimum: float | None = None
+    strict: bool = True
+    extra: tuple[str, ...] = ()
+
+
+def _need(rd: Reader, sub: Subsystem, path: str, quantity: str) -> bool:
+    if sub.quantity != quantity:
+        key = path.rsplit(".", 1)[-1]
+        rd.error(
+            path,
+            f"{key} needs a subsystem whose level is {quantity.replace('_', ' ')}; "
+            f"{sub.name!r} is a {sub.kind}",
+        )
+        return False
+    return True
+
+
+def _conv_power(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
+    return "power", v
+
+
+def _conv_power_level(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
+    return "power", levels.REFERENCE["power"] * 10.0 ** (v / 10.0)
+
+
+def _conv_spl(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
+    if not _need(rd, sub, path, "sound_pressure"):
+        return None
+    assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
+    p_sq = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (v / 10.0)
+    return "prescribed", p_sq * sub.volume / (sub.density * sub.sound_speed**2)
+
+
+def _conv_velocity(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
+    if not _need(rd, sub, path, "velocity"):
+        return None
+    assert sub.mass is not None
+    return "prescribed", sub.mass * levels.REFERENCE["velocity"] ** 2 * 10.0 ** (v / 10.0)
+
+
+def _conv_acceleration(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
+    if not _need(rd, sub, path, "velocity"):
+        return None
+    assert sub.mass is not None and rd.bands is not None
+    a_sq = levels.REFERENCE["acceleration"] ** 2 * 10.0 ** (v / 10.0)
+    return "prescribed", sub.mass * a_sq / rd.bands.omega**2
+
+
+#: Keys that state what an excitation gives (exactly one per excitation).
+EXCITATION_KEYS: dict[str, ExcitationKey] = {
+    "power": ExcitationKey("W", _conv_power, minimum=0.0, strict=False),
+    "sound_power_level": ExcitationKey("dB re 1 pW", _conv_power_level),
+    "sound_pressure_level": ExcitationKey("dB re 20 uPa", _conv_spl),
+    "velocity_level": ExcitationKey("dB re 1e-9 m/s", _conv_velocity),
+    "acceleration_level": ExcitationKey("dB re 1e-6 m/s^2", _conv_acceleration),
 }
 
 
 def _read_excitations(
-    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: list[str]
+    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: Mapping[str, None]
 ) -> list[Excitation]:
     out: list[Excitation] = []
     if data is _MISSING:
@@ -640,8 +746,6 @@ def _read_excitations(
     t = rd.table(data, "excitations")
     if t is None:
         return out
-    assert rd.bands is not None
-    omega = rd.bands.omega
     held: dict[str, str] = {}
     powered: dict[str, str] = {}
     for name, spec in t.items():
@@ -649,90 +753,72 @@ def _read_excitations(
         s = rd.table(spec, path)
         if s is None:
             continue
-        allowed = ("subsystem", "description", *EXCITATION_KEYS)
+        given = [k for k in EXCITATION_KEYS if k in s]
+        extra = tuple(x for k in given for x in EXCITATION_KEYS[k].extra)
+        allowed = ("subsystem", "description", *EXCITATION_KEYS, *extra)
         if not rd.keys(s, path, allowed, ("subsystem",)):
             continue
-        given = [k for k in EXCITATION_KEYS if k in s]
         if len(given) != 1:
             what = "none" if not given else ", ".join(given)
             rd.error(path, f"give exactly one of {', '.join(EXCITATION_KEYS)} (got {what})")
             continue
         key = given[0]
+        spec_key = EXCITATION_KEYS[key]
         sname = rd.name_ref(s["subsystem"], f"{path}.subsystem", declared, "subsystem")
         if sname is None or sname not in subs:
             continue
         sub = subs[sname]
-        need, unit = EXCITATION_KEYS[key]
         if sub.sink:
             rd.error(f"{path}.subsystem", f"{sname!r} is the exterior; it cannot be excited")
             continue
-        if need is not None and sub.quantity != need:
-            rd.error(
-                f"{path}.{key}",
-                f"{key} needs a subsystem whose level is {need.replace('_', ' ')}; {sname!r} is a {sub.kind}",
-            )
-            continue
         kpath = f"{path}.{key}"
-        if key == "power":
-            v = rd.spectrum(s[key], kpath, unit=unit, minimum=0.0, strict=False)
-            if v is None:
-                continue
-            power: Array | None = v
-        elif key == "sound_power_level":
-            v = rd.spectrum(s[key], kpath, unit=unit, minimum=None)
-            if v is None:
-                continue
-            power = levels.REFERENCE["power"] * 10.0 ** (v / 10.0)
-        else:
-            v = rd.spectrum(s[key], kpath, unit=unit, minimum=None)
-            if v is None:
-                continue
-            energy = _level_to_energy(key, v, sub, omega)
+        v = rd.spectrum(
+            s[key], kpath, unit=spec_key.unit, minimum=spec_key.minimum, strict=spec_key.strict
+        )
+        if v is None:
+            continue
+        got = spec_key.convert(rd, sub, v, kpath, s)
+        if got is None:
+            continue
+        kind, arr = got
+        desc = s.get("description", "")
+        desc = desc if isinstance(desc, str) else ""
+        if kind == "prescribed":
             if sname in held or sname in powered:
                 other = held.get(sname) or powered[sname]
                 rd.error(
                     kpath,
-                    f"{sname!r} already has excitation {other!r}; a prescribed level must be the only excitation of its subsystem",
+                    f"{sname!r} already has excitation {other!r}; a prescribed level must be "
+                    "the only excitation of its subsystem",
                 )
                 continue
             held[sname] = name
-            out.append(Excitation(name, sname, "prescribed", energy=energy, level=v, quantity=key))
+            out.append(
+                Excitation(
+                    name, sname, "prescribed", energy=arr, level=v, quantity=key, description=desc
+                )
+            )
             continue
         if sname in held:
             rd.error(
                 kpath,
-                f"{sname!r} has the prescribed level {held[sname]!r}; it cannot also take an input power",
+                f"{sname!r} has the prescribed level {held[sname]!r}; it cannot also take an "
+                "input power",
             )
             continue
         powered.setdefault(sname, name)
         out.append(
-            Excitation(
-                name, sname, "power", power=power, level=v if key != "power" else None, quantity=key
-            )
+            Excitation(name, sname, "power", power=arr, level=v, quantity=key, description=desc)
         )
     return out
-
-
-def _level_to_energy(key: str, level: Array, sub: Subsystem, omega: Array) -> Array:
-    """Band energy that produces a prescribed level (inverse of :mod:`seatool.levels`)."""
-    if key == "sound_pressure_level":
-        assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
-        p_sq = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (level / 10.0)
-        return p_sq * sub.volume / (sub.density * sub.sound_speed**2)
-    assert sub.mass is not None
-    if key == "velocity_level":
-        v_sq = levels.REFERENCE["velocity"] ** 2 * 10.0 ** (level / 10.0)
-    else:
-        v_sq = levels.REFERENCE["acceleration"] ** 2 * 10.0 ** (level / 10.0) / omega**2
-    return sub.mass * v_sq
 
 
 # ----------------------------------------------------------------------------------------
 
 
-def _declared_subsystems(data: Mapping[str, Any]) -> list[str]:
+def _declared_subsystems(data: Mapping[str, Any]) -> dict[str, None]:
     subs = data.get("subsystems")
-    return list(subs) if isinstance(subs, dict) else []
+    return dict.fromkeys(subs) if isinstance(subs, dict) else {}
 
 
 def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
