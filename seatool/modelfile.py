@@ -821,8 +821,22 @@ def _declared_subsystems(data: Mapping[str, Any]) -> dict[str, None]:
     return dict.fromkeys(subs) if isinstance(subs, dict) else {}
 
 
+#: Modules that register further readers into the registries above (imported before the
+#: first model is read, so that physics-derived kinds are available).
+READER_MODULES: list[str] = []
+
+
+def register_readers() -> None:
+    """Import every module of :data:`READER_MODULES` (idempotent)."""
+    import importlib
+
+    for mod in READER_MODULES:
+        importlib.import_module(mod)
+
+
 def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
     """Read a model from TOML text. See :func:`load`."""
+    register_readers()
     rd = Reader(file=file, base_dir=Path(base_dir))
     try:
         data = tomllib.loads(text)
