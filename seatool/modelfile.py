@@ -52,6 +52,7 @@ _TOP_KEYS = (
     "subsystems",
     "connections",
     "excitations",
+    "uncertainty",  # read by seatool.analysis (parameter spreads), ignored by the solve
 )
 
 _MISSING = object()
@@ -836,12 +837,20 @@ def register_readers() -> None:
 
 def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
     """Read a model from TOML text. See :func:`load`."""
-    register_readers()
-    rd = Reader(file=file, base_dir=Path(base_dir))
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError([Problem(file, "", f"not valid TOML: {exc}")]) from None
+    return build(data, file=file, base_dir=base_dir)
+
+
+def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path = ".") -> Model:
+    """Validate parsed model-file data (nested dicts as from ``tomllib``) into a Model.
+
+    Used by :func:`loads`, and by analyses that rebuild a model with changed parameters.
+    """
+    register_readers()
+    rd = Reader(file=file, base_dir=Path(base_dir))
     rd.keys(data, "", _TOP_KEYS)
     title = data.get("title", "")
     if not isinstance(title, str):
