@@ -7,6 +7,9 @@ writes each as a model file, and times
 * load: reading and validating the TOML file,
 * assemble + solve: :func:`seatool.solve.assemble` and :func:`seatool.solve.solve`
   (including the conditioning and conservation checks),
+* bare CG: ``scipy.sparse.linalg.cg`` with a Jacobi preconditioner on the symmetric form of
+  the same matrices, one solve per band (what seatool uses above ``ITERATIVE_ABOVE``
+  unknowns; seatool does two such solves per band, the second for the condition number),
 * floor: ``scipy.sparse.linalg.spsolve`` of the very same per-band matrices, prebuilt,
   with the symmetric-structure ordering ``MMD_AT_PLUS_A`` (the default COLAMD ordering is
   far slower on these patterns: minutes per band at 10,000 subsystems).
@@ -22,7 +25,6 @@ import time
 from pathlib import Path
 
 import numpy as np
-
 import scipy.sparse.linalg as spla
 
 import seatool
@@ -62,6 +64,17 @@ def floor_matrices(asm):  # type: ignore[no-untyped-def]
     return mats, rhs
 
 
+def symmetric_systems(model, mats, rhs):  # type: ignore[no-untyped-def]
+    import scipy.sparse as sp
+
+    out = []
+    for j, (a, b) in enumerate(zip(mats, rhs, strict=True)):
+        n = np.array([s.modal_density[j] for s in model.subsystems])
+        c = (a @ sp.diags(n)).tocsr()
+        out.append((c, b, c.diagonal()))
+    return out
+
+
 def best(fn, repeat: int) -> float:  # type: ignore[no-untyped-def]
     times = []
     for _ in range(repeat):
@@ -76,7 +89,10 @@ def main() -> None:
     ap.add_argument("--sizes", type=int, nargs="+", default=[100, 1000, 10000])
     ap.add_argument("--repeat", type=int, default=3)
     args = ap.parse_args()
-    print(f"{'subsystems':>10} {'bands':>5} {'load s':>8} {'asm+solve s':>11} {'floor s':>8} {'ratio':>6}")
+    print(
+        f"{'subsystems':>10} {'bands':>5} {'load s':>8} {'asm+solve s':>11} {'bare cg s':>9} "
+        f"{'floor s':>8} {'ratio':>6}"
+    )
     with tempfile.TemporaryDirectory() as tmp:
         for n in args.sizes:
             path = Path(tmp) / f"bench_{n}.toml"
@@ -93,17 +109,30 @@ def main() -> None:
                 for a, b in zip(mats, rhs, strict=True):
                     spla.spsolve(a, b, permc_spec="MMD_AT_PLUS_A")
 
+            systems = symmetric_systems(model, mats, rhs)
+
+            def bare_cg(systems=systems):  # type: ignore[no-untyped-def]
+                for c, b, d in systems:
+                    prec = spla.LinearOperator(c.shape, matvec=lambda v, d=d: v / d)
+                    spla.cg(c, b, rtol=1e-14, atol=0.0, M=prec)
+
             t_ours = best(ours, args.repeat)
+            t_cg = best(bare_cg, args.repeat)
             t_floor = best(floor, args.repeat)
             # same answer as the floor
             e = solve(model, asm).energy
-            e0 = np.column_stack([spla.spsolve(a, b, permc_spec="MMD_AT_PLUS_A") for a, b in zip(mats, rhs, strict=True)])
+            e0 = np.column_stack(
+                [
+                    spla.spsolve(a, b, permc_spec="MMD_AT_PLUS_A")
+                    for a, b in zip(mats, rhs, strict=True)
+                ]
+            )
             assert np.allclose(e, e0, rtol=1e-9), "benchmark solve disagrees with the floor"
             print(
-                f"{n:>10} {len(model.bands):>5} {t_load:>8.3f} {t_ours:>11.3f} {t_floor:>8.3f} "
+                f"{n:>10} {len(model.bands):>5} {t_load:>8.3f} {t_ours:>11.3f} {t_cg:>9.3f} "
+                f"{t_floor:>8.3f} "
                 f"{t_ours / t_floor:>6.2f}"
             )
-
 
 
 if __name__ == "__main__":
