@@ -188,6 +188,9 @@ def summary(model: Model) -> str:
         else:
             assert e.level is not None
             out.append(f"  {e.name}: {e.subsystem} held at {e.quantity} {_range(e.level)} dB")
+    from .kinds.treatment import summary_lines  # treated plates, linings (mass per area)
+
+    out.extend(summary_lines(model))
     for note in model.notes:
         out.append(f"note: {note}")
     return "\n".join(out)
