@@ -91,7 +91,7 @@ _KIND_KEYS: dict[str, tuple[str, ...]] = {
     "air_gap": ("thickness",),
 }
 _REQUIRED: dict[str, tuple[str, ...]] = {
-    "porous": ("thickness", "flow_resistivity"),
+    "porous": ("thickness", "density", "flow_resistivity"),
     "heavy_layer": ("thickness", "density"),
     "viscoelastic": ("thickness", "density", "modulus"),
     "air_gap": ("thickness",),
@@ -896,13 +896,12 @@ def read_plate_treatment(
         want = "shear" if constrained else "young"
         if vt.modulus.kind != want:
             what = (
-                "a constrained core needs a shear"
+                "a constrained core needs a shear modulus table"
                 if constrained
-                else "a free layer needs a Young's"
+                else "a free layer needs a Young's modulus table (a constrained layer needs "
+                "cover = { material, thickness })"
             )
-            rd.error(
-                lp, f"{layer.name!r} has a {vt.modulus.kind} modulus table; {what} modulus table"
-            )
+            rd.error(lp, f"{layer.name!r} has a {vt.modulus.kind} modulus table; {what}")
             return None
         if homog is None:
             rd.error(lp, "a damping layer needs a homogeneous plate (thickness and material)")
