@@ -55,16 +55,15 @@ from seatool.physics.damping import ModulusTable
 from seatool.treatments import Treatment, load_treatments
 
 if TYPE_CHECKING:
-    from seatool.model import Model, Subsystem
+    from seatool.model import Model
 
 __all__ = [
     "PlateTreatment",
     "TrimLayer",
-    "insertion_loss_into",
+    "lining_absorption",
     "read_layers",
     "read_plate_treatment",
     "summary_lines",
-    "treated_plate_properties",
 ]
 
 Array = npt.NDArray[np.float64]
@@ -1027,38 +1026,6 @@ def _frozen(a: Array | None) -> Array | None:
     out = np.array(a, dtype=np.float64)
     out.setflags(write=False)
     return out
-
-
-def treated_plate_properties(
-    plate: Mapping[str, Any], treatment: PlateTreatment | None
-) -> dict[str, Any]:
-    """A plate's properties with its treatment applied (for plate readers).
-
-    Returns a copy of ``plate`` with ``mass_per_area`` increased by the bonded added mass,
-    ``treatment`` set to the :class:`PlateTreatment`, and, for a damping layer,
-    ``treated_bending_stiffness`` (Re D* per band, for information).
-    """
-    out = dict(plate)
-    if treatment is None:
-        return out
-    if "mass_per_area" in out:
-        out["mass_per_area"] = float(out["mass_per_area"]) + treatment.added_mass_per_area
-    out["treatment"] = treatment
-    if treatment.bending_stiffness is not None:
-        out["treated_bending_stiffness"] = treatment.bending_stiffness
-    return out
-
-
-def insertion_loss_into(sub: Subsystem, cavity: str) -> Array | None:
-    """Trim insertion loss [dB] of a treated plate on its face into ``cavity``, or None.
-
-    For radiation and non-resonant connection readers: multiply the coupling loss factor
-    between ``sub`` and ``cavity`` by 10^(-IL/10).
-    """
-    t = sub.properties.get("treatment")
-    if isinstance(t, PlateTreatment) and t.face == cavity:
-        return t.insertion_loss_db
-    return None
 
 
 # ------------------------------------------------------------------------------------------
