@@ -1,0 +1,401 @@
+"""What the receiver's level is sensitive to: adjoint sensitivities of the power balance.
+
+For the free block of one band, ``L_UU E_U = b`` with
+``b = P_U / omega + sum_held eta_hu E_h``. The receiver r (free) has
+``dE_r = lam^T (db - dL_UU E_U)`` with the adjoint ``L_UU^T lam = e_r``. Because
+``C = L_UU diag(n_U)`` is symmetric, ``L_UU^T = diag(1/n_U) C`` and the adjoint is
+``C lam = n_r e_r``: the same matrix as the forward solve, one more solve with the same
+factorisation (Giles & Pierce 2000, "An introduction to the adjoint approach to design",
+Flow Turbul. Combust. 65, 393-415, from memory, for the adjoint method in general).
+
+With lam set to zero on held subsystems, the derivatives of E_r with respect to the
+assembled arrays are (derivation in ``docs/theory/analysis.md``)::
+
+    dE_r/d eta_i   = -lam_i E_i                      (damping loss factor, free i)
+    dE_r/d eta_ab  = -(lam_a - lam_b) E_a            (eta_ba held fixed)
+    dE_r/d eta_ba  = -(lam_b - lam_a) E_b            (eta_ab held fixed)
+    dE_r/d P_i     =  lam_i / omega
+    dE_r/d E_h     =  sum over connections of h: lam_other eta_(h -> other)
+
+A stated coupling loss factor eta_ab drags eta_ba = eta_ab n_a / n_b with it
+(reciprocity), so d/d ln eta_ab = eta_ab dE/d eta_ab + eta_ba dE/d eta_ba
+= -(lam_a - lam_b) q_ab / omega (q_ab the net connection power). A modal density enters
+only through eta_ba (d ln eta_ba / d ln n_a = 1, d ln eta_ba / d ln n_b = -1).
+
+Units. ``dL_dlnx_dB`` is dL / d(ln x) [dB per unit of ln x]; ``db_per_db`` is
+dL / d(10 lg x) = (ln 10 / 10) dL/d(ln x), dimensionless (= d ln E_r / d ln x plus the
+level-conversion term); ``db_per_percent`` is the linearised change for a 1 % increase,
+dL/d(ln x) / 100 [dB].
+
+Physical parameters (key paths into the model file) follow by the chain rule
+``dL/d ln p = sum_k dL/dX_k dX_k/d ln p + d offset/d ln p``, where X runs over the
+assembled arrays (damping, both coupling directions, input powers, held energies) and
+``offset`` is the receiver's energy-to-level conversion (volume, density, mass). The
+derivatives dX/d ln p are central differences of the *model building only* (the model is
+rebuilt with ``p exp(+-h)`` through :func:`seatool.modelfile.build`; no re-solve).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import numpy.typing as npt
+import pandas as pd
+
+from ..errors import InputError, Problem
+from ..model import Model
+from ..modelfile import build
+from ..results import Result
+from ..solve import Assembly, assemble
+from ..solve import solve as core_solve
+from ._keypath import resolve, with_value
+from ._system import FreeBlock, level_offset, receiver_index, validity_columns
+
+__all__ = ["Gradients", "gradients", "parameter_sensitivities", "ranking", "sensitivities"]
+
+Array = npt.NDArray[np.float64]
+
+DB_PER_NEPER = 10.0 / np.log(10.0)
+
+
+@dataclass(frozen=True)
+class Gradients:
+    """Derivatives of the receiver energy E_r (B,) with respect to the assembled arrays."""
+
+    receiver: int
+    energy: Array  # (N, B) energies of the solved model [J]
+    damping: Array  # (N, B) dE_r / d eta_i
+    eta_ab: Array  # (C, B) dE_r / d eta_ab (eta_ba fixed)
+    eta_ba: Array  # (C, B) dE_r / d eta_ba (eta_ab fixed)
+    power: Array  # (N, B) dE_r / d P_i
+    held_energy: Array  # (N, B) dE_r / d E_h
+
+    @property
+    def receiver_energy(self) -> Array:
+        return self.energy[self.receiver]
+
+
+def gradients(
+    model: Model, receiver: str, *, result: Result | None = None, asm: Assembly | None = None
+) -> Gradients:
+    """Adjoint derivatives of the receiver's energy, all bands (one factorisation each).
+
+    If ``result`` is given its energies are used and each band needs only the adjoint
+    solve; otherwise the forward and the adjoint solve share one factorisation per band.
+    """
+    r = receiver_index(model, receiver)
+    if model.subsystems[r].sink:
+        raise InputError(
+            [
+                Problem(
+                    model.source,
+                    "--to",
+                    f"{receiver!r} is the exterior sink and has no level; choose a subsystem "
+                    "with a level",
+                )
+            ]
+        )
+    asm = assemble(model) if asm is None else asm
+    n, nb = asm.shape
+    nc = asm.a.size
+    blk = FreeBlock.of(model, asm)
+    lam = np.zeros((n, nb))
+    if result is not None:
+        energy = np.array(result.energy, dtype=float)
+    else:
+        energy = np.array(asm.held_energy, dtype=float)
+    held_r = bool(asm.held[r])
+    if not held_r:
+        pr = int(blk.pos[r])
+        for j, lu in blk.factors(model):
+            assert lu is not None
+            e_r = np.zeros(blk.nf)
+            e_r[pr] = blk.n_free[pr, j]
+            if result is None:
+                rhs = blk.rhs(asm.power[:, j : j + 1], asm.held_energy[:, j : j + 1], j)
+                both = lu.solve(np.column_stack([rhs[:, 0], e_r]))
+                energy[blk.free, j] = blk.n_free[:, j] * both[:, 0]
+                lam[blk.free, j] = both[:, 1]
+            else:
+                lam[blk.free, j] = lu.solve(e_r)
+    a, b = asm.a, asm.b
+    g_damp = np.where(asm.held[:, None], 0.0, -lam * energy)
+    g_ab = -(lam[a] - lam[b]) * energy[a] if nc else np.zeros((0, nb))
+    g_ba = -(lam[b] - lam[a]) * energy[b] if nc else np.zeros((0, nb))
+    g_p = lam / asm.omega
+    g_h = np.zeros((n, nb))
+    np.add.at(g_h, a, lam[b] * asm.eta_ab)
+    np.add.at(g_h, b, lam[a] * asm.eta_ba)
+    g_h = np.where(asm.held[:, None], g_h, 0.0)
+    if held_r:
+        g_h[r] = 1.0
+    return Gradients(r, energy, g_damp, g_ab, g_ba, g_p, g_h)
+
+
+def _rows(
+    model: Model,
+    asm: Assembly,
+    g: Gradients,
+    names: list[str],
+    kinds: list[str],
+    targets: list[str],
+    d_e: list[Array],
+    d_offset: list[float] | None = None,
+) -> pd.DataFrame:
+    nb = len(model.bands)
+    er = g.receiver_energy
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rel = np.vstack(d_e) / er if d_e else np.zeros((0, nb))
+    rel = np.where(er > 0, rel, np.nan)
+    dl = DB_PER_NEPER * rel
+    if d_offset is not None:
+        dl = dl + np.asarray(d_offset)[:, None]
+    k = len(names)
+    valid = validity_columns(model, asm, g.receiver)
+    return pd.DataFrame(
+        {
+            "receiver": model.subsystems[g.receiver].name,
+            "parameter": np.repeat(names, nb),
+            "kind": np.repeat(kinds, nb),
+            "target": np.repeat(targets, nb),
+            "band_hz": np.tile(model.bands.nominal, k),
+            "band_exact_hz": np.tile(model.bands.centre, k),
+            "dL_dlnx_dB": dl.ravel(),
+            "db_per_db": (dl / DB_PER_NEPER).ravel(),
+            "db_per_percent": (dl / 100.0).ravel(),
+            **{c: np.tile(v, k) for c, v in valid.items()},
+        }
+    )
+
+
+def sensitivities(
+    model: Model, receiver: str, *, result: Result | None = None
+) -> pd.DataFrame:
+    """Sensitivity of the receiver's band level to every quantity of the assembled model.
+
+    Parameters: ``damping:NAME`` (damping loss factor of a subsystem),
+    ``coupling:NAME`` (stated coupling loss factor of a connection, reverse direction
+    tied by reciprocity), ``modal_density:NAME``, ``power:EXCITATION`` (input power),
+    ``held_level:EXCITATION`` (a prescribed level's energy; db_per_db = dB of receiver
+    per dB of the held level).
+
+    Returns
+    -------
+    pandas.DataFrame
+        One row per parameter and band: ``receiver, parameter, kind, target, band_hz,
+        band_exact_hz, dL_dlnx_dB, db_per_db, db_per_percent, modes_in_band,
+        modal_overlap, valid``. NaN where the receiver gets no energy (its level is
+        minus infinity).
+    """
+    asm = assemble(model)
+    g = gradients(model, receiver, result=result, asm=asm)
+    names: list[str] = []
+    kinds: list[str] = []
+    targets: list[str] = []
+    d_e: list[Array] = []
+    sinks = np.array([s.sink for s in model.subsystems])
+    for i, s in enumerate(model.subsystems):
+        if s.sink:
+            continue
+        names.append(f"damping:{s.name}")
+        kinds.append("damping")
+        targets.append(s.name)
+        d_e.append(asm.damping[i] * g.damping[i])
+    for c, con in enumerate(model.connections):
+        names.append(f"coupling:{con.name}")
+        kinds.append("coupling")
+        targets.append(con.name)
+        d_e.append(asm.eta_ab[c] * g.eta_ab[c] + asm.eta_ba[c] * g.eta_ba[c])
+    term = asm.eta_ba * g.eta_ba  # dE_r / d ln eta_ba, (C, B)
+    for i, s in enumerate(model.subsystems):
+        if s.sink:
+            continue
+        as_a = (asm.a == i) & ~sinks[asm.b]
+        as_b = asm.b == i
+        names.append(f"modal_density:{s.name}")
+        kinds.append("modal_density")
+        targets.append(s.name)
+        d_e.append(term[as_a].sum(axis=0) - term[as_b].sum(axis=0))
+    idx = model.index()
+    for e in model.excitations:
+        i = idx[e.subsystem]
+        if e.kind == "power":
+            assert e.power is not None
+            names.append(f"power:{e.name}")
+            kinds.append("power")
+            d_e.append(e.power * g.power[i])
+        else:
+            assert e.energy is not None
+            names.append(f"held_level:{e.name}")
+            kinds.append("held_level")
+            d_e.append(e.energy * g.held_energy[i])
+        targets.append(e.name)
+    return _rows(model, asm, g, names, kinds, targets, d_e)
+
+
+def _same_structure(m0: Model, m1: Model, a0: Assembly, a1: Assembly) -> str | None:
+    if m0.names != m1.names:
+        return "changes the set of subsystems"
+    if [(c.name, c.a, c.b) for c in m0.connections] != [
+        (c.name, c.a, c.b) for c in m1.connections
+    ]:
+        return "changes the set of connections"
+    if not np.array_equal(a0.held, a1.held):
+        return "changes which subsystems are held"
+    return None
+
+
+def _dx(x0: Array, xp: Array, xm: Array, h: float) -> Array:
+    """dX/d ln p from X(p e^h), X(p e^-h): in log space where X > 0 (exact for power laws)."""
+    pos = (x0 > 0) & (xp > 0) & (xm > 0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        logd = x0 * (np.log(np.where(pos, xp, 1.0)) - np.log(np.where(pos, xm, 1.0))) / (2 * h)
+    return np.where(pos, logd, (xp - xm) / (2 * h))
+
+
+def parameter_sensitivities(
+    data: Mapping[str, Any],
+    receiver: str,
+    params: Sequence[str],
+    *,
+    file: str = "<data>",
+    base_dir: str | Path = ".",
+    step: float = 1e-4,
+    model: Model | None = None,
+) -> pd.DataFrame:
+    """Sensitivity of the receiver's band level to physical parameters of the model file.
+
+    Parameters
+    ----------
+    data : mapping
+        Parsed model file (as from ``tomllib``); not changed.
+    receiver : str
+        Receiving subsystem.
+    params : sequence of str
+        Key paths of numbers or spectra in the file, e.g. ``subsystems.floor.thickness``
+        (a spectrum is scaled as a whole, the same factor in every band).
+    file, base_dir :
+        Passed to :func:`seatool.modelfile.build` (messages, relative CSV paths).
+    step : float, optional
+        Log step h of the central differences of the model building (default 1e-4).
+    model : Model, optional
+        The model built from ``data`` (built here if not given).
+
+    Returns
+    -------
+    pandas.DataFrame
+        As :func:`sensitivities`, ``kind = 'parameter'``, ``parameter`` = the key path.
+
+    Notes
+    -----
+    ``dL/d ln p = (10 / ln 10) (1 / E_r) sum_k (dE_r/dX_k) dX_k/d ln p
+    + (offset(p e^h) - offset(p e^-h)) / (2h)``, with the adjoint derivatives dE_r/dX of
+    :func:`gradients` and X the assembled arrays. ``dX/d ln p`` is the central
+    difference of ``ln X`` times X where X > 0 (exact for a power law X ~ p^k, which most
+    SEA quantities are locally), else of X. The model is rebuilt twice per parameter but
+    solved once in all.
+    """
+    if not 0 < step < 0.1:
+        raise ValueError("step must be in (0, 0.1)")
+    problems = []
+    for p in params:
+        _, msg = resolve(data, p)
+        if msg is not None:
+            problems.append(Problem(file, p, msg))
+    if problems:
+        raise InputError(problems)
+    m0 = build(data, file=file, base_dir=base_dir) if model is None else model
+    a0 = assemble(m0)
+    g = gradients(m0, receiver, asm=a0)
+    r = g.receiver
+    d_e: list[Array] = []
+    d_off: list[float] = []
+    for p in params:
+        built = []
+        for sign in (1.0, -1.0):
+            factor = float(np.exp(sign * step))
+            d = with_value(data, p, lambda v, f=factor: v * f)  # type: ignore[misc]
+            try:
+                m = build(d, file=file, base_dir=base_dir)
+            except InputError as exc:
+                first = exc.problems[0] if exc.problems else None
+                raise InputError(
+                    [Problem(file, p, f"cannot vary this parameter by {step:g} in ln: {first}")]
+                ) from None
+            asm = assemble(m)
+            why = _same_structure(m0, m, a0, asm)
+            if why is not None:
+                raise InputError([Problem(file, p, f"varying this parameter {why}")])
+            built.append((m, asm))
+        (mp, ap), (mm, am) = built
+        h2 = 2.0 * step
+        de = np.zeros(len(m0.bands))
+        for field in ("damping", "eta_ab", "eta_ba", "power", "held_energy"):
+            de += (getattr(g, field) * _dx(getattr(a0, field), getattr(ap, field),
+                                           getattr(am, field), step)).sum(axis=0)
+        d_e.append(de)
+        d_off.append((level_offset(mp, r) - level_offset(mm, r)) / h2)
+    n = len(params)
+    return _rows(m0, a0, g, list(params), ["parameter"] * n, list(params), d_e, d_off)
+
+
+def ranking(table: pd.DataFrame) -> pd.DataFrame:
+    """Rank the parameters of a sensitivity table by their effect on the overall level.
+
+    ``overall_db_per_db`` is the sensitivity of the receiver's overall (energetic band
+    sum) level: the band sensitivities weighted by each band's share of the overall mean
+    square, ``w_b = 10^(L_b/10) / sum 10^(L/10)`` (the derivative of
+    ``10 lg sum_b 10^(L_b/10)``). The table needs the receiver's band levels in a
+    ``level_dB`` column (:func:`add_levels`). ``max_abs_db_per_db`` is the largest band
+    value in magnitude, ``band_of_max`` its band and ``valid_at_max`` whether the receiver
+    meets the validity conditions there.
+    """
+    t = table.copy()
+    if "level_dB" not in t.columns:
+        raise ValueError("ranking needs a level_dB column (use add_levels first)")
+    lv = t["level_dB"].to_numpy(dtype=float)
+    t["_q"] = np.where(np.isfinite(lv), 10.0 ** (lv / 10.0), 0.0)
+    out = []
+    for (param, kind), grp in t.groupby(["parameter", "kind"], sort=False):
+        q = grp["_q"].to_numpy()
+        s = grp["db_per_db"].to_numpy(dtype=float)
+        w = q / q.sum() if q.sum() > 0 else np.zeros_like(q)
+        ok = np.isfinite(s)
+        overall = float(np.sum(w[ok] * s[ok])) if ok.any() else float("nan")
+        k = int(np.nanargmax(np.abs(s))) if ok.any() else 0
+        out.append(
+            {
+                "parameter": param,
+                "kind": kind,
+                "overall_db_per_db": overall,
+                "max_abs_db_per_db": float(np.abs(s[k])) if ok.any() else float("nan"),
+                "band_of_max": float(grp["band_hz"].to_numpy()[k]),
+                "valid_at_max": bool(grp["valid"].to_numpy()[k]),
+            }
+        )
+    df = pd.DataFrame(out)
+    if df.empty:
+        return df
+    df = df.sort_values(
+        "overall_db_per_db", key=lambda x: -np.abs(x.fillna(0.0)), kind="stable"
+    ).reset_index(drop=True)
+    df.insert(0, "rank", np.arange(1, len(df) + 1))
+    return df
+
+
+def add_levels(table: pd.DataFrame, model: Model, result: Result | None = None) -> pd.DataFrame:
+    """Join the receiver's band level (``level_dB``) to a sensitivity table."""
+    result = Result(model, core_solve(model)) if result is None else result
+    lv, _, _ = result.level_array()
+    idx = model.index()
+    nb = len(model.bands)
+    r = idx[str(table["receiver"].iloc[0])] if len(table) else 0
+    band_pos = {float(f): j for j, f in enumerate(model.bands.nominal)}
+    del nb
+    return table.assign(
+        level_dB=[float(lv[r, band_pos[float(f)]]) for f in table["band_hz"].to_numpy()]
+    )
