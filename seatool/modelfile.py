@@ -824,7 +824,7 @@ def _declared_subsystems(data: Mapping[str, Any]) -> dict[str, None]:
 
 #: Modules that register further readers into the registries above (imported before the
 #: first model is read, so that physics-derived kinds are available).
-READER_MODULES: list[str] = []
+READER_MODULES: list[str] = ["seatool.kinds.connections"]
 
 
 def register_readers() -> None:

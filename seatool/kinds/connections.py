@@ -1,0 +1,866 @@
+"""Connection kinds whose coupling loss factors are derived from physics.
+
+Importing this module registers these readers into
+:data:`seatool.modelfile.CONNECTION_KINDS`:
+
+``radiation``
+    plate or shell (bending field) <-> cavity or the exterior sink, resonant radiation
+    ``eta = rho c sigma / (omega m'')`` with the band-averaged radiation efficiency.
+``nonresonant``
+    cavity <-> cavity through a named panel, the forced-wave ("mass-law") path
+    ``eta_12 = c S tau_NR / (4 omega V_1)``.
+``line``
+    line junction of two or more plates along a seam, rigid, wave model with bending
+    and (when the plates carry them) in-plane wave fields,
+    ``eta_ij = c_g,i L tau_ij / (pi omega S_i)``.
+``point``
+    rigid point connections between plates and beams from drive-point mobilities.
+``mount``
+    resilient mounts (massless springs with a loss factor) at points.
+``leak``
+    aperture between two cavities, ``eta = c S_a tau_a / (4 omega V)``.
+
+Every reader states each coupling loss factor in one direction only; the solver derives
+the other by reciprocity (``n_a eta_ab = n_b eta_ba``). The formulas live in
+:mod:`seatool.physics` and are only called here; see ``docs/theory/coupling.md``
+("How the model-file readers use the formulas") and ``docs/model-format.md``.
+
+The readers rely on the ``Subsystem.properties`` contract of ``DEVELOPERS.md``; a
+subsystem whose properties lack what a kind needs is reported on one line naming the
+connection key and the missing property.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+from typing import Any
+
+import numpy as np
+import numpy.typing as npt
+
+from ..model import Connection, Subsystem
+from ..modelfile import CONNECTION_KINDS, DEFAULT_FLUID, Reader
+from ..physics import coupling, junctions, mobility, radiation, structural, transmission
+
+__all__ = [
+    "RADIATION_METHODS",
+    "TAU_FLOOR",
+    "default_angles",
+    "fluid_of",
+    "panel_critical_frequency",
+    "radiation_clf",
+    "nonresonant_clf",
+    "treatment_factor",
+]
+
+Array = npt.NDArray[np.float64]
+ComplexArray = npt.NDArray[np.complex128]
+
+#: Radiation-efficiency formulas offered by ``method`` (see :mod:`seatool.physics.radiation`).
+RADIATION_METHODS = ("leppington", "maidanik", "en12354")
+
+#: Default junction angles [deg] by number of plates: L, T (the second plate is the stem), X.
+_DEFAULT_ANGLES = {2: (0.0, 90.0), 3: (0.0, 90.0, 180.0), 4: (0.0, 90.0, 180.0, 270.0)}
+
+#: Floor of a transmission coefficient that the physics gives as exactly zero (the
+#: non-resonant path at and above coincidence): 300 dB, negligible, keeps eta > 0.
+TAU_FLOOR = 1e-30
+
+#: Relative tolerance for "bending stiffness of a homogeneous plate" (line junctions).
+_HOMOGENEOUS = 1e-6
+
+#: Relative tolerance within which two fluids count as the same.
+_SAME_FLUID = 1e-6
+
+_COMMON = ("kind", "description", "between")
+
+
+# ----------------------------------------------------------------------------------------
+# Small helpers
+
+
+def _join(path: str, key: str) -> str:
+    return f"{path}.{key}"
+
+
+def _per_band(value: Any, nb: int) -> Array:
+    arr = np.asarray(value, dtype=float)
+    return np.array(np.broadcast_to(arr, (nb,)), dtype=float)
+
+
+def _get(obj: Any, *names: str) -> Any:
+    """First of ``names`` found in a mapping or as an attribute, else None."""
+    for n in names:
+        if isinstance(obj, Mapping):
+            if n in obj:
+                return obj[n]
+        elif hasattr(obj, n):
+            return getattr(obj, n)
+    return None
+
+
+def fluid_of(sub: Subsystem) -> tuple[float, float] | None:
+    """``(density, sound_speed)`` of a cavity (properties first, then attributes)."""
+    p = sub.properties
+    rho = p.get("density", sub.density)
+    c = p.get("sound_speed", sub.sound_speed)
+    if rho is None or c is None:
+        return None
+    return float(rho), float(c)
+
+
+def _is_cavity(sub: Subsystem) -> bool:
+    return (
+        not sub.sink
+        and sub.quantity == "sound_pressure"
+        and _volume(sub) is not None
+        and fluid_of(sub) is not None
+    )
+
+
+def _volume(sub: Subsystem) -> float | None:
+    v = sub.properties.get("volume", sub.volume)
+    return None if v is None else float(v)
+
+
+def _describe(sub: Subsystem) -> str:
+    wt = sub.properties.get("wave_type")
+    return f"{sub.name!r} ({sub.kind}" + (f", {wt} field)" if wt else ")")
+
+
+def _same_fluid(a: tuple[float, float], b: tuple[float, float]) -> bool:
+    return all(math.isclose(x, y, rel_tol=_SAME_FLUID) for x, y in zip(a, b, strict=True))
+
+
+def _choice(rd: Reader, value: Any, path: str, choices: Sequence[str]) -> str | None:
+    from ..errors import closest
+
+    if not isinstance(value, str) or value not in choices:
+        hint = closest(value, choices) if isinstance(value, str) else ""
+        rd.error(path, f"must be one of {', '.join(map(repr, choices))}, got {value!r}" + hint)
+        return None
+    return value
+
+
+def _count(rd: Reader, table: Mapping[str, Any], key: str, path: str) -> int | None:
+    """A positive integer option (default 1)."""
+    if key not in table:
+        return 1
+    v = table[key]
+    if isinstance(v, bool) or not isinstance(v, int) or v < 1:
+        rd.error(_join(path, key), f"must be a whole number >= 1, got {v!r}")
+        return None
+    return int(v)
+
+
+def _flag(rd: Reader, table: Mapping[str, Any], key: str, path: str) -> bool | None:
+    if key not in table:
+        return False
+    v = table[key]
+    if not isinstance(v, bool):
+        rd.error(_join(path, key), f"must be true or false, got {v!r}")
+        return None
+    return v
+
+
+def _need_two(rd: Reader, path: str, ends: list[Subsystem], what: str) -> bool:
+    if len(ends) != 2:
+        rd.error(_join(path, "between"), f"a {what} joins two subsystems, got {len(ends)}")
+        return False
+    return True
+
+
+# ----------------------------------------------------------------------------------------
+# Panels
+
+
+def _panel(rd: Reader, path: str, sub: Subsystem) -> dict[str, Any] | None:
+    """The bending-field properties a panel coupling needs, or None after one error."""
+    p = sub.properties
+    if p.get("wave_type") != "bending" or "area" not in p:
+        rd.error(
+            path,
+            f"{_describe(sub)} is not the bending field of a plate or shell "
+            "(needs properties wave_type = 'bending' and area)",
+        )
+        return None
+    missing = [k for k in ("lx", "ly", "mass_per_area", "bending_stiffness") if k not in p]
+    if missing:
+        rd.error(
+            path,
+            f"plate {sub.name!r} lacks the properties {', '.join(missing)} "
+            "(use a plate or shell subsystem kind derived from dimensions)",
+        )
+        return None
+    return dict(p)
+
+
+def panel_critical_frequency(props: Mapping[str, Any], sound_speed: float, nb: int) -> Array:
+    """Critical frequency of a panel in a fluid of the given sound speed, per band [Hz].
+
+    Recomputed from the properties' ``bending_stiffness`` and ``mass_per_area`` with
+    :func:`seatool.physics.structural.critical_frequency`, so it holds for the fluid on
+    the radiating side even when that is not the model's air (for which the properties'
+    ``critical_frequency`` was computed). A per-band (sandwich, effective) bending
+    stiffness gives a per-band value: the coincidence ratio k_B/k_0 of that band.
+    """
+    d = _per_band(props["bending_stiffness"], nb)
+    m = float(props["mass_per_area"])
+    return _per_band(structural.critical_frequency(d, m, sound_speed), nb)
+
+
+def treatment_factor(props: Mapping[str, Any], face: str | None, nb: int) -> Array:
+    """Power factor ``10^(-IL/10)`` of a panel's treatment, per band (1 where none).
+
+    ``props["treatment"]`` (if any) has ``insertion_loss_db`` (per band or None) and
+    ``face`` (the name of the subsystem its treated face looks into). With
+    ``face=None`` the factor applies whatever face is treated (the non-resonant path
+    crosses the whole build-up). Reducing a coupling loss factor by the trim's
+    insertion loss is common practice in SEA trim modelling (the insertion loss is by
+    definition the reduction of transmitted power caused by the layer); it assumes the
+    trim changes the transmitted power but not the panel's modal energy.
+    """
+    t = props.get("treatment")
+    if t is None:
+        return np.ones(nb)
+    il = _get(t, "insertion_loss_db")
+    tface = _get(t, "face")
+    if il is None or (face is not None and tface != face):
+        return np.ones(nb)
+    return np.asarray(10.0 ** (-_per_band(il, nb) / 10.0), dtype=float)
+
+
+def radiation_clf(
+    rd: Reader,
+    props: Mapping[str, Any],
+    fluid: tuple[float, float],
+    *,
+    method: str = "leppington",
+    corner_factor: float = 1.0,
+) -> tuple[Array, Array]:
+    """Radiation CLF panel -> fluid per band and the band-averaged sigma used.
+
+    ``sigma`` from :func:`seatool.physics.radiation.radiation_efficiency_band` over the
+    model's band edges, with the critical frequency in that fluid; ``eta`` from
+    :func:`seatool.physics.coupling.clf_radiation`. No treatment factor applied here.
+    """
+    assert rd.bands is not None
+    bands = rd.bands
+    nb = len(bands)
+    rho, c = fluid
+    f_c = panel_critical_frequency(props, c, nb)
+    sigma = radiation.radiation_efficiency_band(
+        bands.centre,
+        float(props["lx"]),
+        float(props["ly"]),
+        f_c,
+        method=method,  # type: ignore[arg-type]
+        f_lower=bands.lower,
+        f_upper=bands.upper,
+        c0=c,
+        corner_factor=corner_factor,
+    )
+    eta = coupling.clf_radiation(bands.centre, sigma, float(props["mass_per_area"]), rho0=rho, c0=c)
+    return _per_band(eta, nb), _per_band(sigma, nb)
+
+
+def nonresonant_clf(
+    rd: Reader,
+    props: Mapping[str, Any],
+    fluid: tuple[float, float],
+    volume: float,
+    *,
+    stiffness_factor: bool = False,
+) -> Array:
+    """Non-resonant CLF cavity (``volume``) -> cavity through the panel, per band.
+
+    ``tau_NR`` from :func:`seatool.physics.transmission.transmission_nonresonant` (zero
+    at and above the critical frequency in that fluid), ``eta`` from
+    :func:`seatool.physics.coupling.clf_nonresonant` with the panel area. No treatment
+    factor applied here.
+    """
+    assert rd.bands is not None
+    bands = rd.bands
+    nb = len(bands)
+    rho, c = fluid
+    f_c = panel_critical_frequency(props, c, nb)
+    tau = transmission.transmission_nonresonant(
+        bands.centre,
+        float(props["mass_per_area"]),
+        float(props["lx"]),
+        float(props["ly"]),
+        f_c,
+        stiffness_factor=stiffness_factor,
+        rho0=rho,
+        c0=c,
+    )
+    # tau_NR = 0 at and above coincidence; a model connection needs eta > 0, so the
+    # transmission coefficient is floored at TAU_FLOOR (300 dB), which keeps reciprocity.
+    tau = np.maximum(tau, TAU_FLOOR)
+    eta = coupling.clf_nonresonant(bands.centre, float(props["area"]), tau, volume, c0=c)
+    return _per_band(eta, nb)
+
+
+# ----------------------------------------------------------------------------------------
+# kind = "radiation"
+
+
+def _read_radiation(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> Connection | None:
+    path = f"connections.{name}"
+    if not rd.keys(s, path, (*_COMMON, "method", "corner_factor", "fluid")):
+        return None
+    if not _need_two(rd, path, ends, "radiation connection"):
+        return None
+    # The panel is whichever end is not a cavity or the exterior.
+    k_air = [i for i, e in enumerate(ends) if e.sink or _is_cavity(e)]
+    if len(k_air) != 1:
+        what = "two cavities" if len(k_air) == 2 else "no cavity or exterior"
+        rd.error(
+            _join(path, "between"),
+            f"radiation joins a plate or shell and a cavity or the exterior, got {what}",
+        )
+        return None
+    air = ends[k_air[0]]
+    panel = ends[1 - k_air[0]]
+    props = _panel(rd, f"{path}.between[{1 - k_air[0]}]", panel)
+    if props is None:
+        return None
+    ok = True
+    method = "leppington"
+    if "method" in s:
+        got = _choice(rd, s["method"], _join(path, "method"), RADIATION_METHODS)
+        ok = ok and got is not None
+        method = got or method
+    corner = 1.0
+    if "corner_factor" in s:
+        if method != "maidanik":
+            rd.error(_join(path, "corner_factor"), "is used by method = 'maidanik' only; remove it")
+            ok = False
+        else:
+            cf = rd.number(
+                s["corner_factor"], _join(path, "corner_factor"), minimum=0.0, strict=False
+            )
+            ok = ok and cf is not None
+            corner = cf if cf is not None else corner
+    if air.sink:
+        fname = "air"
+        if "fluid" in s:
+            got = rd.name_ref(s["fluid"], _join(path, "fluid"), rd.fluids, "fluid")
+            ok = ok and got is not None
+            fname = got or fname
+        fl = rd.fluids.get(fname, DEFAULT_FLUID)
+        fluid = (float(fl["density"]), float(fl["sound_speed"]))
+    else:
+        if "fluid" in s:
+            rd.error(
+                _join(path, "fluid"),
+                f"the fluid of cavity {air.name!r} is used; 'fluid' is for the exterior only",
+            )
+            ok = False
+        got_fluid = fluid_of(air)
+        assert got_fluid is not None
+        fluid = got_fluid
+    if not ok:
+        return None
+    assert rd.bands is not None
+    eta, sigma = radiation_clf(rd, props, fluid, method=method, corner_factor=corner)
+    eta = eta * treatment_factor(props, air.name, len(rd.bands))
+    where = "the exterior" if air.sink else f"cavity {air.name!r}"
+    return Connection(
+        name,
+        panel.name,
+        air.name,
+        eta,
+        kind="radiation",
+        provenance={
+            "coupling_loss_factor": (
+                f"resonant radiation into {where}: rho c sigma/(omega m''), sigma "
+                f"band-averaged ({method})"
+                + (", reduced by the treatment insertion loss" if _treated(props, air) else "")
+            )
+        },
+    )
+
+
+def _treated(props: Mapping[str, Any], face: Subsystem | None) -> bool:
+    t = props.get("treatment")
+    if t is None or _get(t, "insertion_loss_db") is None:
+        return False
+    return face is None or _get(t, "face") == face.name
+
+
+# ----------------------------------------------------------------------------------------
+# kind = "nonresonant"
+
+
+def _read_nonresonant(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> Connection | None:
+    path = f"connections.{name}"
+    if not rd.keys(s, path, (*_COMMON, "through", "stiffness_factor"), ("through",)):
+        return None
+    if not _need_two(rd, path, ends, "non-resonant path"):
+        return None
+    ok = True
+    for k, e in enumerate(ends):
+        if not _is_cavity(e):
+            rd.error(
+                f"{path}.between[{k}]",
+                f"{_describe(e)} is not a cavity; the non-resonant path joins two cavities",
+            )
+            ok = False
+    pname = rd.name_ref(s["through"], _join(path, "through"), subs, "subsystem")
+    sf = _flag(rd, s, "stiffness_factor", path)
+    if not ok or pname is None or sf is None:
+        return None
+    props = _panel(rd, _join(path, "through"), subs[pname])
+    if props is None:
+        return None
+    f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
+    assert f1 is not None and f2 is not None
+    if not _same_fluid(f1, f2):
+        rd.error(
+            _join(path, "between"),
+            f"cavities {ends[0].name!r} and {ends[1].name!r} hold different fluids; the "
+            "non-resonant path model assumes the same fluid on both sides",
+        )
+        return None
+    v1 = _volume(ends[0])
+    assert v1 is not None and rd.bands is not None
+    eta = nonresonant_clf(rd, props, f1, v1, stiffness_factor=sf)
+    eta = eta * treatment_factor(props, None, len(rd.bands))
+    return Connection(
+        name,
+        ends[0].name,
+        ends[1].name,
+        eta,
+        kind="nonresonant",
+        provenance={
+            "coupling_loss_factor": (
+                f"non-resonant (forced-wave) transmission through {pname!r}: "
+                "c S tau_NR/(4 omega V_1), tau_NR = 0 above coincidence"
+                + (", reduced by the treatment insertion loss" if _treated(props, None) else "")
+            )
+        },
+    )
+
+
+# ----------------------------------------------------------------------------------------
+# kind = "line"
+
+
+def default_angles(n: int) -> tuple[float, ...] | None:
+    """Default junction angles [deg]: L for 2 plates, T for 3, X for 4 (else None)."""
+    return _DEFAULT_ANGLES.get(n)
+
+
+def _junction_plate(
+    rd: Reader, path: str, sub: Subsystem, angle_deg: float
+) -> junctions.JunctionPlate | None:
+    p = sub.properties
+    mat = p.get("material")
+    h = p.get("thickness")
+    vals = {k: _get(mat, k) for k in ("density", "youngs_modulus", "poisson_ratio")}
+    if h is None or mat is None or any(v is None for v in vals.values()):
+        rd.error(
+            path,
+            f"plate {sub.name!r} has no homogeneous material and thickness (properties "
+            "'thickness' and 'material' with density, youngs_modulus, poisson_ratio); the "
+            "line junction wave model needs them",
+        )
+        return None
+    e, nu, h = float(vals["youngs_modulus"]), float(vals["poisson_ratio"]), float(h)
+    d = np.asarray(p.get("bending_stiffness", np.nan), dtype=float)
+    d_iso = float(structural.bending_stiffness(e, h, nu))
+    if d.ndim != 0 or not math.isclose(float(d), d_iso, rel_tol=_HOMOGENEOUS):
+        rd.error(
+            path,
+            f"plate {sub.name!r} is not a homogeneous isotropic plate (its bending stiffness "
+            "differs from E h^3/(12(1 - nu^2))); the line junction wave model needs one "
+            "(give the coupling loss factor with kind = 'given')",
+        )
+        return None
+    # Density from the mass per area, so that the bending wavenumber of the wave model is
+    # the subsystem's own (an added treatment mass included).
+    rho = float(p.get("mass_per_area", float(vals["density"]) * h)) / h
+    try:
+        return junctions.JunctionPlate(
+            thickness=h, youngs_modulus=e, density=rho, poisson=nu, angle=math.radians(angle_deg)
+        )
+    except ValueError as exc:
+        rd.error(path, f"plate {sub.name!r}: {exc}")
+        return None
+
+
+def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: Array) -> Array:
+    """Group speed of a plate wave field: the subsystem's own, else from its material."""
+    nb = f.size
+    if "group_speed" in sub.properties:
+        return _per_band(sub.properties["group_speed"], nb)
+    e, rho, nu, h = plate.youngs_modulus, plate.density, plate.poisson, plate.thickness
+    if wave == "bending":
+        d = structural.bending_stiffness(e, h, nu)
+        return _per_band(structural.plate_bending_group_speed(f, d, rho * h), nb)
+    if wave == "longitudinal":
+        return _per_band(structural.plate_longitudinal_speed(e, rho, nu), nb)
+    return _per_band(structural.shear_speed(e, rho, nu), nb)
+
+
+def _angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] | None:
+    if "angles" not in s:
+        dflt = default_angles(n)
+        if dflt is None:
+            rd.error(
+                _join(path, "angles"),
+                f"missing: {n} plates need their angles in degrees (defaults exist for 2, 3, 4)",
+            )
+            return None
+        return list(dflt)
+    a = s["angles"]
+    p = _join(path, "angles")
+    if not isinstance(a, list) or any(
+        isinstance(x, bool) or not isinstance(x, int | float) for x in a
+    ):
+        rd.error(p, "must be an array of numbers (degrees), one per plate in 'between'")
+        return None
+    if len(a) != n:
+        rd.error(p, f"has {len(a)} angles but 'between' names {n} plates")
+        return None
+    vals = [float(x) for x in a]
+    if not all(math.isfinite(x) for x in vals):
+        rd.error(p, "angles must be finite")
+        return None
+    norm = [x % 360.0 for x in vals]
+    for i in range(n):
+        for j in range(i):
+            d = abs(norm[i] - norm[j])
+            if min(d, 360.0 - d) < 1.0:
+                rd.error(
+                    p,
+                    f"plates {j} and {i} point in the same direction ({vals[j]:g} and "
+                    f"{vals[i]:g} deg); give distinct angles",
+                )
+                return None
+    return vals
+
+
+_WAVES = junctions.WAVE_TYPES
+
+
+def _read_line(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> list[Connection] | None:
+    path = f"connections.{name}"
+    if not rd.keys(s, path, (*_COMMON, "length", "angles"), ("length",)):
+        return None
+    length = rd.number(s["length"], _join(path, "length"), unit="m")
+    angles = _angles(rd, s, path, len(ends))
+    plates: list[junctions.JunctionPlate] = []
+    ok = length is not None and angles is not None
+    for k, e in enumerate(ends):
+        bp = f"{path}.between[{k}]"
+        if e.properties.get("wave_type") != "bending" or "area" not in e.properties:
+            rd.error(
+                bp,
+                f"{_describe(e)} is not the bending field of a plate (a line junction joins "
+                "plates; name their bending fields, the in-plane fields are found by name)",
+            )
+            ok = False
+            continue
+        if angles is not None:
+            jp = _junction_plate(rd, bp, e, angles[k])
+            if jp is None:
+                ok = False
+            else:
+                plates.append(jp)
+    if not ok:
+        return None
+    assert rd.bands is not None and length is not None
+    f = np.asarray(rd.bands.centre, dtype=float)
+    # Wave fields present in the model, per plate: bending always, in-plane if declared.
+    fields: list[dict[str, Subsystem]] = []
+    for e in ends:
+        fd: dict[str, Subsystem] = {"bending": e}
+        for w in ("longitudinal", "shear"):
+            other = subs.get(f"{e.component}.{w}")
+            if (
+                other is not None
+                and other.component == e.component
+                and other.properties.get("wave_type") == w
+            ):
+                fd[w] = other
+        fields.append(fd)
+    out: list[Connection] = []
+    for i, fi in enumerate(fields):
+        area_i = float(ends[i].properties["area"])
+        for a, src in fi.items():
+            ia = _WAVES.index(a)
+            tau = junctions.line_junction_transmission_diffuse(
+                f,
+                plates,
+                source=i,
+                incident=a,  # type: ignore[arg-type]
+            )
+            cg = _group_speed(src, plates[i], a, f)
+            for j, fj in enumerate(fields):
+                for b, dst in fj.items():
+                    jb = _WAVES.index(b)
+                    if (j, jb) <= (i, ia):
+                        continue  # each unordered pair once; reciprocity gives the other
+                    eta = _per_band(
+                        coupling.clf_line_junction(f, cg, length, tau[:, j, jb], area_i), f.size
+                    )
+                    eta = np.maximum(eta, np.finfo(float).tiny)
+                    out.append(
+                        Connection(
+                            f"{name}[{src.name}->{dst.name}]",
+                            src.name,
+                            dst.name,
+                            eta,
+                            kind="line",
+                            provenance={
+                                "coupling_loss_factor": (
+                                    f"rigid line junction, wave model ({a} -> {b}): "
+                                    "c_g L tau_bar/(pi omega S)"
+                                )
+                            },
+                        )
+                    )
+    return out
+
+
+# ----------------------------------------------------------------------------------------
+# kind = "point" and kind = "mount"
+
+
+def _point_mobility(
+    rd: Reader, path: str, sub: Subsystem, f: Array
+) -> tuple[ComplexArray, float] | None:
+    """Drive-point force mobility (infinite-system value) and mass of a structure."""
+    p = sub.properties
+    wt = p.get("wave_type")
+    nb = f.size
+    mass = sub.mass
+    y: Any = None
+    if wt == "bending" and "bending_stiffness" in p and "mass_per_area" in p:
+        y = mobility.plate_point_mobility(p["bending_stiffness"], p["mass_per_area"])
+        if mass is None and "area" in p:
+            mass = float(p["area"]) * float(p["mass_per_area"])
+    elif (
+        "section" in p
+        and "mass_per_length" in p
+        and wt
+        in (
+            "bending",
+            "bending_y",
+            "bending_z",
+            "longitudinal",
+        )
+    ):
+        sec = p["section"]
+        e = _get(p.get("material"), "youngs_modulus")
+        rho = _get(p.get("material"), "density")
+        if wt == "longitudinal":
+            area = _get(sec, "area")
+            if e is not None and rho is not None and area is not None:
+                y = mobility.rod_point_mobility(e, rho, area)
+        else:
+            i_b = (
+                _get(sec, "I_z", "second_moment_z")
+                if wt == "bending_z"
+                else _get(sec, "I_y", "second_moment_y")
+            )
+            if e is not None and i_b is not None:
+                y = mobility.beam_point_mobility(f, e, i_b, p["mass_per_length"])
+        if mass is None and "length" in p:
+            mass = float(p["length"]) * float(p["mass_per_length"])
+    if wt == "resonator":
+        rd.error(
+            path,
+            f"{sub.name!r} is a resonator: point connections to resonators are not "
+            "implemented (its coupling is not the reverberant-field point formula); give "
+            "the coupling loss factor with kind = 'given'",
+        )
+        return None
+    if y is None or mass is None:
+        rd.error(
+            path,
+            f"{_describe(sub)} has no drive-point mobility: a point connection joins plate "
+            "bending fields (bending_stiffness, mass_per_area) or beam fields (section, "
+            "mass_per_length, material; bending or longitudinal)",
+        )
+        return None
+    return np.array(np.broadcast_to(np.asarray(y, dtype=complex), (nb,))), float(mass)
+
+
+def _read_point_like(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    *,
+    resilient: bool,
+) -> Connection | None:
+    path = f"connections.{name}"
+    extra = ("points", "stiffness", "loss_factor") if resilient else ("points",)
+    req = ("stiffness",) if resilient else ()
+    if not rd.keys(s, path, (*_COMMON, *extra), req):
+        return None
+    what = "mount connection" if resilient else "point connection"
+    if not _need_two(rd, path, ends, what):
+        return None
+    assert rd.bands is not None
+    f = np.asarray(rd.bands.centre, dtype=float)
+    got = [_point_mobility(rd, f"{path}.between[{k}]", e, f) for k, e in enumerate(ends)]
+    n = _count(rd, s, "points", path)
+    k_m = eta_m = None
+    if resilient:
+        k_m = rd.spectrum(s["stiffness"], _join(path, "stiffness"), unit="N/m")
+        eta_m = (
+            rd.spectrum(s["loss_factor"], _join(path, "loss_factor"), minimum=0.0, strict=False)
+            if "loss_factor" in s
+            else np.zeros(f.size)
+        )
+    if None in got or n is None or (resilient and (k_m is None or eta_m is None)):
+        return None
+    (y1, m1), (y2, _) = got  # type: ignore[misc]
+    if resilient:
+        assert k_m is not None and eta_m is not None
+        eta = junctions.clf_point_resilient(f, y1, y2, m1, k_m, loss_factor=eta_m, n_points=n)
+        desc = f"{n} resilient mount(s), incoherent: N Re Y2/(omega M1 |Y1 + Ym + Y2|^2)"
+    else:
+        eta = junctions.clf_point_rigid(f, y1, y2, m1, n_points=n)
+        desc = f"{n} rigid point(s), incoherent: N Re Y2/(omega M1 |Y1 + Y2|^2)"
+    eta = np.maximum(_per_band(eta, f.size), np.finfo(float).tiny)
+    return Connection(
+        name,
+        ends[0].name,
+        ends[1].name,
+        eta,
+        kind="mount" if resilient else "point",
+        provenance={"coupling_loss_factor": desc + ", infinite-system drive-point mobilities"},
+    )
+
+
+def _read_point(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> Connection | None:
+    return _read_point_like(rd, name, s, ends, resilient=False)
+
+
+def _read_mount(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> Connection | None:
+    return _read_point_like(rd, name, s, ends, resilient=True)
+
+
+# ----------------------------------------------------------------------------------------
+# kind = "leak"
+
+LEAK_MODELS = ("circular", "open")
+
+
+def _read_leak(
+    rd: Reader,
+    name: str,
+    s: dict[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+) -> Connection | None:
+    path = f"connections.{name}"
+    if not rd.keys(s, path, (*_COMMON, "area", "depth", "model", "holes"), ("area",)):
+        return None
+    if not _need_two(rd, path, ends, "leak"):
+        return None
+    ok = True
+    for k, e in enumerate(ends):
+        if not _is_cavity(e):
+            rd.error(
+                f"{path}.between[{k}]",
+                f"{_describe(e)} is not a cavity; a leak joins two cavities",
+            )
+            ok = False
+    model: str | None = "circular"
+    if "model" in s:
+        model = _choice(rd, s["model"], _join(path, "model"), LEAK_MODELS)
+        ok = ok and model is not None
+    area = rd.number(s["area"], _join(path, "area"), unit="m^2")
+    holes = _count(rd, s, "holes", path)
+    depth: float | None = 0.0
+    if model == "circular":
+        if "depth" not in s:
+            rd.error(
+                _join(path, "depth"),
+                "missing required key for model = 'circular' (wall thickness [m]; "
+                "model = 'open' takes tau = 1)",
+            )
+            ok = False
+        else:
+            depth = rd.number(s["depth"], _join(path, "depth"), unit="m", strict=False)
+    elif model == "open" and "depth" in s:
+        rd.error(_join(path, "depth"), "is not used by model = 'open' (tau = 1); remove it")
+        ok = False
+    if not ok or area is None or holes is None or depth is None:
+        return None
+    f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
+    assert f1 is not None and f2 is not None
+    if not _same_fluid(f1, f2):
+        rd.error(
+            _join(path, "between"),
+            f"cavities {ends[0].name!r} and {ends[1].name!r} hold different fluids; the "
+            "leak model assumes the same fluid on both sides",
+        )
+        return None
+    assert rd.bands is not None
+    f = np.asarray(rd.bands.centre, dtype=float)
+    rho, c = f1
+    if model == "circular":
+        radius = math.sqrt(area / (holes * math.pi))
+        tau: Any = coupling.aperture_transmission_circular(f, radius, depth, rho0=rho, c0=c)
+        desc = f"{holes} circular hole(s), tube with piston-radiation ends"
+    else:
+        tau = 1.0
+        desc = "open area, tau = 1"
+    v1 = _volume(ends[0])
+    assert v1 is not None
+    eta = _per_band(coupling.clf_aperture(f, area, v1, tau, c0=c), f.size)
+    eta = np.maximum(eta, np.finfo(float).tiny)
+    return Connection(
+        name,
+        ends[0].name,
+        ends[1].name,
+        eta,
+        kind="leak",
+        provenance={"coupling_loss_factor": f"leak: c S_a tau/(4 omega V_1), {desc}"},
+    )
+
+
+CONNECTION_KINDS["radiation"] = _read_radiation
+CONNECTION_KINDS["nonresonant"] = _read_nonresonant
+CONNECTION_KINDS["line"] = _read_line
+CONNECTION_KINDS["point"] = _read_point
+CONNECTION_KINDS["mount"] = _read_mount
+CONNECTION_KINDS["leak"] = _read_leak
