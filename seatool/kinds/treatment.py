@@ -113,6 +113,19 @@ def _join(path: str, key: str) -> str:
     return f"{path}.{key}" if path else key
 
 
+def _keys_ok(
+    rd: Reader,
+    table: Mapping[str, Any],
+    path: str,
+    allowed: tuple[str, ...],
+    required: tuple[str, ...] = (),
+) -> bool:
+    """:meth:`Reader.keys`, but False on unknown keys too (one line per problem)."""
+    n = len(rd.problems)
+    rd.keys(table, path, allowed, required)
+    return len(rd.problems) == n
+
+
 def _type(value: Any) -> str:
     return type(value).__name__
 
@@ -201,7 +214,7 @@ def _read_modulus(rd: Reader, value: Any, path: str, kind: str) -> ModulusTable 
     if t is None:
         return None
     keys = ("frequency_hz", "storage", "loss_factor")
-    if not rd.keys(t, path, keys, keys):
+    if not _keys_ok(rd, t, path, keys, keys):
         return None
     cols: list[list[float]] = []
     ok = True
@@ -363,7 +376,7 @@ def _read_item(rd: Reader, value: Any, path: str, modulus_kind: str) -> list[Tri
         assert base is not None
         kind: Any = base.kind
         allowed = ("base", "description", *_KIND_KEYS[kind])
-        if not rd.keys(t, path, allowed):
+        if not _keys_ok(rd, t, path, allowed):
             return None
         fields = _read_fields(
             rd, t, path, kind, base.modulus.kind if base.modulus else modulus_kind
@@ -390,7 +403,7 @@ def _read_item(rd: Reader, value: Any, path: str, modulus_kind: str) -> list[Tri
         )
         return None
     allowed = ("kind", "description", *_KIND_KEYS[kind])
-    if not rd.keys(t, path, allowed, _REQUIRED[kind]):
+    if not _keys_ok(rd, t, path, allowed, _REQUIRED[kind]):
         return None
     fields = _read_fields(rd, t, path, kind, modulus_kind)
     if fields is None:
@@ -475,7 +488,7 @@ def _air_absorption(
     t = rd.table(value, path)
     if t is None:
         return None
-    if not rd.keys(t, path, ("temperature", "relative_humidity", "pressure")):
+    if not _keys_ok(rd, t, path, ("temperature", "relative_humidity", "pressure")):
         return None
     rho, c = _fluid(context)
     if not (0.5 < rho < 5.0 and 250.0 < c < 450.0):
@@ -520,7 +533,7 @@ def _read_t60_form(
             "not with reverberation_time: a reverberation time already includes air absorption",
         )
         return None
-    if not rd.keys(t, path, ("reverberation_time",)):
+    if not _keys_ok(rd, t, path, ("reverberation_time",)):
         return None
     t60 = rd.spectrum(t["reverberation_time"], _join(path, "reverberation_time"), unit="s")
     if t60 is None:
@@ -531,7 +544,7 @@ def _read_t60_form(
 def _read_area_form(
     rd: Reader, t: dict[str, Any], path: str, context: Mapping[str, Any]
 ) -> Array | None:
-    ok = rd.keys(t, path, ("absorption_area", "air_absorption"))
+    ok = _keys_ok(rd, t, path, ("absorption_area", "air_absorption"))
     vol = _cavity_volume(rd, context, path, "absorption_area")
     a = rd.spectrum(
         t["absorption_area"], _join(path, "absorption_area"), unit="m^2", minimum=0.0, strict=False
@@ -551,7 +564,7 @@ def _read_area_form(
 def _read_surfaces_form(
     rd: Reader, t: dict[str, Any], path: str, context: Mapping[str, Any]
 ) -> Array | None:
-    ok = rd.keys(t, path, ("surfaces", "method", "air_absorption"))
+    ok = _keys_ok(rd, t, path, ("surfaces", "method", "air_absorption"))
     vol = _cavity_volume(rd, context, path, "surfaces")
     method = t.get("method", "auto")
     if method not in _METHODS:
@@ -575,7 +588,7 @@ def _read_surfaces_form(
         if st is None:
             ok = False
             continue
-        if not rd.keys(st, p, ("area", "absorption", "lining", "description"), ("area",)):
+        if not _keys_ok(rd, st, p, ("area", "absorption", "lining", "description"), ("area",)):
             ok = False
             continue
         area = rd.number(st["area"], _join(p, "area"), unit="m^2")
@@ -792,6 +805,12 @@ def _material(rd: Reader, value: Any, path: str) -> Mapping[str, float] | None:
     return None if name is None else known[name]
 
 
+def _prop(mat: Mapping[str, Any], key: str, default: float) -> float:
+    """A material property, or ``default`` when it is missing or None."""
+    v = mat.get(key)
+    return default if v is None else float(v)
+
+
 def _homogeneous(plate: Mapping[str, Any]) -> tuple[float, Mapping[str, float]] | None:
     h = plate.get("thickness")
     mat = plate.get("material")
@@ -836,7 +855,7 @@ def read_plate_treatment(
     t = rd.table(value, path)
     if t is None or rd.bands is None:
         return None
-    if not rd.keys(t, path, _TREATMENT_KEYS):
+    if not _keys_ok(rd, t, path, _TREATMENT_KEYS):
         return None
     if "damping_layer" not in t and "trim" not in t:
         rd.error(path, "give damping_layer, trim or both")
@@ -907,15 +926,15 @@ def read_plate_treatment(
             return None
         h1, mat = homog
         e1, rho1 = float(mat["youngs_modulus"]), float(mat["density"])
-        nu1 = float(mat.get("poisson_ratio", 0.3))
-        eta1 = float(mat.get("loss_factor", 0.0))
+        nu1 = _prop(mat, "poisson_ratio", 0.3)
+        eta1 = _prop(mat, "loss_factor", 0.0)
         nu2 = vt.poisson if vt.poisson is not None else 0.3
         layer_name = layer.name
         if constrained:
             cp = _join(path, "cover")
             ct = rd.table(t["cover"], cp)
-            if ct is None or not rd.keys(
-                ct, cp, ("material", "thickness"), ("material", "thickness")
+            if ct is None or not _keys_ok(
+                rd, ct, cp, ("material", "thickness"), ("material", "thickness")
             ):
                 return None
             cmat = _material(rd, ct["material"], _join(cp, "material"))
@@ -925,8 +944,8 @@ def read_plate_treatment(
             res = dmp.constrained_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 h3, float(cmat["youngs_modulus"]), float(cmat["density"]),
-                base_loss_factor=eta1, cover_loss_factor=float(cmat.get("loss_factor", 0.0)),
-                base_poisson=nu1, cover_poisson=float(cmat.get("poisson_ratio", 0.3)),
+                base_loss_factor=eta1, cover_loss_factor=_prop(cmat, "loss_factor", 0.0),
+                base_poisson=nu1, cover_poisson=_prop(cmat, "poisson_ratio", 0.3),
             )  # fmt: skip
             m_cover = float(cmat["density"]) * h3
             parts.append(
@@ -972,8 +991,8 @@ def read_plate_treatment(
                     h1,
                     float(mat["youngs_modulus"]),
                     float(mat["density"]),
-                    float(mat.get("poisson_ratio", 0.3)),
-                    float(mat.get("loss_factor", 0.01)) or 0.01,
+                    _prop(mat, "poisson_ratio", 0.3),
+                    _prop(mat, "loss_factor", 0.01),
                 ),
                 *base_extra,
             ]
