@@ -38,7 +38,7 @@ class Command:
 
 
 #: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
-COMMAND_MODULES: list[str] = []
+COMMAND_MODULES: list[str] = ["seatool.analysis.commands"]
 
 
 def _commands() -> dict[str, Command]:
