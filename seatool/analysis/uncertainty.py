@@ -1,0 +1,686 @@
+"""How sure we are: Monte Carlo spread of the levels from parameter spreads in the model file.
+
+The ``[uncertainty.NAME]`` tables of a model file name a value of the file by its key
+path and give it a distribution (``docs/model-format.md``, section "uncertainty"):
+
+* ``lognormal`` with ``factor`` F >= 1: the value is multiplied by F^z, z standard normal,
+  so ln(value) has standard deviation ln F; the file value is the median; one standard
+  deviation is "times or divided by F".
+* ``uniform`` with ``tolerance`` t in [0, 1): the value is multiplied by 1 + t u,
+  u uniform on [-1, 1]; or with ``low`` and ``high`` (a single-number parameter): the
+  value is drawn uniformly from [low, high].
+* ``normal`` with ``sd`` >= 0 (the parameter's unit): value + sd z.
+
+A spectrum is varied as a whole: one draw per sample, the same factor (or shift) in
+every band (fully correlated over frequency). Different parameters are independent.
+
+Sampling is vectorised where the structure allows: when every uncertain parameter is a
+loss factor, modal density or input power given directly in the file (``damping`` and
+``modal_density`` of ``cavity``/``structure`` subsystems, ``coupling_loss_factor`` of
+``given`` connections, ``power`` of excitations), the assembled arrays are sampled and
+the per-band systems of all samples are solved in batches (dense batched solves for
+models up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse solve per sample); no
+model file is rebuilt. Otherwise each sample is rebuilt with
+:func:`seatool.modelfile.build` and solved (slower).
+
+Not included: the ensemble variance of the response from the published SEA variance
+theory (Langley & Cotoni 2004, JASA 115(2), 706-718). The project's reference sheet
+quotes its formulas from memory and no independent check is available here, so it is
+left out; :mod:`seatool.physics.validity` gives the single-subsystem GOE estimate.
+"""
+
+from __future__ import annotations
+
+import sys
+import time
+from collections.abc import Callable, Mapping, Sequence
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import Any, TextIO
+
+import numpy as np
+import numpy.typing as npt
+import pandas as pd
+import scipy.sparse as sp
+
+from .. import levels
+from ..errors import InputError, Problem
+from ..model import Model
+from ..modelfile import Reader, build
+from ..results import Result
+from ..solve import SolveError, assemble
+from ..solve import solve as core_solve
+from ._keypath import read_data, resolve, with_value
+from ._system import db, level_offset, validity_columns
+
+__all__ = [
+    "DENSE_LIMIT",
+    "Spread",
+    "Uncertain",
+    "read_uncertainty",
+    "spread",
+    "spread_file",
+]
+
+Array = npt.NDArray[np.float64]
+
+#: Largest number of unknowns solved with dense batched solves.
+DENSE_LIMIT = 400
+
+_KEYS = ("parameter", "distribution", "factor", "tolerance", "low", "high", "sd", "description")
+_DISTRIBUTIONS = {
+    "lognormal": ("factor",),
+    "uniform": ("tolerance", "low", "high"),
+    "normal": ("sd",),
+}
+
+
+@dataclass(frozen=True)
+class Uncertain:
+    """One uncertain parameter: where it is in the file and how it is drawn."""
+
+    name: str
+    parameter: str  # key path
+    distribution: str
+    factor: float | None = None
+    tolerance: float | None = None
+    low: float | None = None
+    high: float | None = None
+    sd: float | None = None
+
+    def draw(self, rng: np.random.Generator, n: int) -> Array:
+        """Standard variates of this parameter for n samples."""
+        if self.distribution == "uniform":
+            return rng.uniform(-1.0, 1.0, n) if self.low is None else rng.uniform(0.0, 1.0, n)
+        return rng.standard_normal(n)
+
+    def apply(self, value: Array, d: Array) -> Array:
+        """Sampled values from the file value(s) ``value`` and the variates ``d``."""
+        if self.distribution == "lognormal":
+            assert self.factor is not None
+            return value * self.factor**d
+        if self.distribution == "normal":
+            assert self.sd is not None
+            return value + self.sd * d
+        if self.low is not None:
+            assert self.high is not None
+            return np.broadcast_to(self.low + (self.high - self.low) * d, np.broadcast(value, d).shape)
+        assert self.tolerance is not None
+        return value * (1.0 + self.tolerance * d)
+
+
+def read_uncertainty(
+    data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path = "."
+) -> list[Uncertain]:
+    """Validate the ``[uncertainty.NAME]`` tables of parsed model data.
+
+    Raises :class:`~seatool.errors.InputError` with one line per problem (key path,
+    what is wrong, closest valid name).
+    """
+    rd = Reader(file=file, base_dir=Path(base_dir))
+    out: list[Uncertain] = []
+    section = data.get("uncertainty")
+    if section is None:
+        return out
+    t = rd.table(section, "uncertainty")
+    if t is None:
+        raise InputError(rd.problems)
+    seen: dict[str, str] = {}
+    for name, spec in t.items():
+        path = f"uncertainty.{name}"
+        s = rd.table(spec, path)
+        if s is None:
+            continue
+        if not rd.keys(s, path, _KEYS, ("parameter", "distribution")):
+            continue
+        if "description" in s:
+            rd.string(s["description"], f"{path}.description")
+        par = rd.string(s["parameter"], f"{path}.parameter")
+        dist = s["distribution"]
+        if not isinstance(dist, str) or dist not in _DISTRIBUTIONS:
+            rd.error(
+                f"{path}.distribution",
+                f"unknown distribution {dist!r}"
+                + (_closest(dist, _DISTRIBUTIONS) if isinstance(dist, str) else "")
+                + f"; known: {', '.join(_DISTRIBUTIONS)}",
+            )
+            continue
+        if par is None:
+            continue
+        value: Any = None
+        if par.split(".")[0] in ("uncertainty", "bands", "title", "description"):
+            rd.error(f"{path}.parameter", f"{par!r} cannot be varied (choose a physical value)")
+            continue
+        value, msg = resolve(data, par)
+        if msg is not None:
+            rd.error(f"{path}.parameter", f"{par!r}: {msg}")
+            continue
+        if par in seen:
+            rd.error(f"{path}.parameter", f"{par!r} already has the spread {seen[par]!r}")
+            continue
+        seen[par] = name
+        own = _DISTRIBUTIONS[dist]
+        for k in s:
+            if k in ("factor", "tolerance", "low", "high", "sd") and k not in own:
+                rd.error(f"{path}.{k}", f"not used by distribution {dist!r} (it takes {', '.join(own)})")
+        kw: dict[str, float | None] = {}
+        ok = True
+        if dist == "lognormal":
+            if "factor" not in s:
+                rd.error(f"{path}.factor", "missing required key (1-sigma multiplicative factor >= 1)")
+                continue
+            kw["factor"] = rd.number(s["factor"], f"{path}.factor", minimum=1.0, strict=False)
+            ok = kw["factor"] is not None
+        elif dist == "normal":
+            if "sd" not in s:
+                rd.error(f"{path}.sd", "missing required key (standard deviation >= 0)")
+                continue
+            kw["sd"] = rd.number(s["sd"], f"{path}.sd", minimum=0.0, strict=False)
+            ok = kw["sd"] is not None
+        else:
+            has_t = "tolerance" in s
+            has_lh = "low" in s or "high" in s
+            if has_t == has_lh:
+                rd.error(path, "uniform needs either tolerance or both low and high")
+                continue
+            if has_t:
+                tol = rd.number(s["tolerance"], f"{path}.tolerance", minimum=0.0, strict=False)
+                if tol is not None and tol >= 1.0:
+                    rd.error(f"{path}.tolerance", f"must be < 1 (a relative +-), got {tol}")
+                    tol = None
+                kw["tolerance"] = tol
+                ok = tol is not None
+            else:
+                if "low" not in s or "high" not in s:
+                    missing = "low" if "low" not in s else "high"
+                    rd.error(f"{path}.{missing}", "missing required key (uniform takes low and high)")
+                    continue
+                lo = rd.number(s["low"], f"{path}.low", minimum=None)
+                hi = rd.number(s["high"], f"{path}.high", minimum=None)
+                if lo is None or hi is None:
+                    continue
+                if not lo < hi:
+                    rd.error(f"{path}.high", f"must be > low ({lo:g}), got {hi:g}")
+                    continue
+                if not isinstance(value, int | float):
+                    rd.error(
+                        f"{path}.low",
+                        f"low/high need a single-number parameter; {par!r} has several values "
+                        "(use tolerance)",
+                    )
+                    continue
+                kw["low"], kw["high"] = lo, hi
+        if not ok:
+            continue
+        out.append(Uncertain(name=name, parameter=par, distribution=dist, **kw))
+    if rd.problems:
+        raise InputError(rd.problems)
+    return out
+
+
+def _closest(name: str, choices: Mapping[str, Any]) -> str:
+    from ..errors import closest
+
+    return closest(name, list(choices))
+
+
+# -- direct sampling of the assembled arrays ----------------------------------------------
+
+
+def _direct_target(data: Mapping[str, Any], model: Model, par: str) -> tuple[str, int] | None:
+    """('damping' | 'modal_density' | 'eta_ab' | 'power', index) if ``par`` is such a value."""
+    parts = par.split(".")
+    if len(parts) != 3:
+        return None
+    sec, name, key = parts
+    table = data.get(sec, {}).get(name, {})
+    if not isinstance(table, Mapping):
+        return None
+    if sec == "subsystems" and table.get("kind") in ("cavity", "structure"):
+        if key in ("damping", "modal_density") and name in model.index():
+            return key, model.index()[name]
+    if sec == "connections" and table.get("kind", "given") == "given":
+        names = [c.name for c in model.connections]
+        if key == "coupling_loss_factor" and name in names:
+            return "eta_ab", names.index(name)
+    if sec == "excitations" and key == "power":
+        names = [e.name for e in model.excitations]
+        if name in names and model.excitations[names.index(name)].kind == "power":
+            return "power", names.index(name)
+    return None
+
+
+@dataclass
+class _Progress:
+    """A plain stderr progress bar (no dependency)."""
+
+    total: int
+    enabled: bool
+    stream: TextIO = sys.stderr
+    width: int = 30
+    _last: float = 0.0
+    _start: float = 0.0
+
+    def __post_init__(self) -> None:
+        self._start = time.perf_counter()
+
+    def update(self, done: int) -> None:
+        if not self.enabled:
+            return
+        now = time.perf_counter()
+        if done < self.total and now - self._last < 0.2:
+            return
+        self._last = now
+        frac = done / max(self.total, 1)
+        bar = "#" * int(round(frac * self.width))
+        el = now - self._start
+        eta = el / frac - el if frac > 0 else float("nan")
+        self.stream.write(
+            f"\rsamples [{bar:<{self.width}}] {done}/{self.total} {el:5.1f} s, ~{eta:4.0f} s left"
+        )
+        if done >= self.total:
+            self.stream.write("\n")
+        self.stream.flush()
+
+
+def _batched_dense(
+    model: Model,
+    damping: Array,
+    modal: Array,
+    eta_ab: Array,
+    power: Array,
+    held: npt.NDArray[np.bool_],
+    held_energy: Array,
+) -> Array:
+    """Energies (S, N, B) from sampled arrays (S, ., B); dense batched solves per band."""
+    asm0 = assemble(model)
+    a, b = asm0.a, asm0.b
+    sink = np.array([s.sink for s in model.subsystems], dtype=bool)
+    ns, n, nb = damping.shape
+    with np.errstate(divide="ignore", invalid="ignore"):
+        eta_ba = np.where(sink[b][None, :, None], 0.0, eta_ab * modal[:, a] / modal[:, b])
+    diag = np.where(sink[None, :, None], 0.0, damping)
+    diag = diag.copy()
+    diag_t = diag.swapaxes(0, 1)  # a view: (N, S, B)
+    np.add.at(diag_t, a, eta_ab.swapaxes(0, 1))
+    np.add.at(diag_t, b, eta_ba.swapaxes(0, 1))
+    free = np.flatnonzero(~held)
+    pos = np.full(n, -1, dtype=np.int64)
+    pos[free] = np.arange(free.size)
+    nf = free.size
+    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), (ns, n, nb)).copy()
+    if not nf:
+        return energy
+    ff = (pos[a] >= 0) & (pos[b] >= 0)
+    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
+    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
+    k = rows.size
+    scatter = sp.csr_matrix(
+        (np.ones(k), (rows * nf + cols, np.arange(k))), shape=(nf * nf, k)
+    )
+    fa = (pos[a] >= 0) & held[b]
+    fb = (pos[b] >= 0) & held[a]
+    omega = model.bands.omega
+    for j in range(nb):
+        vals = np.concatenate(
+            [diag[:, free, j], -eta_ba[:, ff, j], -eta_ab[:, ff, j]], axis=1
+        )  # (S, K)
+        mats = np.asarray((scatter @ vals.T).T).reshape(ns, nf, nf)
+        rhs = power[:, free, j] / omega[j]
+        rhs_t = rhs.T  # a view: (nf, S)
+        np.add.at(rhs_t, pos[a[fa]], (eta_ba[:, fa, j] * held_energy[b[fa], j]).T)
+        np.add.at(rhs_t, pos[b[fb]], (eta_ab[:, fb, j] * held_energy[a[fb], j]).T)
+        try:
+            x = np.linalg.solve(mats, rhs[:, :, None])[:, :, 0]
+        except np.linalg.LinAlgError:
+            raise SolveError(
+                f"band {model.bands.label(j)}: a sampled power balance is singular"
+            ) from None
+        energy[:, free, j] = x
+    if np.any(energy < 0):
+        raise SolveError("a sample gave a negative energy (negative sampled loss factor?)")
+    return energy
+
+
+# -- the result ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class Spread:
+    """Monte Carlo samples of every level and their percentiles.
+
+    Attributes
+    ----------
+    model : Model
+        The nominal model.
+    nominal : Result
+        Its deterministic solve.
+    mean_square : ndarray (S, N, B)
+        Per sample ``10^(L/10)`` (the level's mean-square ratio to its reference squared);
+        percentiles are taken on it and converted to dB (0 gives minus infinity).
+    uncertain : list of Uncertain
+    seed : int
+    method : str
+        'direct (batched dense)', 'direct (sparse per sample)' or 'rebuild per sample'.
+    """
+
+    model: Model
+    nominal: Result
+    mean_square: Array
+    uncertain: list[Uncertain]
+    seed: int
+    method: str
+
+    @property
+    def samples(self) -> int:
+        return int(self.mean_square.shape[0])
+
+    def levels(self) -> Array:
+        """Sampled levels (S, N, B) [dB]."""
+        return db(self.mean_square)
+
+    def table(self, percentiles: Sequence[float] = (5.0, 50.0, 95.0)) -> pd.DataFrame:
+        """Per subsystem (with a level) and band: nominal level and sample percentiles.
+
+        Columns: ``subsystem, band_hz, band_exact_hz, level_ref, nominal_dB``,
+        ``p5_dB, p50_dB, p95_dB`` (one per percentile; linear interpolation of the
+        mean-square samples, numpy's default), ``mean_dB`` (level of the sample mean of the
+        mean square), ``samples``, ``modes_in_band, modal_overlap, valid``.
+        """
+        m = self.model
+        nb = len(m.bands)
+        lv, _, refs = self.nominal.level_array()
+        asm = assemble(m)
+        keep = [i for i, s in enumerate(m.subsystems) if not s.sink]
+        q = self.mean_square[:, keep, :]
+        pct = np.percentile(q, list(percentiles), axis=0)  # (P, K, B)
+        cols: dict[str, Any] = {
+            "subsystem": np.repeat([m.names[i] for i in keep], nb),
+            "band_hz": np.tile(m.bands.nominal, len(keep)),
+            "band_exact_hz": np.tile(m.bands.centre, len(keep)),
+            "level_ref": np.repeat([refs[i] for i in keep], nb),
+            "nominal_dB": lv[keep].ravel(),
+        }
+        for p, v in zip(percentiles, pct, strict=True):
+            cols[f"p{p:g}_dB"] = db(v).ravel()
+        cols["mean_dB"] = db(q.mean(axis=0)).ravel()
+        cols["samples"] = self.samples
+        val = [validity_columns(m, asm, i) for i in keep]
+        for c in ("modes_in_band", "modal_overlap", "valid"):
+            cols[c] = np.concatenate([v[c] for v in val])
+        return pd.DataFrame(cols)
+
+    def overall(self, percentiles: Sequence[float] = (5.0, 50.0, 95.0)) -> pd.DataFrame:
+        """Percentiles of each subsystem's overall (energetic band sum) level."""
+        m = self.model
+        keep = [i for i, s in enumerate(m.subsystems) if not s.sink]
+        tot = self.mean_square[:, keep, :].sum(axis=2)  # (S, K)
+        lv, _, refs = self.nominal.level_array()
+        cols: dict[str, Any] = {
+            "subsystem": [m.names[i] for i in keep],
+            "level_ref": [refs[i] for i in keep],
+            "nominal_dB": levels.level_sum(lv[keep], axis=1),
+        }
+        for p, v in zip(percentiles, np.percentile(tot, list(percentiles), axis=0), strict=True):
+            cols[f"p{p:g}_dB"] = db(v)
+        return pd.DataFrame(cols)
+
+
+# -- the driver ---------------------------------------------------------------------------
+
+
+def spread(
+    data: Mapping[str, Any],
+    *,
+    file: str = "<data>",
+    base_dir: str | Path = ".",
+    samples: int = 1000,
+    seed: int = 0,
+    progress: bool | None = None,
+    chunk: int = 500,
+    uncertain: list[Uncertain] | None = None,
+    force_rebuild: bool = False,
+) -> Spread:
+    """Monte Carlo spread of every level from the ``[uncertainty]`` section of ``data``.
+
+    Parameters
+    ----------
+    data : mapping
+        Parsed model file (not changed).
+    file, base_dir :
+        For messages and relative CSV paths.
+    samples : int
+        Number of samples (>= 1).
+    seed : int
+        Seed of :func:`numpy.random.default_rng`; the same seed gives the same samples.
+    progress : bool, optional
+        Show a progress bar on stderr (default: when stderr is a terminal).
+    chunk : int
+        Samples per batch of the vectorised route (memory: chunk * N^2 * 8 bytes).
+    uncertain : list of Uncertain, optional
+        Spreads to use instead of the file's section.
+    force_rebuild : bool
+        Rebuild every sample through the model reader even when direct sampling would do
+        (for testing both routes agree).
+
+    Returns
+    -------
+    Spread
+    """
+    if samples < 1:
+        raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
+    model = build(data, file=file, base_dir=base_dir)
+    unc = read_uncertainty(data, file=file, base_dir=base_dir) if uncertain is None else uncertain
+    if not unc:
+        raise InputError(
+            [Problem(file, "uncertainty", "no [uncertainty.NAME] tables: nothing to vary")]
+        )
+    nominal = Result(model, core_solve(model))
+    rng = np.random.default_rng(seed)
+    draws = [u.draw(rng, samples) for u in unc]
+    if progress is None:
+        progress = sys.stderr.isatty()
+    bar = _Progress(samples, bool(progress))
+    targets = [_direct_target(data, model, u.parameter) for u in unc]
+    n = len(model.subsystems)
+    offsets = np.array([level_offset(model, i) for i in range(n)])
+    if not force_rebuild and all(t is not None for t in targets):
+        _check_direct(model, unc, targets, file)
+        asm = assemble(model)
+        nf = int((~asm.held).sum())
+        if nf <= DENSE_LIMIT:
+            q = _run_dense(model, unc, targets, draws, asm, chunk, bar)
+            method = "direct (batched dense)"
+        else:
+            q = _run_sparse(model, unc, targets, draws, bar)
+            method = "direct (sparse per sample)"
+        q = q * 10.0 ** (offsets[None, :, None] / 10.0)
+    else:
+        q = _run_rebuild(data, model, unc, draws, file, base_dir, bar)
+        method = "rebuild per sample"
+    sinks = np.array([s.sink for s in model.subsystems])
+    q[:, sinks, :] = 0.0
+    return Spread(model, nominal, q, unc, seed, method)
+
+
+def _check_direct(
+    model: Model, unc: list[Uncertain], targets: list[tuple[str, int] | None], file: str
+) -> None:
+    problems = []
+    for u, t in zip(unc, targets, strict=True):
+        assert t is not None
+        if u.distribution == "normal":
+            assert u.sd is not None
+            base = _base_array(model, t)
+            if np.min(base) - 4.75 * u.sd <= 0:
+                problems.append(
+                    Problem(
+                        file,
+                        f"uncertainty.{u.name}.sd",
+                        f"{u.sd:g} would draw values <= 0 for {u.parameter!r} (more than 1e-6 "
+                        "of samples); use distribution = 'lognormal'",
+                    )
+                )
+        if u.low is not None and u.low <= 0:
+            problems.append(
+                Problem(file, f"uncertainty.{u.name}.low", f"must be > 0 for {u.parameter!r}")
+            )
+    if problems:
+        raise InputError(problems)
+
+
+def _base_array(model: Model, t: tuple[str, int]) -> Array:
+    kind, i = t
+    if kind == "damping":
+        return np.asarray(model.subsystems[i].damping)
+    if kind == "modal_density":
+        return np.asarray(model.subsystems[i].modal_density)
+    if kind == "eta_ab":
+        return np.asarray(model.connections[i].coupling_loss_factor)
+    p = model.excitations[i].power
+    assert p is not None
+    return np.asarray(p)
+
+
+def _run_dense(
+    model: Model,
+    unc: list[Uncertain],
+    targets: list[tuple[str, int] | None],
+    draws: list[Array],
+    asm: Any,
+    chunk: int,
+    bar: _Progress,
+) -> Array:
+    n, nb = asm.shape
+    ns = draws[0].size
+    base_damp = np.vstack([s.damping for s in model.subsystems])
+    base_modal = np.vstack([s.modal_density for s in model.subsystems])
+    base_eta = (
+        np.vstack([c.coupling_loss_factor for c in model.connections])
+        if model.connections
+        else np.zeros((0, nb))
+    )
+    exc_sub = model.index()
+    out = np.empty((ns, n, nb))
+    for start in range(0, ns, chunk):
+        stop = min(ns, start + chunk)
+        s = stop - start
+        damp = np.broadcast_to(base_damp, (s, n, nb)).copy()
+        modal = np.broadcast_to(base_modal, (s, n, nb)).copy()
+        eta = np.broadcast_to(base_eta, (s, *base_eta.shape)).copy()
+        exc_power = [
+            np.broadcast_to(e.power, (s, nb)).copy() if e.power is not None else None
+            for e in model.excitations
+        ]
+        for u, t, d in zip(unc, targets, draws, strict=True):
+            assert t is not None
+            kind, i = t
+            dd = d[start:stop, None]
+            if kind == "damping":
+                damp[:, i] = u.apply(damp[:, i], dd)
+            elif kind == "modal_density":
+                modal[:, i] = u.apply(modal[:, i], dd)
+            elif kind == "eta_ab":
+                eta[:, i] = u.apply(eta[:, i], dd)
+            else:
+                p = exc_power[i]
+                assert p is not None
+                exc_power[i] = u.apply(p, dd)
+        power = np.zeros((s, n, nb))
+        for e, p in zip(model.excitations, exc_power, strict=True):
+            if p is not None:
+                power[:, exc_sub[e.subsystem]] += p
+        out[start:stop] = _batched_dense(model, damp, modal, eta, power, asm.held, asm.held_energy)
+        bar.update(stop)
+    return out
+
+
+def _sampled_model(
+    model: Model, unc: list[Uncertain], targets: list[tuple[str, int] | None], d: list[float]
+) -> Model:
+    subs = list(model.subsystems)
+    cons = list(model.connections)
+    exs = list(model.excitations)
+    for u, t, x in zip(unc, targets, d, strict=True):
+        assert t is not None
+        kind, i = t
+        dx = np.asarray(x)
+        if kind == "damping":
+            subs[i] = replace(subs[i], damping=u.apply(np.asarray(subs[i].damping), dx))
+        elif kind == "modal_density":
+            subs[i] = replace(
+                subs[i], modal_density=u.apply(np.asarray(subs[i].modal_density), dx)
+            )
+        elif kind == "eta_ab":
+            cons[i] = replace(
+                cons[i], coupling_loss_factor=u.apply(np.asarray(cons[i].coupling_loss_factor), dx)
+            )
+        else:
+            p = exs[i].power
+            assert p is not None
+            exs[i] = replace(exs[i], power=u.apply(np.asarray(p), dx))
+    return replace(model, subsystems=tuple(subs), connections=tuple(cons), excitations=tuple(exs))
+
+
+def _run_sparse(
+    model: Model,
+    unc: list[Uncertain],
+    targets: list[tuple[str, int] | None],
+    draws: list[Array],
+    bar: _Progress,
+) -> Array:
+    ns = draws[0].size
+    out = np.empty((ns, len(model.subsystems), len(model.bands)))
+    for k in range(ns):
+        m = _sampled_model(model, unc, targets, [float(d[k]) for d in draws])
+        out[k] = core_solve(m).energy
+        bar.update(k + 1)
+    return out
+
+
+def _changer(u: Uncertain, x: float) -> Callable[[Array], Array]:
+    def change(v: Array) -> Array:
+        return np.asarray(u.apply(v, np.asarray(x)), dtype=float)
+
+    return change
+
+
+def _run_rebuild(
+    data: Mapping[str, Any],
+    model: Model,
+    unc: list[Uncertain],
+    draws: list[Array],
+    file: str,
+    base_dir: str | Path,
+    bar: _Progress,
+) -> Array:
+    ns = draws[0].size
+    n = len(model.subsystems)
+    out = np.empty((ns, n, len(model.bands)))
+    for k in range(ns):
+        d: Mapping[str, Any] = data
+        for u, dr in zip(unc, draws, strict=True):
+            d = with_value(d, u.parameter, _changer(u, float(dr[k])))
+        try:
+            m = build(d, file=file, base_dir=base_dir)
+        except InputError as exc:
+            first = exc.problems[0] if exc.problems else ""
+            raise InputError(
+                [Problem(file, "uncertainty", f"sample {k + 1} is not a valid model: {first}")]
+            ) from None
+        if m.names != model.names:
+            raise InputError(
+                [Problem(file, "uncertainty", f"sample {k + 1} changes the set of subsystems")]
+            )
+        e = core_solve(m).energy
+        off = np.array([level_offset(m, i) for i in range(n)])
+        out[k] = e * 10.0 ** (off[:, None] / 10.0)
+        bar.update(k + 1)
+    return out
+
+
+def spread_file(path: str | Path, **kwargs: Any) -> Spread:
+    """:func:`spread` of a model file (its ``[uncertainty]`` section)."""
+    data, file, base = read_data(path)
+    return spread(data, file=file, base_dir=base, **kwargs)
+
