@@ -513,3 +513,41 @@ def test_bad_treatment_input(tmp_path, capsys, case, base, old, new, fragments):
     assert len(err) == 1, err
     for frag in fragments:
         assert frag in err[0], err[0]
+
+
+# ------------------------------------------------------------------------------------------
+# seatool panel with a treatment
+
+
+def test_panel_shows_treatment_columns(tmp_path, capsys):
+    # Heavy layer bonded on 1 mm steel, 100 Hz - 2 kHz (far below f_c ~ 12 kHz): the
+    # insertion loss follows the field-incidence mass law, 20 lg((m1 + m2)/m1) within 0.3 dB
+    # (Vigran 2008 eq. 6.102; common practice). A heavy layer is impervious: rigid-backed it
+    # cannot move on a rigid wall and absorbs nothing.
+    import pandas as pd
+
+    out_csv = tmp_path / "panel.csv"
+    args = ["panel", "--material", "steel", "--thickness", "0.001", "--lx", "1", "--ly", "0.8"]
+    args += ["--lowest", "100", "--highest", "2000", "--csv", str(out_csv)]
+    assert main([*args, "--trim", "heavy_layer_5kg", "--damping-layer", "damping_sheet_free"]) == 0
+    capsys.readouterr()
+    t = pd.read_csv(out_csv)
+    np.testing.assert_allclose(
+        t["trim_insertion_loss_dB"], 20 * np.log10((7.85 + 3.4 + 5.001) / (7.85 + 3.4)), atol=0.3
+    )
+    np.testing.assert_array_equal(t["trim_absorption"], 0.0)  # impervious mass on a rigid wall
+    # A 25 mm fibrous blanket absorbs mainly above the quarter-wavelength frequency
+    # c/(4 d) ~ 3.4 kHz (common practice): small at 100 Hz, rising, above 0.5 at 2 kHz.
+    assert main([*args, "--trim", "absorber_blanket_25mm"]) == 0
+    capsys.readouterr()
+    a = pd.read_csv(out_csv)["trim_absorption"].to_numpy()
+    assert a[0] < 0.1 and a[-1] > 0.5 and np.all(np.diff(a) > 0), a
+    assert np.all(t["composite_loss_factor"] > 0.02)  # bitumen-like sheet: 0.05-0.3 typical
+    np.testing.assert_allclose(t["bonded_mass_kg_m2"], 3.4)  # 2 mm x 1700 kg/m^3
+
+
+def test_panel_bad_treatment_option(tmp_path, capsys):
+    args = ["panel", "--material", "steel", "--thickness", "0.001", "--lx", "1", "--ly", "0.8"]
+    assert main([*args, "--damping-layer", "vem_core_constrained", "--cover", "stel:0.0005"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--cover" in err[0] and "did you mean 'steel'" in err[0], err
