@@ -38,7 +38,7 @@ class Command:
 
 
 #: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
-COMMAND_MODULES: list[str] = ["seatool.analysis.commands"]
+COMMAND_MODULES: list[str] = ["seatool.panel", "seatool.analysis.commands"]
 
 
 def _commands() -> dict[str, Command]:
@@ -136,7 +136,9 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         print("power balance [W] (input = dissipated + net_out)")
         print(
             pb.drop(columns="band_exact_hz").to_string(
-                index=False, float_format=lambda x: f"{x:.3e}"
+                index=False,
+                float_format=lambda x: f"{x:.3e}",
+                formatters={"band_hz": lambda x: f"{x:g}"},
             )
         )
     if csv_path is not None:
@@ -178,21 +180,30 @@ def summary(model: Model) -> str:
     for c in model.connections:
         out.append(f"  {c.name}: {c.a} -> {c.b} ({c.kind}), eta = {_range(c.coupling_loss_factor)}")
     out.append(f"excitations ({len(model.excitations)}):")
+    overall = 0.0
     for e in model.excitations:
         if e.kind == "power":
             assert e.power is not None
             total = float(np.sum(e.power))
+            overall += total
+            given = f" from {e.quantity}" if e.quantity not in (None, "power") else ""
             out.append(
-                f"  {e.name}: input power into {e.subsystem}, total {total:.3g} W over the bands"
+                f"  {e.name}: input power into {e.subsystem}{given}, total {total:.3g} W over "
+                "the bands"
             )
         else:
             assert e.level is not None
             out.append(f"  {e.name}: {e.subsystem} held at {e.quantity} {_range(e.level)} dB")
+    if any(e.kind == "power" for e in model.excitations):
+        out.append(f"  total input power of the sources: {overall:.3g} W")
     from .kinds.treatment import summary_lines  # treated plates, linings (mass per area)
 
     out.extend(summary_lines(model))
     for note in model.notes:
         out.append(f"note: {note}")
+    from .validity_report import check_table
+
+    out.append(check_table(model))
     return "\n".join(out)
 
 

@@ -824,7 +824,11 @@ def _declared_subsystems(data: Mapping[str, Any]) -> dict[str, None]:
 
 #: Modules that register further readers into the registries above (imported before the
 #: first model is read, so that physics-derived kinds are available).
-READER_MODULES: list[str] = ["seatool.kinds.connections"]
+READER_MODULES: list[str] = [
+    "seatool.kinds.subsystems",
+    "seatool.kinds.connections",
+    "seatool.kinds.treatment",
+]
 
 
 def register_readers() -> None:

@@ -56,7 +56,32 @@ class Result:
 
     @property
     def notes(self) -> tuple[str, ...]:
-        return self.model.notes + self.solution.notes
+        """Model and solver notes, then SEA validity warnings (weak bands, model limits)."""
+        from .validity_report import weak_band_notes
+
+        return self.model.notes + self.solution.notes + weak_band_notes(self.model)
+
+    def validity(self) -> pd.DataFrame:
+        """SEA validity per subsystem and band (:func:`seatool.validity_report.validity_table`):
+        ``subsystem, band_hz, modes_in_band, modal_overlap, ..., flag, message``."""
+        from .validity_report import validity_table
+
+        return validity_table(self.model)
+
+    def sources(self) -> pd.DataFrame:
+        """Overall input power per excitation: ``excitation, subsystem, given, input_W``
+        (band sum; for a held level, the power its subsystem needs to stay there)."""
+        m = self.model
+        idx = m.index()
+        rows = []
+        for e in m.excitations:
+            if e.kind == "power":
+                assert e.power is not None
+                total = float(np.sum(e.power))
+            else:
+                total = float(np.sum(self.solution.input_power[idx[e.subsystem]]))
+            rows.append((e.name, e.subsystem, e.quantity or e.kind, total))
+        return pd.DataFrame(rows, columns=["excitation", "subsystem", "given", "input_W"])
 
     def level_array(self) -> tuple[Array, list[str], list[str]]:
         """Levels (N, B) [dB], their quantity and reference label per subsystem."""
@@ -235,6 +260,10 @@ class Result:
         out.append("")
         out.append("levels in dB: " + "; ".join(f"{c} {q[c]}" for c in cols))
         out.append(f"conservation residual (max over bands): {self.solution.residual.max():.1e}")
+        src = self.sources()
+        if len(src):
+            parts = ", ".join(f"{r.excitation} {r.input_W:.3g} W" for r in src.itertuples())
+            out.append(f"input power (sum over bands): {src['input_W'].sum():.3g} W ({parts})")
         for note in self.notes:
             out.append(f"note: {note}")
         return "\n".join(out)

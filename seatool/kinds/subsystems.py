@@ -887,15 +887,15 @@ def _read_acoustic_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem
         geo_src = f"box {lx:g} x {ly:g} x {lz:g} m"
     else:
         need = ("volume",) if "modal_density" in s else ("volume", "surface_area", "edge_length")
-        for k in need:
-            if k not in s:
-                rd.error(
-                    f"{path}.{k}",
-                    "missing required key (or give dimensions = [lx, ly, lz]"
-                    + ("" if "modal_density" in s else ", or modal_density")
-                    + ")",
-                )
-                ok = False
+        missing = [k for k in need if k not in s]
+        if missing:
+            others = f" (also {', '.join(missing[1:])})" if len(missing) > 1 else ""
+            rd.error(
+                f"{path}.{missing[0]}",
+                f"missing required key{others}; or give dimensions = [lx, ly, lz]"
+                + ("" if "modal_density" in s else ", or modal_density"),
+            )
+            ok = False
         for k, unit in (("volume", "m^3"), ("surface_area", "m^2"), ("edge_length", "m")):
             if k in s:
                 x = rd.number(s[k], f"{path}.{k}", unit=unit, strict=k != "edge_length")
@@ -1116,7 +1116,7 @@ def _conv_force(  # type: ignore[no-untyped-def]
             fb = mob.beam_end_mobility if pos == "end" else mob.beam_point_mobility
             y = fb(b.centre, mat["youngs_modulus"], i, p["mass_per_length"])
         return "power", mob.point_force_power(v, np.broadcast_to(y, v.shape))
-    what = f"a {sub.kind}" + (f" ({wave} field)" if wave else "")
+    what = f"of kind {sub.kind}" + (f" ({wave} field)" if wave else "")
     rd.error(
         path,
         f"a point force needs the bending field of a plate or the bending or longitudinal "
@@ -1143,7 +1143,7 @@ def _conv_diffuse(  # type: ignore[no-untyped-def]
         rd.error(
             path,
             f"a diffuse sound field acts on the bending field of a flat panel "
-            f"({', '.join(PLATE_KINDS)}); {sub.name!r} is a {sub.kind}",
+            f"({', '.join(PLATE_KINDS)}); {sub.name!r} is of kind {sub.kind}",
         )
         return None
     fpath = path.rsplit(".", 1)[0] + ".fluid"
