@@ -46,6 +46,7 @@ from ..physics import coupling, junctions, mobility, radiation, structural, tran
 __all__ = [
     "RADIATION_METHODS",
     "TAU_FLOOR",
+    "cavity_pair_clf",
     "default_angles",
     "fluid_of",
     "panel_critical_frequency",
@@ -162,6 +163,20 @@ def _flag(rd: Reader, table: Mapping[str, Any], key: str, path: str) -> bool | N
         rd.error(_join(path, key), f"must be true or false, got {v!r}")
         return None
     return v
+
+
+def cavity_pair_clf(eta_12: Array, eta_21: Array, n_1: Array, n_2: Array) -> Array:
+    """The CLF 1 -> 2 of a cavity-to-cavity path, independent of the stated direction.
+
+    The diffuse-field relations (intensity ``c E/(4 V)`` on a wall) give ``eta_12`` from
+    ``V_1`` and ``eta_21`` from ``V_2``; they obey ``n_1 eta_12 = n_2 eta_21`` exactly only
+    with the volume term of the cavity modal density. With the surface and edge terms of
+    the cavities' own ``n`` (which the solver uses for reciprocity) the two differ slightly,
+    so the connection states the geometric mean ``sqrt(eta_12 eta_21 n_2 / n_1)``: the same
+    model results whichever cavity is named first, and each physical value is recovered
+    when the cavities' ``n/V`` are equal.
+    """
+    return np.asarray(np.sqrt(eta_12 * eta_21 * n_2 / n_1), dtype=float)
 
 
 def _need_two(rd: Reader, path: str, ends: list[Subsystem], what: str) -> bool:
@@ -436,9 +451,14 @@ def _read_nonresonant(
             "non-resonant path model assumes the same fluid on both sides",
         )
         return None
-    v1 = _volume(ends[0])
-    assert v1 is not None and rd.bands is not None
-    eta = nonresonant_clf(rd, props, f1, v1, stiffness_factor=sf)
+    v1, v2 = _volume(ends[0]), _volume(ends[1])
+    assert v1 is not None and v2 is not None and rd.bands is not None
+    eta = cavity_pair_clf(
+        nonresonant_clf(rd, props, f1, v1, stiffness_factor=sf),
+        nonresonant_clf(rd, props, f1, v2, stiffness_factor=sf),
+        ends[0].modal_density,
+        ends[1].modal_density,
+    )
     eta = eta * treatment_factor(props, None, len(rd.bands))
     return Connection(
         name,
@@ -466,41 +486,64 @@ def default_angles(n: int) -> tuple[float, ...] | None:
 
 
 def _junction_plate(
-    rd: Reader, path: str, sub: Subsystem, angle_deg: float
-) -> junctions.JunctionPlate | None:
+    rd: Reader, path: str, sub: Subsystem, angle_deg: float, nb: int
+) -> tuple[list[junctions.JunctionPlate], bool] | None:
+    """Per-band plates of the wave model for one subsystem, and whether it is equivalent.
+
+    A homogeneous isotropic plate is used as it is (density from the mass per area, so an
+    added treatment mass is included). Any other flat panel (orthotropic, ribbed,
+    sandwich: ``bending_stiffness`` differs from ``E h^3/(12(1 - nu^2))``) is replaced by
+    the equivalent isotropic plate with the subsystem's own bending stiffness and mass
+    per area (thickness ``h_eq = (12 (1 - nu^2) D / E)^(1/3)``), so that the bending
+    wavenumber, which dominates the junction, is the subsystem's; its in-plane stiffness is
+    then that of ``h_eq`` (an approximation, stated in the provenance).
+    """
     p = sub.properties
     mat = p.get("material")
-    h = p.get("thickness")
     vals = {k: _get(mat, k) for k in ("density", "youngs_modulus", "poisson_ratio")}
-    if h is None or mat is None or any(v is None for v in vals.values()):
+    if mat is None or any(v is None for v in vals.values()) or "mass_per_area" not in p:
         rd.error(
             path,
-            f"plate {sub.name!r} has no homogeneous material and thickness (properties "
-            "'thickness' and 'material' with density, youngs_modulus, poisson_ratio); the "
-            "line junction wave model needs them",
+            f"plate {sub.name!r} has no material (properties 'material' with density, "
+            "youngs_modulus, poisson_ratio, and 'mass_per_area'); the line junction wave "
+            "model needs them",
         )
         return None
-    e, nu, h = float(vals["youngs_modulus"]), float(vals["poisson_ratio"]), float(h)
-    d = np.asarray(p.get("bending_stiffness", np.nan), dtype=float)
-    d_iso = float(structural.bending_stiffness(e, h, nu))
-    if d.ndim != 0 or not math.isclose(float(d), d_iso, rel_tol=_HOMOGENEOUS):
-        rd.error(
-            path,
-            f"plate {sub.name!r} is not a homogeneous isotropic plate (its bending stiffness "
-            "differs from E h^3/(12(1 - nu^2))); the line junction wave model needs one "
-            "(give the coupling loss factor with kind = 'given')",
-        )
+    e, nu = float(vals["youngs_modulus"]), float(vals["poisson_ratio"])
+    m = float(p["mass_per_area"])
+    d = _per_band(p.get("bending_stiffness", np.nan), nb)
+    h = p.get("thickness")
+    if h is not None and np.ndim(h) == 0:
+        d_iso = float(structural.bending_stiffness(e, float(h), nu))
+        homogeneous = bool(np.allclose(d, d_iso, rtol=_HOMOGENEOUS, atol=0.0))
+    else:
+        homogeneous = False
+    if not np.all(np.isfinite(d) & (d > 0)):
+        rd.error(path, f"plate {sub.name!r} has no valid bending_stiffness property")
         return None
-    # Density from the mass per area, so that the bending wavenumber of the wave model is
-    # the subsystem's own (an added treatment mass included).
-    rho = float(p.get("mass_per_area", float(vals["density"]) * h)) / h
+    if homogeneous:
+        assert h is not None
+        h_eq = np.full(nb, float(h))
+    else:
+        h_eq = (12.0 * (1.0 - nu**2) * d / e) ** (1 / 3)
+    cache: dict[float, junctions.JunctionPlate] = {}
+    out = []
     try:
-        return junctions.JunctionPlate(
-            thickness=h, youngs_modulus=e, density=rho, poisson=nu, angle=math.radians(angle_deg)
-        )
+        for hb in h_eq:
+            key = float(hb)
+            if key not in cache:
+                cache[key] = junctions.JunctionPlate(
+                    thickness=key,
+                    youngs_modulus=e,
+                    density=m / key,
+                    poisson=nu,
+                    angle=math.radians(angle_deg),
+                )
+            out.append(cache[key])
     except ValueError as exc:
         rd.error(path, f"plate {sub.name!r}: {exc}")
         return None
+    return out, not homogeneous
 
 
 def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: Array) -> Array:
@@ -570,8 +613,11 @@ def _read_line(
         return None
     length = rd.number(s["length"], _join(path, "length"), unit="m")
     angles = _angles(rd, s, path, len(ends))
-    plates: list[junctions.JunctionPlate] = []
+    per_plate: list[list[junctions.JunctionPlate]] = []
+    equivalent: list[str] = []
     ok = length is not None and angles is not None
+    assert rd.bands is not None
+    nb = len(rd.bands)
     for k, e in enumerate(ends):
         bp = f"{path}.between[{k}]"
         if e.properties.get("wave_type") != "bending" or "area" not in e.properties:
@@ -583,15 +629,27 @@ def _read_line(
             ok = False
             continue
         if angles is not None:
-            jp = _junction_plate(rd, bp, e, angles[k])
-            if jp is None:
+            got = _junction_plate(rd, bp, e, angles[k], nb)
+            if got is None:
                 ok = False
             else:
-                plates.append(jp)
+                per_plate.append(got[0])
+                if got[1]:
+                    equivalent.append(e.name)
     if not ok:
         return None
-    assert rd.bands is not None and length is not None
+    assert length is not None
     f = np.asarray(rd.bands.centre, dtype=float)
+    # Bands that share the same set of plates are solved together (one group unless a
+    # plate has a per-band bending stiffness).
+    groups: dict[tuple[int, ...], list[int]] = {}
+    for j in range(nb):
+        groups.setdefault(tuple(id(pp[j]) for pp in per_plate), []).append(j)
+    note = (
+        f"; equivalent isotropic plate (same D and m'') for {', '.join(map(repr, equivalent))}"
+        if equivalent
+        else ""
+    )
     # Wave fields present in the model, per plate: bending always, in-plane if declared.
     fields: list[dict[str, Subsystem]] = []
     for e in ends:
@@ -610,13 +668,16 @@ def _read_line(
         area_i = float(ends[i].properties["area"])
         for a, src in fi.items():
             ia = _WAVES.index(a)
-            tau = junctions.line_junction_transmission_diffuse(
-                f,
-                plates,
-                source=i,
-                incident=a,  # type: ignore[arg-type]
-            )
-            cg = _group_speed(src, plates[i], a, f)
+            tau = np.empty((nb, len(ends), 3))
+            for idx in groups.values():
+                plates = [pp[idx[0]] for pp in per_plate]
+                tau[idx] = junctions.line_junction_transmission_diffuse(
+                    f[idx],
+                    plates,
+                    source=i,
+                    incident=a,  # type: ignore[arg-type]
+                )
+            cg = _group_speed(src, per_plate[i][0], a, f)
             for j, fj in enumerate(fields):
                 for b, dst in fj.items():
                     jb = _WAVES.index(b)
@@ -636,7 +697,7 @@ def _read_line(
                             provenance={
                                 "coupling_loss_factor": (
                                     f"rigid line junction, wave model ({a} -> {b}): "
-                                    "c_g L tau_bar/(pi omega S)"
+                                    "c_g L tau_bar/(pi omega S)" + note
                                 )
                             },
                         )
@@ -844,9 +905,14 @@ def _read_leak(
     else:
         tau = 1.0
         desc = "open area, tau = 1"
-    v1 = _volume(ends[0])
-    assert v1 is not None
-    eta = _per_band(coupling.clf_aperture(f, area, v1, tau, c0=c), f.size)
+    v1, v2 = _volume(ends[0]), _volume(ends[1])
+    assert v1 is not None and v2 is not None
+    eta = cavity_pair_clf(
+        _per_band(coupling.clf_aperture(f, area, v1, tau, c0=c), f.size),
+        _per_band(coupling.clf_aperture(f, area, v2, tau, c0=c), f.size),
+        ends[0].modal_density,
+        ends[1].modal_density,
+    )
     eta = np.maximum(eta, np.finfo(float).tiny)
     return Connection(
         name,
