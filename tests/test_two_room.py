@@ -121,7 +121,9 @@ def test_sharp_over_the_whole_range():
     eta_tot = 0.01 + 2 * RHO * C / (2 * np.pi * f * m)
     r0 = 20 * np.log10(np.pi * f * m / (RHO * C))
     low = r0 - 5.5
-    r_fc = 20 * np.log10(np.pi * f_c * m / (RHO * C)) + 10 * np.log10(2 * eta_tot * f_c / (np.pi * f_c))
+    r_fc = 20 * np.log10(np.pi * f_c * m / (RHO * C)) + 10 * np.log10(
+        2 * eta_tot * f_c / (np.pi * f_c)
+    )
     r_half = 20 * np.log10(np.pi * (f_c / 2) * m / (RHO * C)) - 5.5
     high = r0 + 10 * np.log10(2 * eta_tot * f / (np.pi * f_c))
     mid = r_half + (r_fc - r_half) * np.log10(f / (f_c / 2)) / np.log10(2)
