@@ -1096,8 +1096,10 @@ def _lining_lines(model: Model) -> list[str]:
             if layers is None:
                 continue
             m = tmm.mass_per_area(_tmm_layers(layers))
+            what = surf.get("description") if isinstance(surf.get("description"), str) else ""
             out.append(
-                f"  {name}: lining on surface {i} ({surf.get('area', '?')} m^2): "
+                f"  {name}: lining on surface {i}{f' ({what})' if what else ''}, "
+                f"{surf.get('area', '?')} m^2: "
                 f"{_buildup_text(layers)} ({m:.3g} kg/m^2)"
             )
             out.extend(f"    note: {n}" for n in _validity_notes(layers, model.bands.centre, 1.204))
