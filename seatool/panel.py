@@ -136,7 +136,7 @@ PANEL_COLUMNS: list[PanelColumn] = [_basic_columns]
 PANEL_ARGUMENTS: list[PanelArgument] = []
 #: Modules imported before ``seatool panel`` builds its options, so that they can append
 #: to :data:`PANEL_COLUMNS` / :data:`PANEL_ARGUMENTS`; append your module's dotted name.
-PANEL_EXTENSION_MODULES: list[str] = ["seatool.kinds.treatment"]
+PANEL_EXTENSION_MODULES: list[str] = ["seatool.kinds.treatment", "seatool.kinds.panel_coupling"]
 
 
 def _load_extensions() -> None:

@@ -166,3 +166,38 @@ def test_shipped_model_conserves_energy_and_reproduces_its_own_clfs(capsys, tmp_
 def test_every_shipped_model_conserves_energy(name):
     sol = solve(modelfile.load(MODELS / name))
     assert np.all(sol.residual < 1e-9)
+
+
+def test_panel_command_columns(tmp_path, capsys):
+    # `seatool panel` gets radiation efficiency and the two-room SEA transmission loss;
+    # steel 1 mm, 3.0 m x 2.5 m, 125 Hz - 2 kHz: within 3 dB of the field-incidence mass
+    # law 20 lg(f m'') - 47 dB (Vigran 2008 eq. 6.102), as in test_mass_law_well_below_...
+    import pandas as pd
+
+    out = tmp_path / "panel.csv"
+    code = main(["panel", "--material", "steel", "--thickness", "0.001", "--lx", "3.0",
+                 "--ly", "2.5", "--loss-factor", "0.01", "--lowest", "125", "--highest",
+                 "2000", "--csv", str(out)])  # fmt: skip
+    capsys.readouterr()
+    assert code == 0
+    t = pd.read_csv(out)
+    assert {"radiation_efficiency", "transmission_loss_sea_dB"} <= set(t.columns)
+    r_vigran = 20 * np.log10(t["band_exact_hz"] * 7850 * 0.001) - 47.0
+    assert np.all(np.abs(t["transmission_loss_sea_dB"] - r_vigran) < 3.0)
+    # below coincidence the resonant radiation efficiency is well below 1 (Leppington 1982)
+    assert np.all(t["radiation_efficiency"] < 0.5)
+
+
+@pytest.mark.parametrize(
+    ("args", "fragment"),
+    [
+        (["--room-volumes", "60", "-5"], "--room-volumes"),
+        (["--room-reverberation-time", "soon"], "--room-reverberation-time"),
+    ],
+)
+def test_panel_command_bad_room_options(capsys, args, fragment):
+    code = main(["panel", "--material", "steel", "--thickness", "0.001", "--lx", "1",
+                 "--ly", "1", *args])  # fmt: skip
+    err = [ln for ln in capsys.readouterr().err.splitlines() if ln.strip()]
+    assert code == 2
+    assert len(err) == 1 and fragment in err[0], err
