@@ -493,6 +493,52 @@ BAD = [
         ["subsystems.box.damping.absorption_area", "needs a cavity"],
     ),
     (
+        "constrained-without-cover",
+        _GOOD_PLATE,
+        '"damping_sheet_free" }',
+        '"vem_core_constrained", constrained = true }',
+        ["subsystems.floor.treatment.cover", "needs a cover"],
+    ),
+    (
+        "unknown-cover-material",
+        _GOOD_PLATE,
+        '"damping_sheet_free" }',
+        '"vem_core_constrained", cover = { material = "steal", thickness = 5e-4 } }',
+        ["subsystems.floor.treatment.cover.material", "did you mean 'steel'"],
+    ),
+    (
+        "face-without-trim",
+        _GOOD_PLATE,
+        '"damping_sheet_free" }',
+        '"damping_sheet_free", face = "cabin" }',
+        ["subsystems.floor.treatment.face", "only with a trim"],
+    ),
+    (
+        "unknown-layer-kind",
+        _GOOD_PLATE,
+        '"damping_sheet_free" }',
+        '"damping_sheet_free", trim = { kind = "foam", thickness = 0.01 }, face = "c" }',
+        ["subsystems.floor.treatment.trim.kind", "unknown layer kind 'foam'"],
+    ),
+    (
+        "modulus-table-not-increasing",
+        _GOOD_PLATE,
+        '"damping_sheet_free"',
+        '{ kind = "viscoelastic", thickness = 0.002, density = 1500, modulus = '
+        "{ frequency_hz = [100, 10], storage = [1e9, 1e9], loss_factor = [0.3, 0.3] } }",
+        ["subsystems.floor.treatment.damping_layer.modulus", "strictly increasing"],
+    ),
+    (
+        "surfaces-exceed-cavity-area",
+        _GOOD_ROOM.replace(
+            'kind = "cavity"\nvolume = 60.0\nmodal_density = 1.0',
+            'kind = "acoustic_cavity"\ndimensions = [2.0, 2.0, 2.0]',
+        ),
+        "area = 20,",
+        "area = 30,",
+        ["subsystems.room.damping.surfaces", "more than the cavity's surface area 24"],
+    ),
+    (
         "porous-without-jca-lengths",
         _GOOD_ROOM,
         "absorption = 0.1",
