@@ -259,7 +259,7 @@ def _dx(x0: Array, xp: Array, xm: Array, h: float) -> Array:
 
 def parameter_sensitivities(
     data: Mapping[str, Any],
-    receiver: str,
+    receiver: str | Sequence[str],
     params: Sequence[str],
     *,
     file: str = "<data>",
@@ -273,8 +273,8 @@ def parameter_sensitivities(
     ----------
     data : mapping
         Parsed model file (as from ``tomllib``); not changed.
-    receiver : str
-        Receiving subsystem.
+    receiver : str or sequence of str
+        Receiving subsystem(s); the model is rebuilt once for all of them.
     params : sequence of str
         Key paths of numbers or spectra in the file, e.g. ``subsystems.floor.thickness``
         (a spectrum is scaled as a whole, the same factor in every band).
@@ -310,10 +310,12 @@ def parameter_sensitivities(
         raise InputError(problems)
     m0 = build(data, file=file, base_dir=base_dir) if model is None else model
     a0 = assemble(m0)
-    g = gradients(m0, receiver, asm=a0)
-    r = g.receiver
-    d_e: list[Array] = []
-    d_off: list[float] = []
+    receivers = [receiver] if isinstance(receiver, str) else list(receiver)
+    grads = [gradients(m0, r, asm=a0) for r in receivers]
+    fields = ("damping", "eta_ab", "eta_ba", "power", "held_energy")
+    d_e: list[list[Array]] = [[] for _ in receivers]
+    d_off: list[list[float]] = [[] for _ in receivers]
+    h2 = 2.0 * step
     for p in params:
         built = []
         for sign in (1.0, -1.0):
@@ -332,15 +334,19 @@ def parameter_sensitivities(
                 raise InputError([Problem(file, p, f"varying this parameter {why}")])
             built.append((m, asm))
         (mp, ap), (mm, am) = built
-        h2 = 2.0 * step
-        de = np.zeros(len(m0.bands))
-        for field in ("damping", "eta_ab", "eta_ba", "power", "held_energy"):
-            de += (getattr(g, field) * _dx(getattr(a0, field), getattr(ap, field),
-                                           getattr(am, field), step)).sum(axis=0)
-        d_e.append(de)
-        d_off.append((level_offset(mp, r) - level_offset(mm, r)) / h2)
+        dxs = {f: _dx(getattr(a0, f), getattr(ap, f), getattr(am, f), step) for f in fields}
+        for k, g in enumerate(grads):
+            de = np.zeros(len(m0.bands))
+            for f in fields:
+                de += (getattr(g, f) * dxs[f]).sum(axis=0)
+            d_e[k].append(de)
+            d_off[k].append((level_offset(mp, g.receiver) - level_offset(mm, g.receiver)) / h2)
     n = len(params)
-    return _rows(m0, a0, g, list(params), ["parameter"] * n, list(params), d_e, d_off)
+    tables = [
+        _rows(m0, a0, g, list(params), ["parameter"] * n, list(params), d_e[k], d_off[k])
+        for k, g in enumerate(grads)
+    ]
+    return pd.concat(tables, ignore_index=True)
 
 
 def ranking(table: pd.DataFrame) -> pd.DataFrame:
