@@ -245,6 +245,38 @@ lx = 2.0
     assert s.modal_density[-1] == pytest.approx(n_plate, rel=0.01)
 
 
+def test_shell_band_average_against_quad():
+    # the band average of the continuous shell count (log-singular at f_m) against
+    # scipy.integrate.quad with the singular point declared (independent numerics)
+    from scipy import integrate
+
+    from seatool.physics.structural import shell_bending_modal_density
+
+    body = """
+[subsystems.roof]
+kind = "cylindrical_shell"
+material = "aluminium"
+thickness = 0.003
+radius = 3.0
+lx = 2.4
+ly = 2.9
+damping = 0.01
+"""
+    m = model(body, lo=160, hi=400)
+    s = m.subsystem("roof")
+    e, rho, nu = 7.0e10, 2700.0, 0.33
+    f_m = math.sqrt(e / rho) / (2 * math.pi * 3.0)
+    b = m.bands
+    assert b.lower[2] < f_m < b.upper[2]  # the singular point lies in the 250 Hz band
+    for j in range(len(b)):
+        ref = integrate.quad(
+            lambda f: float(shell_bending_modal_density(f, 2.4 * 2.9, 3.0, 0.003, e, rho, nu)),
+            b.lower[j], b.upper[j], points=[f_m] if b.lower[j] < f_m < b.upper[j] else None,
+            limit=200, epsrel=1e-11,
+        )[0] / b.width[j]  # fmt: skip
+        assert s.modal_density[j] == pytest.approx(ref, rel=1e-6)
+
+
 # -- beams ----------------------------------------------------------------------------
 
 BEAM = """
