@@ -626,6 +626,11 @@ BAD = [
         ["connections.x.model", "must be one of"],
     ),
     (
+        "leak-holes",
+        '[connections.x]\nkind = "leak"\nbetween = ["a", "b"]\narea = 0.01\ndepth = 0.1\nholes = 1.5',
+        ["connections.x.holes", "whole number"],
+    ),
+    (
         "leak-plate",
         '[connections.x]\nkind = "leak"\nbetween = ["a", "p"]\narea = 0.01\nmodel = "open"',
         ["connections.x.between[1]", "not a cavity"],
