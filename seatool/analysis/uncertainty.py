@@ -131,8 +131,11 @@ def read_uncertainty(
         s = rd.table(spec, path)
         if s is None:
             continue
+        before = len(rd.problems)
         if not rd.keys(s, path, _KEYS, ("parameter", "distribution")):
             continue
+        if len(rd.problems) > before:
+            continue  # a misspelt key: its line already names the right one
         if "description" in s:
             rd.string(s["description"], f"{path}.description")
         par = rd.string(s["parameter"], f"{path}.parameter")
