@@ -558,3 +558,32 @@ def test_bad_input_one_line(tmp_path, capsys, frm, to, frags):
     assert len(err) == 1, err
     for frag in frags:
         assert frag in err[0], (frag, err[0])
+
+
+OTHER_BAD = [
+    ("beam-shape", BEAM.replace('shape = "rectangular"', 'shape = "rectangle"'),
+     "subsystems.rail.section.shape", "did you mean 'rectangular'"),
+    ("beam-field", BEAM.replace('"torsion"]', '"twist"]'),
+     "subsystems.rail.wave_fields", "unknown wave field 'twist'"),
+    ("duct-section", '[subsystems.d]\nkind = "duct"\nlength = 2.0\ndamping = 0.1\n',
+     "subsystems.d", "width and height, or as diameter"),
+    ("resonator-eta", '[subsystems.r]\nkind = "resonator"\nmass = 1.0\nstiffness = 1e5\n',
+     "subsystems.r.loss_factor", "missing required key"),
+    ("shell-thick", '[subsystems.s]\nkind = "cylindrical_shell"\nmaterial = "steel"\n'
+     'thickness = 0.2\nradius = 1.0\nlx = 1.0\n', "subsystems.s.thickness", "thickness << radius"),
+    ("sandwich-key", '[subsystems.s]\nkind = "sandwich_panel"\nface_material = "aluminium"\n'
+     'face_thickness = 0.001\ncore_shear_modulus = 2e7\ncore_thickness = 0.02\n'
+     'core_density = 50\nlx = 1.0\nly = 1.0\ncore_modulus = 3\n',
+     "subsystems.s.core_modulus", "unknown key"),
+]  # fmt: skip
+
+
+@pytest.mark.parametrize(
+    ("body", "where", "frag"), [c[1:] for c in OTHER_BAD], ids=[c[0] for c in OTHER_BAD]
+)
+def test_other_kinds_bad_input_one_problem(body, where, frag):
+    with pytest.raises(InputError) as exc:
+        model(body)
+    probs = exc.value.problems
+    assert len(probs) == 1, [str(p) for p in probs]
+    assert probs[0].path == where and frag in probs[0].message, str(probs[0])
