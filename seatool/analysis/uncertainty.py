@@ -302,11 +302,17 @@ def _batched_dense(
     ns, n, nb = damping.shape
     with np.errstate(divide="ignore", invalid="ignore"):
         eta_ba = np.where(sink[b][None, :, None], 0.0, eta_ab * modal[:, a] / modal[:, b])
-    diag = np.where(sink[None, :, None], 0.0, damping)
-    diag = diag.copy()
-    diag_t = diag.swapaxes(0, 1)  # a view: (N, S, B)
-    np.add.at(diag_t, a, eta_ab.swapaxes(0, 1))
-    np.add.at(diag_t, b, eta_ba.swapaxes(0, 1))
+    nc = a.size
+    # total loss factors: damping + sum of outgoing coupling loss factors (incidence products)
+    inc_a = sp.csr_matrix((np.ones(nc), (a, np.arange(nc))), shape=(n, nc))
+    inc_b = sp.csr_matrix((np.ones(nc), (b, np.arange(nc))), shape=(n, nc))
+
+    def _gather(inc: sp.csr_matrix, x: Array) -> Array:
+        flat = x.transpose(1, 0, 2).reshape(nc, ns * nb)
+        return np.asarray(inc @ flat).reshape(n, ns, nb).transpose(1, 0, 2)
+
+    diag = np.where(sink[None, :, None], 0.0, damping) + _gather(inc_a, eta_ab)
+    diag = diag + _gather(inc_b, eta_ba)
     free = np.flatnonzero(~held)
     pos = np.full(n, -1, dtype=np.int64)
     pos[free] = np.arange(free.size)
@@ -317,10 +323,10 @@ def _batched_dense(
     ff = (pos[a] >= 0) & (pos[b] >= 0)
     rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
     cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-    k = rows.size
-    scatter = sp.csr_matrix(
-        (np.ones(k), (rows * nf + cols, np.arange(k))), shape=(nf * nf, k)
-    )
+    # entries (row, col) of the dense matrix; parallel connections repeat a slot: sum them
+    flat = rows * nf + cols
+    order = np.argsort(flat, kind="stable")
+    slots, starts = np.unique(flat[order], return_index=True)
     fa = (pos[a] >= 0) & held[b]
     fb = (pos[b] >= 0) & held[a]
     omega = model.bands.omega
@@ -328,7 +334,9 @@ def _batched_dense(
         vals = np.concatenate(
             [diag[:, free, j], -eta_ba[:, ff, j], -eta_ab[:, ff, j]], axis=1
         )  # (S, K)
-        mats = np.asarray((scatter @ vals.T).T).reshape(ns, nf, nf)
+        mats = np.zeros((ns, nf * nf))
+        mats[:, slots] = np.add.reduceat(vals[:, order], starts, axis=1)
+        mats = mats.reshape(ns, nf, nf)
         rhs = power[:, free, j] / omega[j]
         rhs_t = rhs.T  # a view: (nf, S)
         np.add.at(rhs_t, pos[a[fa]], (eta_ba[:, fa, j] * held_energy[b[fa], j]).T)
