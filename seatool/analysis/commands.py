@@ -307,7 +307,7 @@ def add_commands(registry: dict[str, Command]) -> None:
         handler=_cmd_sensitivity,
     )
     registry["spread"] = Command(
-        help="Monte Carlo spread (5/50/95 % percentiles) of every level from the model's "
+        help="Monte Carlo spread (5th/50th/95th percentiles) of every level from the model's "
         "[uncertainty] section",
         arguments=_spread_args,
         handler=_cmd_spread,

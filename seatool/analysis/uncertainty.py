@@ -334,9 +334,9 @@ def _batched_dense(
         vals = np.concatenate(
             [diag[:, free, j], -eta_ba[:, ff, j], -eta_ab[:, ff, j]], axis=1
         )  # (S, K)
-        mats = np.zeros((ns, nf * nf))
-        mats[:, slots] = np.add.reduceat(vals[:, order], starts, axis=1)
-        mats = mats.reshape(ns, nf, nf)
+        flat_mats = np.zeros((ns, nf * nf))
+        flat_mats[:, slots] = np.add.reduceat(vals[:, order], starts, axis=1)
+        mats = flat_mats.reshape(ns, nf, nf)
         rhs = power[:, free, j] / omega[j]
         rhs_t = rhs.T  # a view: (nf, S)
         np.add.at(rhs_t, pos[a[fa]], (eta_ba[:, fa, j] * held_energy[b[fa], j]).T)
