@@ -249,7 +249,7 @@ def weak_band_notes(model: Model) -> tuple[str, ...]:
     """One compact line per subsystem and run of bands where SEA is weak.
 
     E.g. ``"cabin_air below 250 Hz: 0.4-1.3 modes per band, modal overlap 0.05-0.3;
-    expect +-5.6 dB or worse"``: the range of modes in band over the run's bands with too
+    single-frequency spread +-5.6 dB or worse, band levels vary less"``: the range of modes in band over the run's bands with too
     few modes, the range of modal overlap over its bands with too little overlap, and the
     smallest spread of the run (at its best band), hence "or worse". Model-specific limits
     get a line of their own.
@@ -263,7 +263,9 @@ def weak_band_notes(model: Model) -> tuple[str, ...]:
             std = bv.level_std_db[sl]
             best = float(np.min(std))
             spread = (
-                f"expect +-{best:.1f} dB or worse" if np.isfinite(best) else "spread unknown"
+                f"single-frequency spread +-{best:.1f} dB or worse, band levels vary less"
+                if np.isfinite(best)
+                else "spread unknown"
             )
             few = bv.few_modes[sl]
             low = bv.low_overlap[sl]

@@ -753,9 +753,9 @@ def _point_mobility(
     if wt == "resonator":
         rd.error(
             path,
-            f"{sub.name!r} is a resonator: point connections to resonators are not "
-            "implemented (its coupling is not the reverberant-field point formula); give "
-            "the coupling loss factor with kind = 'given'",
+            f"{sub.name!r} is a resonator: its spring is the connection; join it with "
+            "kind = 'point' to one plate or beam (resilient mounts and other ends are not "
+            "supported)",
         )
         return None
     if y is None or mass is None:
@@ -785,6 +785,9 @@ def _read_point_like(
     what = "mount connection" if resilient else "point connection"
     if not _need_two(rd, path, ends, what):
         return None
+    resonators = [e for e in ends if e.properties.get("wave_type") == "resonator"]
+    if len(resonators) == 1 and not resilient:
+        return _resonator_point(rd, name, s, ends, resonators[0])
     assert rd.bands is not None
     f = np.asarray(rd.bands.centre, dtype=float)
     got = [_point_mobility(rd, f"{path}.between[{k}]", e, f) for k, e in enumerate(ends)]
@@ -815,6 +818,42 @@ def _read_point_like(
         eta,
         kind="mount" if resilient else "point",
         provenance={"coupling_loss_factor": desc + ", infinite-system drive-point mobilities"},
+    )
+
+
+def _resonator_point(
+    rd: Reader, name: str, s: dict[str, Any], ends: list[Subsystem], res: Subsystem
+) -> Connection | None:
+    """A resonator's spring attached at one point of a plate or beam (junctions.clf_resonator_point)."""
+    path = f"connections.{name}"
+    if "points" in s:
+        rd.error(
+            _join(path, "points"),
+            "a resonator subsystem is one spring-mass; model several as separate resonators",
+        )
+        return None
+    k_idx = 1 if ends[0] is res else 0
+    other = ends[k_idx]
+    p = res.properties
+    f0 = float(p["natural_frequency"])
+    got = _point_mobility(rd, f"{path}.between[{k_idx}]", other, np.array([f0]))
+    if got is None:
+        return None
+    y0 = got[0][0]
+    assert rd.bands is not None
+    f = np.asarray(rd.bands.centre, dtype=float)
+    eta = junctions.clf_resonator_point(f, f0, float(p["stiffness"]), y0)
+    eta = np.maximum(_per_band(eta, f.size), np.finfo(float).tiny)
+    return Connection(
+        name,
+        res.name,
+        other.name,
+        eta,
+        kind="point",
+        provenance={
+            "coupling_loss_factor": "resonator spring on the structure's infinite-system "
+            f"mobility at f0 = {f0:.4g} Hz: eta = Re(a)/(1 + Im(a)) (omega0/omega), a = k Y/omega0"
+        },
     )
 
 

@@ -45,6 +45,7 @@ __all__ = [
     "bending_junction_transmission_diffuse",
     "clf_point_resilient",
     "clf_point_rigid",
+    "clf_resonator_point",
     "line_junction_transmission",
     "line_junction_transmission_diffuse",
     "wavenumbers",
@@ -161,8 +162,9 @@ def _kx(k: float, q: FloatArray) -> ComplexArray:
     return out
 
 
-def _edge_matrices(plate: JunctionPlate, f: float, q: FloatArray,
-                   sign: float) -> tuple[ComplexArray, ComplexArray, ComplexArray, FloatArray]:
+def _edge_matrices(
+    plate: JunctionPlate, f: float, q: FloatArray, sign: float
+) -> tuple[ComplexArray, ComplexArray, ComplexArray, FloatArray]:
     """Edge displacement and force matrices of the four waves of a plate.
 
     Rows: local edge dofs (u, v, w, theta); columns: wave amplitudes (bending, bending near
@@ -215,10 +217,9 @@ _THETA_MAX = 0.5 * math.pi - 1e-7
 def _rotation(angle: float) -> FloatArray:
     """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta)."""
     ca, sa = math.cos(angle), math.sin(angle)
-    out: FloatArray = np.array([[ca, sa, 0.0, 0.0],
-                                [0.0, 0.0, 1.0, 0.0],
-                                [-sa, ca, 0.0, 0.0],
-                                [0.0, 0.0, 0.0, 1.0]])
+    out: FloatArray = np.array(
+        [[ca, sa, 0.0, 0.0], [0.0, 0.0, 1.0, 0.0], [-sa, ca, 0.0, 0.0], [0.0, 0.0, 0.0, 1.0]]
+    )
     return out
 
 
@@ -423,8 +424,9 @@ def line_junction_transmission_diffuse(
         k_in = wavenumbers(fi, plates[source])[{0: 0, 2: 1, 3: 2}[col_in]]
         breaks = [k / k_in for p in plates for k in wavenumbers(fi, p)]
         s, w = _diffuse_nodes(breaks, n_points)
-        tau = line_junction_transmission(fi, np.arcsin(np.clip(s, 0.0, 1.0)), plates,
-                                         source=source, incident=incident)
+        tau = line_junction_transmission(
+            fi, np.arcsin(np.clip(s, 0.0, 1.0)), plates, source=source, incident=incident
+        )
         out[idx] = np.einsum("t,tpw->pw", w, tau)
     return out
 
@@ -547,8 +549,7 @@ def bending_junction_transmission_diffuse(
     k_src = wavenumbers(f, plates[source])[0]
     breaks = [wavenumbers(f, p)[0] / k_src for p in plates]
     s, w = _diffuse_nodes(breaks, n_points)
-    tau = bending_junction_transmission(f, np.arcsin(np.clip(s, 0.0, 1.0)), plates,
-                                        source=source)
+    tau = bending_junction_transmission(f, np.arcsin(np.clip(s, 0.0, 1.0)), plates, source=source)
     out: FloatArray = np.einsum("t,tp->p", w, tau)
     return out
 
@@ -558,8 +559,9 @@ def bending_junction_transmission_diffuse(
 # --------------------------------------------------------------------------------------------
 
 
-def _check_points(f: npt.ArrayLike, mass_1: npt.ArrayLike,
-                  n_points: int) -> tuple[FloatArray, FloatArray]:
+def _check_points(
+    f: npt.ArrayLike, mass_1: npt.ArrayLike, n_points: int
+) -> tuple[FloatArray, FloatArray]:
     f_a = np.asarray(f, dtype=np.float64)
     if np.any(~np.isfinite(f_a)) or np.any(f_a <= 0.0):
         msg = f"f must be finite and > 0, got {f!r}"
@@ -619,8 +621,7 @@ def clf_point_rigid(
     f_a, m_a = _check_points(f, mass_1, n_points)
     y1 = np.asarray(mobility_1, dtype=np.complex128)
     y2 = np.asarray(mobility_2, dtype=np.complex128)
-    out: FloatArray = (n_points * y2.real
-                       / (2.0 * np.pi * f_a * m_a * np.abs(y1 + y2) ** 2))
+    out: FloatArray = n_points * y2.real / (2.0 * np.pi * f_a * m_a * np.abs(y1 + y2) ** 2)
     return out
 
 
@@ -684,4 +685,78 @@ def clf_point_resilient(
     y1 = np.asarray(mobility_1, dtype=np.complex128)
     y2 = np.asarray(mobility_2, dtype=np.complex128)
     out: FloatArray = n_points * y2.real / (w * m_a * np.abs(y1 + y_m + y2) ** 2)
+    return out
+
+
+def clf_resonator_point(
+    f: npt.ArrayLike,
+    natural_frequency: npt.ArrayLike,
+    stiffness: npt.ArrayLike,
+    mobility_at_f0: npt.ArrayLike,
+) -> FloatArray:
+    r"""CLF from a spring-mass resonator to the structure its spring is attached to.
+
+    Parameters
+    ----------
+    f : float or array_like
+        Band centre frequency [Hz] at which the SEA power balance is written.
+    natural_frequency : float or array_like
+        Natural frequency of the resonator on a rigid base, f0 = sqrt(k/m)/(2 pi) [Hz].
+    stiffness : float or array_like
+        Spring stiffness k [N/m].
+    mobility_at_f0 : complex or array_like
+        Drive-point mobility Y of the (reverberant, infinite-system) structure at the
+        attachment, evaluated at f0 [m/(N s)], exp(+j omega t).
+
+    Returns
+    -------
+    numpy.ndarray
+        eta_rs [-], stated for the band centre: ``omega eta_rs E_r`` is the power the
+        resonator of energy E_r gives to the structure.
+
+    Notes
+    -----
+    With the base free to move with mobility Y, the spring in series with the structure
+    acts on the mass as the complex stiffness (force-displacement ratio, exp(+j omega t))
+
+    .. math:: k_{eff} = \frac{k}{1 - j a}, \qquad a = \frac{k Y}{\omega_0},
+
+    so the resonator's loss factor through the attachment is
+    :math:`\eta_0 = \mathrm{Im}\,k_{eff} / \mathrm{Re}\,k_{eff} = \mathrm{Re}(a) /
+    (1 + \mathrm{Im}(a))`, which for a real mobility is :math:`k\,\mathrm{Re}(Y)/\omega_0
+    = m\,\omega_0\,\mathrm{Re}(Y)` (the structure acts as a dashpot of impedance 1/Y at the
+    base). The resonator only holds energy near f0, so the power is
+    :math:`\omega_0 \eta_0 E_r`; written at the band centre omega the coupling loss factor
+    is :math:`\eta_{rs} = (\omega_0/\omega)\,\eta_0`. Valid for weak coupling
+    (eta_0 << 1; the shift of the natural frequency by the base mobility is neglected) and
+    for a structure whose response at the attachment is reverberant (infinite-system
+    mobility, the usual SEA estimate). The derivation is the series combination of a spring
+    and a structural mobility (Cremer, Heckl & Petersson 2005, ch. on mobilities and
+    isolation; from memory) applied to the SEA description of an oscillator coupled to a
+    multimodal system (Lyon & DeJong 1995, ch. 3, "oscillator-to-oscillator" and
+    "oscillator-to-multimodal" coupling; from memory).
+
+    References
+    ----------
+    .. [1] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of Statistical Energy
+       Analysis, 2nd ed. Butterworth-Heinemann. ISBN 0-7506-9111-5
+    .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-borne Sound, 3rd ed.
+       Springer. ISBN 978-3-540-22696-3
+    """
+    f_a = np.asarray(f, dtype=np.float64)
+    f0 = np.asarray(natural_frequency, dtype=np.float64)
+    k = np.asarray(stiffness, dtype=np.float64)
+    if np.any(~np.isfinite(f_a) | (f_a <= 0)):
+        raise ValueError("f must be positive and finite")
+    if np.any(~np.isfinite(f0) | (f0 <= 0)):
+        raise ValueError("natural_frequency must be positive and finite")
+    if np.any(~np.isfinite(k) | (k <= 0)):
+        raise ValueError("stiffness must be positive and finite")
+    y = np.asarray(mobility_at_f0, dtype=np.complex128)
+    if np.any(y.real < 0):
+        raise ValueError("mobility_at_f0 must have a non-negative real part (a passive structure)")
+    w0 = 2.0 * np.pi * f0
+    a = k * y / w0
+    eta0 = a.real / (1.0 + a.imag)
+    out: FloatArray = np.asarray(eta0 * f0 / f_a, dtype=np.float64)
     return out
