@@ -23,6 +23,9 @@ import numpy as np
 import numpy.typing as npt
 from scipy import special
 
+from ._checks import nonnegative as _nonnegative
+from ._checks import positive as _positive
+
 __all__ = [
     "aperture_transmission_circular",
     "clf_aperture",
@@ -41,22 +44,6 @@ ComplexArray = npt.NDArray[np.complex128]
 _RHO0 = 1.21
 _C0 = 343.0
 _F_REF = 1000.0
-
-
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if np.any(~np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
-def _nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if np.any(~np.isfinite(arr)) or np.any(arr < 0.0):
-        msg = f"{name} must be finite and >= 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
 
 
 def _omega(f: npt.ArrayLike) -> FloatArray:
@@ -112,8 +99,9 @@ def clf_radiation(
     """
     _positive("rho0", rho0)
     _positive("c0", c0)
-    out: FloatArray = (rho0 * c0 * _nonnegative("sigma", sigma)
-                       / (_omega(f) * _positive("m_area", m_area)))
+    out: FloatArray = (
+        rho0 * c0 * _nonnegative("sigma", sigma) / (_omega(f) * _positive("m_area", m_area))
+    )
     return out
 
 
@@ -161,8 +149,12 @@ def clf_nonresonant(
        Analysis. Gower, ch. 4. ISBN 0-566-07572-5
     """
     _positive("c0", c0)
-    out: FloatArray = (c0 * _positive("area", area) * _nonnegative("tau", tau)
-                       / (4.0 * _omega(f) * _positive("volume", volume)))
+    out: FloatArray = (
+        c0
+        * _positive("area", area)
+        * _nonnegative("tau", tau)
+        / (4.0 * _omega(f) * _positive("volume", volume))
+    )
     return out
 
 
@@ -348,9 +340,12 @@ def clf_line_junction(
        (from memory). ISBN 0-7506-9111-5
     .. [2] Craik, R.J.M. (1996). Sound Transmission through Buildings using SEA. Gower, ch. 5.
     """
-    out: FloatArray = (_positive("group_speed", group_speed) * _positive("length", length)
-                       * _nonnegative("tau_bar", tau_bar)
-                       / (np.pi * _omega(f) * _positive("area", area)))
+    out: FloatArray = (
+        _positive("group_speed", group_speed)
+        * _positive("length", length)
+        * _nonnegative("tau_bar", tau_bar)
+        / (np.pi * _omega(f) * _positive("area", area))
+    )
     return out
 
 
@@ -398,8 +393,9 @@ def vibration_reduction_index(
        ISBN 978-0-415-42853-8
     """
     _positive("f_ref", f_ref)
-    out: FloatArray = (-10.0 * np.log10(_positive("tau_ij", tau_ij))
-                       + 5.0 * np.log10(_positive("f_c_j", f_c_j) / f_ref))
+    out: FloatArray = -10.0 * np.log10(_positive("tau_ij", tau_ij)) + 5.0 * np.log10(
+        _positive("f_c_j", f_c_j) / f_ref
+    )
     return out
 
 
@@ -451,8 +447,13 @@ def vibration_reduction_index_from_clf(
     _positive("c0", c0)
     f_a = _positive("f", f)
     c_b = c0 * np.sqrt(f_a / _positive("f_c_i", f_c_i))
-    tau = (np.pi**2 * f_a * _positive("area_i", area_i) * _positive("eta_ij", eta_ij)
-           / (c_b * _positive("length", length)))
+    tau = (
+        np.pi**2
+        * f_a
+        * _positive("area_i", area_i)
+        * _positive("eta_ij", eta_ij)
+        / (c_b * _positive("length", length))
+    )
     return vibration_reduction_index(tau, f_c_j, f_ref=f_ref)
 
 
@@ -506,6 +507,7 @@ def clf_from_vibration_reduction_index(
     f_a = _positive("f", f)
     tau = 10.0 ** (-(k - 5.0 * np.log10(_positive("f_c_j", f_c_j) / f_ref)) / 10.0)
     c_b = c0 * np.sqrt(f_a / _positive("f_c_i", f_c_i))
-    out: FloatArray = (c_b * _positive("length", length) * tau
-                       / (np.pi**2 * f_a * _positive("area_i", area_i)))
+    out: FloatArray = (
+        c_b * _positive("length", length) * tau / (np.pi**2 * f_a * _positive("area_i", area_i))
+    )
     return out

@@ -26,6 +26,10 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
+from ._checks import nonnegative as _non_negative
+from ._checks import positive as _positive
+from .structural import bending_stiffness as _structural_bending_stiffness
+
 __all__ = [
     "EYRING_THRESHOLD",
     "SABINE_CONSTANT",
@@ -73,22 +77,6 @@ _LN_1E6: float = math.log(1.0e6)
 # ------------------------------------------------------------------------------------------
 
 
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
-def _non_negative(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr < 0.0):
-        msg = f"{name} must be finite and >= 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
 def _fraction(name: str, value: npt.ArrayLike, *, upper_open: bool = False) -> FloatArray:
     arr = np.asarray(value, dtype=np.float64)
     bad_upper = arr >= 1.0 if upper_open else arr > 1.0
@@ -97,14 +85,6 @@ def _fraction(name: str, value: npt.ArrayLike, *, upper_open: bool = False) -> F
         msg = f"{name} must lie in {interval}, got {value!r}"
         raise ValueError(msg)
     return arr
-
-
-def _bending_stiffness(
-    thickness: npt.ArrayLike, young: npt.ArrayLike, poisson: float
-) -> FloatArray:
-    """Kirchhoff plate bending stiffness D = E h^3 / (12 (1 - nu^2)) [N m] (private helper)."""
-    h = np.asarray(thickness, dtype=np.float64)
-    return np.asarray(young, dtype=np.float64) * h**3 / (12.0 * (1.0 - poisson**2))
 
 
 # ------------------------------------------------------------------------------------------
@@ -1152,3 +1132,10 @@ def constrained_layer_damping(
         mass_per_area=mass,
         added_mass_per_area=added,
     )
+
+
+def _bending_stiffness(
+    thickness: npt.ArrayLike, young: npt.ArrayLike, poisson: float
+) -> FloatArray:
+    """D = E h^3 / (12 (1 - nu^2)) [N m], from :func:`seatool.physics.structural.bending_stiffness`."""
+    return _structural_bending_stiffness(young, thickness, poisson)

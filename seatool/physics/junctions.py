@@ -37,6 +37,8 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
+from . import structural
+
 __all__ = [
     "WAVE_TYPES",
     "JunctionPlate",
@@ -104,8 +106,8 @@ class JunctionPlate:
 
 
 def _bending_stiffness(p: JunctionPlate) -> float:
-    """D = E h^3 / (12 (1 - nu^2)) [N m]."""
-    return p.youngs_modulus * p.thickness**3 / (12.0 * (1.0 - p.poisson**2))
+    """D = E h^3 / (12 (1 - nu^2)) [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
+    return float(structural.bending_stiffness(p.youngs_modulus, p.thickness, p.poisson))
 
 
 def _membrane_stiffness(p: JunctionPlate) -> float:

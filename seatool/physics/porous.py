@@ -28,6 +28,8 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
+from ._checks import positive as _positive
+
 __all__ = [
     "AIR_DENSITY",
     "AIR_PRANDTL",
@@ -72,14 +74,6 @@ _DB_RANGE = (0.01, 1.0)
 
 class ValidityWarning(UserWarning):
     """An empirical model is used outside the range of the data it was fitted to."""
-
-
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
 
 
 def _check_range(model: str, x: FloatArray) -> None:

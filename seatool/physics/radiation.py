@@ -34,6 +34,8 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
+from ._checks import positive as _positive
+
 __all__ = [
     "RadiationMethod",
     "forced_radiation_efficiency_en12354",
@@ -59,14 +61,6 @@ _C0_DEFAULT = 343.0
 # --------------------------------------------------------------------------------------------
 
 
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if np.any(~np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
 def _wavenumber(f: FloatArray, c0: float) -> FloatArray:
     out: FloatArray = 2.0 * np.pi * f / c0
     return out
@@ -80,34 +74,39 @@ def _above_coincidence(f: FloatArray, f_c: FloatArray) -> FloatArray:
     return out
 
 
-def _edge_mode_term(f: FloatArray, l1: FloatArray, l2: FloatArray, f_c: FloatArray,
-                    c0: float) -> FloatArray:
+def _edge_mode_term(
+    f: FloatArray, l1: FloatArray, l2: FloatArray, f_c: FloatArray, c0: float
+) -> FloatArray:
     """Edge-mode term (P lambda_c / S) g2(alpha) for f < f_c, inf elsewhere."""
     below = f < f_c
     alpha = np.where(below, np.sqrt(np.where(below, f / f_c, 0.25)), 0.5)
     one_m = 1.0 - alpha**2
-    g2 = ((one_m * np.log((1.0 + alpha) / (1.0 - alpha)) + 2.0 * alpha)
-          / (4.0 * np.pi**2 * one_m**1.5))
+    g2 = (one_m * np.log((1.0 + alpha) / (1.0 - alpha)) + 2.0 * alpha) / (
+        4.0 * np.pi**2 * one_m**1.5
+    )
     perimeter = 2.0 * (l1 + l2)
     lam_c = c0 / f_c
     out: FloatArray = np.where(below, perimeter * lam_c / (l1 * l2) * g2, np.inf)
     return out
 
 
-def _corner_mode_term(f: FloatArray, l1: FloatArray, l2: FloatArray, f_c: FloatArray,
-                      c0: float) -> FloatArray:
+def _corner_mode_term(
+    f: FloatArray, l1: FloatArray, l2: FloatArray, f_c: FloatArray, c0: float
+) -> FloatArray:
     """Corner-mode term (lambda_c^2 / S) g1(alpha) for f < f_c/2, zero elsewhere."""
     below = f < 0.5 * f_c
     alpha = np.sqrt(np.where(below, f / f_c, 0.25))
-    g1 = np.where(below, (4.0 / np.pi**4) * (1.0 - 2.0 * alpha**2)
-                  / (alpha * np.sqrt(1.0 - alpha**2)), 0.0)
+    g1 = np.where(
+        below, (4.0 / np.pi**4) * (1.0 - 2.0 * alpha**2) / (alpha * np.sqrt(1.0 - alpha**2)), 0.0
+    )
     lam_c = c0 / f_c
     out: FloatArray = lam_c**2 / (l1 * l2) * g1
     return out
 
 
-def _check_common(f: npt.ArrayLike, l1: npt.ArrayLike, l2: npt.ArrayLike,
-                  f_c: npt.ArrayLike, c0: float) -> tuple[FloatArray, ...]:
+def _check_common(
+    f: npt.ArrayLike, l1: npt.ArrayLike, l2: npt.ArrayLike, f_c: npt.ArrayLike, c0: float
+) -> tuple[FloatArray, ...]:
     f_arr = _positive("f", f)
     l1_arr = _positive("l1", l1)
     l2_arr = _positive("l2", l2)
@@ -181,8 +180,11 @@ def radiation_efficiency_leppington(
     below = f_a < fc_a
     mu = np.sqrt(np.where(below, fc_a / f_a, 4.0))
     with np.errstate(divide="ignore", invalid="ignore"):
-        low = ((l1_a + l2_a) / (np.pi * mu * k * l1_a * l2_a * np.sqrt(mu**2 - 1.0))
-               * (np.log((mu + 1.0) / (mu - 1.0)) + 2.0 * mu / (mu**2 - 1.0)))
+        low = (
+            (l1_a + l2_a)
+            / (np.pi * mu * k * l1_a * l2_a * np.sqrt(mu**2 - 1.0))
+            * (np.log((mu + 1.0) / (mu - 1.0)) + 2.0 * mu / (mu**2 - 1.0))
+        )
     sigma = np.where(below, low, _above_coincidence(f_a, fc_a))
     short = np.minimum(l1_a, l2_a)
     long_ = np.maximum(l1_a, l2_a)
@@ -316,12 +318,14 @@ def radiation_efficiency_en12354(
     sigma2 = 4.0 * l1_a * l2_a * (f_a / c0) ** 2
     sigma3 = np.sqrt(2.0 * np.pi * f_a * (l1_a + l2_a) / (16.0 * c0))
     below = f_a < fc_a
-    low = (_edge_mode_term(f_a, l1_a, l2_a, fc_a, c0)
-           + 2.0 * _corner_mode_term(f_a, l1_a, l2_a, fc_a, c0))
+    low = _edge_mode_term(f_a, l1_a, l2_a, fc_a, c0) + 2.0 * _corner_mode_term(
+        f_a, l1_a, l2_a, fc_a, c0
+    )
     low = np.where((f_a < f11) & (f11 < 0.5 * fc_a) & (low > sigma2), sigma2, low)
     case_a = np.minimum(np.where(below, low, sigma1), sigma3)
-    case_b = np.where(below & (sigma2 < sigma3), sigma2,
-                      np.where(~below & (sigma1 < sigma3), sigma1, sigma3))
+    case_b = np.where(
+        below & (sigma2 < sigma3), sigma2, np.where(~below & (sigma1 < sigma3), sigma1, sigma3)
+    )
     sigma = np.where(f11 <= 0.5 * fc_a, case_a, case_b)
     out: FloatArray = np.minimum(sigma, 2.0)
     return out
@@ -380,8 +384,12 @@ def forced_radiation_efficiency_en12354(
     long_ = np.maximum(a, b)
     short = np.minimum(a, b)
     k0 = _wavenumber(f_a, c0)
-    lam = (-0.964 - (0.5 + short / (np.pi * long_)) * np.log(short / long_)
-           + 5.0 * short / (2.0 * np.pi * long_) - 1.0 / (4.0 * np.pi * long_ * short * k0**2))
+    lam = (
+        -0.964
+        - (0.5 + short / (np.pi * long_)) * np.log(short / long_)
+        + 5.0 * short / (2.0 * np.pi * long_)
+        - 1.0 / (4.0 * np.pi * long_ * short * k0**2)
+    )
     sigma_f = 0.5 * (np.log(k0 * np.sqrt(long_ * short)) - lam)
     out: FloatArray = np.minimum(sigma_f, 2.0)
     return out
@@ -547,8 +555,15 @@ def radiation_efficiency_band(
         half = 0.5 * (s1 - s0)
         nodes = 0.5 * (s1 + s0) + half * x
         fn = from_var(nodes)
-        sig = radiation_efficiency(fn, l1_a[..., None], l2_a[..., None], fc_a[..., None],
-                                   method=method, c0=c0, corner_factor=corner_factor)
+        sig = radiation_efficiency(
+            fn,
+            l1_a[..., None],
+            l2_a[..., None],
+            fc_a[..., None],
+            method=method,
+            c0=c0,
+            corner_factor=corner_factor,
+        )
         sig = np.where(half > 0.0, sig, 0.0)
         total = total + np.sum(sig * w * half, axis=-1)
     out: FloatArray = total / (to_var(hi) - to_var(lo))

@@ -20,6 +20,9 @@ import numpy as np
 import numpy.typing as npt
 from scipy import special
 
+from ._checks import nonnegative as _nonnegative
+from ._checks import positive as _positive
+
 __all__ = [
     "BeamSection",
     "beam_bending_group_speed",
@@ -68,24 +71,6 @@ FloatArray = npt.NDArray[np.float64]
 # ---------------------------------------------------------------------------------------
 # input checks (shared by the physics modules)
 # ---------------------------------------------------------------------------------------
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    """Return ``value`` as a float array; raise ValueError unless all entries are > 0."""
-    arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
-def _nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
-    """Return ``value`` as a float array; raise ValueError unless all entries are >= 0."""
-    arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr < 0.0):
-        msg = f"{name} must be finite and >= 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
 def _poisson(value: npt.ArrayLike) -> FloatArray:
     """Return Poisson's ratio as a float array; raise ValueError outside (-1, 0.5)."""
     arr = np.asarray(value, dtype=np.float64)

@@ -34,6 +34,9 @@ from scipy import integrate
 
 from seatool.physics.radiation import forced_radiation_efficiency_en12354
 
+from ._checks import nonnegative as _nonnegative
+from ._checks import positive as _positive
+
 __all__ = [
     "mass_air_mass_frequency",
     "transmission_cremer",
@@ -54,22 +57,6 @@ FloatArray = npt.NDArray[np.float64]
 _RHO0 = 1.21
 _C0 = 343.0
 _FIELD_LIMIT = math.radians(78.0)
-
-
-def _positive(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if np.any(~np.isfinite(arr)) or np.any(arr <= 0.0):
-        msg = f"{name} must be finite and > 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
-
-
-def _nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
-    arr = np.asarray(value, dtype=np.float64)
-    if np.any(~np.isfinite(arr)) or np.any(arr < 0.0):
-        msg = f"{name} must be finite and >= 0, got {value!r}"
-        raise ValueError(msg)
-    return arr
 
 
 def _check_fluid(rho0: float, c0: float) -> None:
@@ -419,8 +406,11 @@ def transmission_infinite_panel_diffuse(
     """
     _check_fluid(rho0, c0)
     f_a, m_a, fc_a, eta_a = np.broadcast_arrays(
-        _positive("f", f), _positive("m_area", m_area), _positive("f_c", f_c),
-        _nonnegative("eta", eta))
+        _positive("f", f),
+        _positive("m_area", m_area),
+        _positive("f_c", f_c),
+        _nonnegative("eta", eta),
+    )
     if not 0.0 < theta_limit <= 0.5 * math.pi + 1e-12:
         msg = f"theta_limit must lie in (0, pi/2], got {theta_limit!r}"
         raise ValueError(msg)
@@ -429,15 +419,17 @@ def transmission_infinite_panel_diffuse(
     for idx in np.ndindex(f_a.shape):
         fi, mi, fci, ei = float(f_a[idx]), float(m_a[idx]), float(fc_a[idx]), float(eta_a[idx])
 
-        def integrand(u: float, fi: float = fi, mi: float = mi, fci: float = fci,
-                      ei: float = ei) -> float:
+        def integrand(
+            u: float, fi: float = fi, mi: float = mi, fci: float = fci, ei: float = ei
+        ) -> float:
             th = math.asin(math.sqrt(min(u, 1.0)))
             return float(transmission_infinite_panel(fi, th, mi, fci, ei, rho0=rho0, c0=c0))
 
         u_c = fci / fi
         pts = [u_c] if 0.0 < u_c < u_lim else None
-        val, _ = integrate.quad(integrand, 0.0, u_lim, points=pts, limit=400,
-                                epsabs=0.0, epsrel=1e-8)
+        val, _ = integrate.quad(
+            integrand, 0.0, u_lim, points=pts, limit=400, epsabs=0.0, epsrel=1e-8
+        )
         out[idx] = val / u_lim
     return out
 
@@ -630,8 +622,8 @@ def transmission_loss_sharp(
     """
     _check_fluid(rho0, c0)
     f_a, m_a, fc_a, eta_a = np.broadcast_arrays(
-        _positive("f", f), _positive("m_area", m_area), _positive("f_c", f_c),
-        _positive("eta", eta))
+        _positive("f", f), _positive("m_area", m_area), _positive("f_c", f_c), _positive("eta", eta)
+    )
 
     def r0(fx: FloatArray) -> FloatArray:
         out: FloatArray = 20.0 * np.log10(np.pi * fx * m_a / (rho0 * c0))

@@ -336,9 +336,7 @@ def assess_bands(
     n_band = np.array(np.broadcast_to(n_band, shape), dtype=np.float64)
     m = np.array(np.broadcast_to(m, shape), dtype=np.float64)
     with np.errstate(divide="ignore", invalid="ignore"):
-        r2 = np.where(
-            m > 0, relative_variance_goe(np.where(m > 0, m, 1.0), alpha=alpha), np.inf
-        )
+        r2 = np.where(m > 0, relative_variance_goe(np.where(m > 0, m, 1.0), alpha=alpha), np.inf)
     std = level_spread_db(np.where(np.isfinite(r2), r2, 0.0))
     std = np.where(np.isfinite(r2), std, np.inf)
     few = n_band < min_modes
