@@ -148,6 +148,9 @@ class Model:
     title: str = ""
     source: str = ""
     notes: tuple[str, ...] = ()
+    #: Descriptive lines from the readers (treatment build-ups and their masses, ...),
+    #: printed by ``seatool check``.
+    reports: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         nb = len(self.bands)

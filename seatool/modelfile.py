@@ -68,6 +68,15 @@ class Reader:
     bands: BandAxis | None = None
     fluids: dict[str, dict[str, float]] = field(default_factory=dict)
     materials: dict[str, dict[str, float]] = field(default_factory=dict)
+    #: Names of every subsystem declared in the file (for readers that refer to another
+    #: subsystem, e.g. the cavity a trimmed face looks into), with their raw tables.
+    declared: Mapping[str, Any] = field(default_factory=dict)
+    #: Descriptive lines readers add for ``seatool check`` (e.g. treatment masses); they
+    #: become :attr:`seatool.model.Model.reports`.
+    reports: list[str] = field(default_factory=list)
+    #: Warnings readers add (e.g. a porous model used outside its fitted range); they
+    #: become :attr:`seatool.model.Model.notes`.
+    notes: list[str] = field(default_factory=list)
 
     # -- reporting -----------------------------------------------------------------------
     def error(self, path: str, message: str) -> None:
@@ -868,6 +877,8 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     _read_fluids(rd, data.get("fluids", _MISSING))
     _read_materials(rd, data.get("materials", _MISSING))
     declared = _declared_subsystems(data)
+    raw_subs = data.get("subsystems")
+    rd.declared = dict(raw_subs) if isinstance(raw_subs, dict) else {}
     subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
@@ -881,6 +892,8 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             excitations=tuple(exs),
             title=title,
             source=file,
+            notes=tuple(rd.notes),
+            reports=tuple(rd.reports),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None

@@ -436,10 +436,17 @@ BAD = [
         ["subsystems.floor.treatment.face", "missing"],
     ),
     (
+        "unknown-face",
+        _GOOD_PLATE,
+        '"damping_sheet_free" }',
+        '"damping_sheet_free", trim = "spring_mass_2kg", face = "flooor" }',
+        ["subsystems.floor.treatment.face", "unknown subsystem 'flooor'", "did you mean 'floor'"],
+    ),
+    (
         "unknown-trim-in-array",
         _GOOD_PLATE,
         '"damping_sheet_free" }',
-        '"damping_sheet_free", trim = ["pu_foam_open_cell", "heavy_layer_5k"], face = "x" }',
+        '"damping_sheet_free", trim = ["pu_foam_open_cell", "heavy_layer_5k"], face = "floor" }',
         ["subsystems.floor.treatment.trim[1]", "did you mean 'heavy_layer_5kg'"],
     ),
     (
@@ -517,7 +524,7 @@ BAD = [
         "unknown-layer-kind",
         _GOOD_PLATE,
         '"damping_sheet_free" }',
-        '"damping_sheet_free", trim = { kind = "foam", thickness = 0.01 }, face = "c" }',
+        '"damping_sheet_free", trim = { kind = "foam", thickness = 0.01 }, face = "floor" }',
         ["subsystems.floor.treatment.trim.kind", "unknown layer kind 'foam'"],
     ),
     (

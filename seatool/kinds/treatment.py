@@ -36,7 +36,6 @@ from __future__ import annotations
 
 import functools
 import math
-import tomllib
 import warnings
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
@@ -607,6 +606,8 @@ def _read_surfaces_form(
         else:
             layers = read_layers(rd, st["lining"], _join(p, "lining"))
             alpha = None if layers is None else lining_absorption(f, layers, rho0=rho, c0=c)
+            if layers is not None:
+                _report_lining(rd, path, i, st, layers, f, rho)
         if area is None or alpha is None:
             ok = False
             continue
@@ -984,6 +985,8 @@ def read_plate_treatment(
             ok = False
         else:
             face = rd.string(t["face"], _join(path, "face"))
+            if face is not None and rd.declared and face not in rd.declared:
+                face = rd.name_ref(face, _join(path, "face"), list(rd.declared), "subsystem")
             ok = ok and face is not None
         if trim_layers is None or not ok:
             return None
@@ -1059,51 +1062,38 @@ def _frozen(a: Array | None) -> Array | None:
 def summary_lines(model: Model) -> list[str]:
     """Lines for ``seatool check``: treated plates and cavity linings with masses per area.
 
-    Plate treatments come from ``properties["treatment"]``; cavity linings are described
-    by reading the ``surfaces`` damping forms of the model file again (they only leave a
-    loss factor in the model).
+    Plate treatments come from ``properties["treatment"]``; cavity linings from the
+    reports the ``surfaces`` damping form left in :attr:`Model.reports`.
     """
     lines: list[str] = []
     for s in model.subsystems:
         t = s.properties.get("treatment")
         if isinstance(t, PlateTreatment):
             lines.extend(t.report(s.name))
-    lines.extend(_lining_lines(model))
+    lines.extend(model.reports)
     return (["treatments:", *lines]) if lines else []
 
 
-def _lining_lines(model: Model) -> list[str]:
-    path = Path(model.source) if model.source else None
-    if path is None or not path.is_file():
-        return []
-    try:
-        data = tomllib.loads(path.read_text("utf-8"))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
-        return []
-    subs = data.get("subsystems")
-    if not isinstance(subs, dict):
-        return []
-    out: list[str] = []
-    rd = Reader(file=str(path), base_dir=path.parent, bands=model.bands)
-    for name, spec in subs.items():
-        damping = spec.get("damping") if isinstance(spec, dict) else None
-        if not isinstance(damping, dict) or not isinstance(damping.get("surfaces"), list):
-            continue
-        for i, surf in enumerate(damping["surfaces"]):
-            if not isinstance(surf, dict) or "lining" not in surf:
-                continue
-            layers = read_layers(rd, surf["lining"], "")
-            if layers is None:
-                continue
-            m = tmm.mass_per_area(_tmm_layers(layers))
-            what = surf.get("description") if isinstance(surf.get("description"), str) else ""
-            out.append(
-                f"  {name}: lining on surface {i}{f' ({what})' if what else ''}, "
-                f"{surf.get('area', '?')} m^2: "
-                f"{_buildup_text(layers)} ({m:.3g} kg/m^2)"
-            )
-            out.extend(f"    note: {n}" for n in _validity_notes(layers, model.bands.centre, 1.204))
-    return out
+def _report_lining(
+    rd: Reader,
+    path: str,
+    i: int,
+    surface: Mapping[str, Any],
+    layers: Sequence[TrimLayer],
+    f: Array,
+    rho0: float,
+) -> None:
+    """Add the lining's build-up and mass to the model's reports, its validity to the notes."""
+    parts = path.split(".")
+    name = parts[1] if len(parts) > 1 else path
+    m = tmm.mass_per_area(_tmm_layers(layers))
+    what = surface.get("description")
+    what = what if isinstance(what, str) else ""
+    rd.reports.append(
+        f"  {name}: lining on surface {i}{f' ({what})' if what else ''}, "
+        f"{surface.get('area', '?')} m^2: {_buildup_text(layers)} ({m:.3g} kg/m^2)"
+    )
+    rd.notes.extend(f"{name} lining: {n}" for n in _validity_notes(layers, f, rho0))
 
 
 # ------------------------------------------------------------------------------------------
