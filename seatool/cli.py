@@ -142,7 +142,12 @@ def _cmd_solve(args: argparse.Namespace) -> int:
             )
         )
     if csv_path is not None:
-        result.to_csv(csv_path)
+        try:
+            result.to_csv(csv_path)
+        except OSError as exc:
+            raise InputError(
+                [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]
+            ) from None
         print(f"wrote {csv_path}")
     print()
     print("Caution: " + CAUTION)

@@ -919,7 +919,7 @@ def load(path: str | Path) -> Model:
     except OSError as exc:
         raise InputError([Problem(str(p), "", f"cannot read: {exc.strerror}")]) from None
     try:
-        text = raw.decode("utf-8")
+        text = raw.decode("utf-8-sig")  # tolerate a byte-order mark
     except UnicodeDecodeError:
         raise InputError(
             [Problem(str(p), "", "not a text file (not UTF-8); expected a TOML model file")]

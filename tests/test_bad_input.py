@@ -273,3 +273,19 @@ def test_internal_error_exit_1(tmp_path, capsys, monkeypatch):
     assert code == 1
     assert "internal error" in err and "Traceback" not in err
     assert not csv.exists()
+
+
+def test_csv_target_is_a_directory(tmp_path, capsys):
+    path = tmp_path / "model.toml"
+    path.write_text(GOOD)
+    (tmp_path / "out").mkdir()
+    code = main(["solve", str(path), "--csv", str(tmp_path / "out")])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "--csv: cannot write" in err and "Traceback" not in err
+
+
+def test_byte_order_mark_is_accepted(tmp_path, capsys):
+    path = tmp_path / "model.toml"
+    path.write_bytes(b"\xef\xbb\xbf" + GOOD.encode())
+    assert main(["check", str(path)]) == 0
