@@ -449,35 +449,6 @@ def _damping(
     return read_damping(rd, s["damping"], f"{path}.damping", context)
 
 
-def _read_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
-    path = f"subsystems.{name}"
-    allowed = ("kind", "description", "fluid", "volume", "modal_density", "damping")
-    if not rd.keys(s, path, allowed, ("volume", "modal_density", "damping")):
-        return None
-    fluid = DEFAULT_FLUID
-    if "fluid" in s:
-        fname = rd.name_ref(s["fluid"], f"{path}.fluid", rd.fluids, "fluid")
-        if fname is None:
-            return None
-        fluid = rd.fluids[fname]
-    vol = rd.number(s["volume"], f"{path}.volume", unit="m^3")
-    n = rd.spectrum(s["modal_density"], f"{path}.modal_density", unit="modes/Hz")
-    eta = _damping(rd, s, path, {"volume": vol, "fluid": fluid})
-    if vol is None or n is None or eta is None:
-        return None
-    return Subsystem(
-        name=name,
-        kind="cavity",
-        modal_density=n,
-        damping=eta,
-        quantity="sound_pressure",
-        volume=vol,
-        density=fluid["density"],
-        sound_speed=fluid["sound_speed"],
-        provenance={"modal_density": "given", "damping": "given"},
-    )
-
-
 def _read_structure(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
     path = f"subsystems.{name}"
     allowed = ("kind", "description", "mass", "modal_density", "damping")
@@ -518,7 +489,6 @@ def _read_exterior(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None
 
 #: Readers of subsystem kinds: ``kind`` value -> function(reader, name, table).
 SUBSYSTEM_KINDS: dict[str, SubsystemReader] = {
-    "cavity": _read_cavity,
     "structure": _read_structure,
     "exterior": _read_exterior,
 }

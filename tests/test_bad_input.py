@@ -91,8 +91,8 @@ CASES = [
     (
         "unknown-fluid",
         'kind = "cavity"',
-        'kind = "cavity"\nfluid = "water"',
-        ["subsystems.box.fluid", "unknown fluid 'water'"],
+        'kind = "cavity"\nfluid = "watr"',
+        ["subsystems.box.fluid", "unknown fluid 'watr'", "did you mean 'water'"],
     ),
     (
         "zero-clf",

@@ -948,7 +948,7 @@ def _read_acoustic_cavity(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem
         props["dimensions"] = tuple(float(x) for x in s["dimensions"])
     return Subsystem(
         name=name,
-        kind="acoustic_cavity",
+        kind=str(s["kind"]),
         modal_density=n,
         damping=eta,
         quantity="sound_pressure",
@@ -1081,6 +1081,8 @@ SUBSYSTEM_KINDS.update(
         "cylindrical_shell": _read_shell,
         "beam": _read_beam,
         "acoustic_cavity": _read_acoustic_cavity,
+        # One cavity kind: given values (volume + modal_density) or derived from dimensions.
+        "cavity": _read_acoustic_cavity,
         "duct": _read_duct,
         "resonator": _read_resonator,
     }
