@@ -77,6 +77,9 @@ class Reader:
     #: Warnings readers add (e.g. a porous model used outside its fitted range); they
     #: become :attr:`seatool.model.Model.notes`.
     notes: list[str] = field(default_factory=list)
+    #: Names of materials and fluids defined in the file whose definition had problems
+    #: (already reported): references to them are not reported again.
+    invalid: set[str] = field(default_factory=set)
 
     # -- reporting -----------------------------------------------------------------------
     def error(self, path: str, message: str) -> None:
@@ -379,38 +382,69 @@ def _read_fluids(rd: Reader, data: Any) -> None:
             rd.fluids[name] = {"density": rho, "sound_speed": c}
 
 
-_MATERIAL_KEYS = ("density", "youngs_modulus", "poisson_ratio", "loss_factor", "description")
+_MATERIAL_KEYS = (
+    "base",
+    "density",
+    "youngs_modulus",
+    "poisson_ratio",
+    "loss_factor",
+    "description",
+)
 
 
 def _read_materials(rd: Reader, data: Any) -> None:
+    """``[materials.NAME]``: all properties, or ``base = "built-in name"`` plus changes."""
     if data is _MISSING:
         return
     t = rd.table(data, "materials")
     if t is None:
         return
+    from .materials import load_materials
+
+    builtin = load_materials()
     for name, spec in t.items():
         path = f"materials.{name}"
         s = rd.table(spec, path)
         if s is None:
             continue
-        if not rd.keys(s, path, _MATERIAL_KEYS, ("density", "youngs_modulus", "poisson_ratio")):
+        required = () if "base" in s else ("density", "youngs_modulus", "poisson_ratio")
+        if not rd.keys(s, path, _MATERIAL_KEYS, required):
+            rd.invalid.add(name)
             continue
         props: dict[str, float] = {}
-        rho = rd.number(s["density"], f"{path}.density", unit="kg/m^3")
-        e = rd.number(s["youngs_modulus"], f"{path}.youngs_modulus", unit="Pa")
-        nu = rd.number(s["poisson_ratio"], f"{path}.poisson_ratio", minimum=-1.0)
-        if nu is not None and nu >= 0.5:
-            rd.error(
-                f"{path}.poisson_ratio", f"must be < 0.5 for a stable isotropic solid, got {nu}"
+        if "base" in s:
+            base = rd.name_ref(s["base"], f"{path}.base", builtin, "built-in material")
+            if base is None:
+                rd.invalid.add(name)
+                continue
+            m = builtin[base]
+            props.update(
+                density=m.density,
+                youngs_modulus=m.youngs_modulus,
+                poisson_ratio=m.poisson_ratio,
+                loss_factor=m.loss_factor,
             )
-            nu = None
-        if "loss_factor" in s:
-            eta = rd.number(s["loss_factor"], f"{path}.loss_factor", minimum=0.0, strict=False)
-            if eta is not None:
-                props["loss_factor"] = eta
-        if rho is not None and e is not None and nu is not None:
-            props.update(density=rho, youngs_modulus=e, poisson_ratio=nu)
+        ok = True
+        for key, unit, minimum, strict in (
+            ("density", "kg/m^3", 0.0, True),
+            ("youngs_modulus", "Pa", 0.0, True),
+            ("poisson_ratio", "", -1.0, True),
+            ("loss_factor", "", 0.0, False),
+        ):
+            if key not in s:
+                continue
+            x = rd.number(s[key], f"{path}.{key}", unit=unit, minimum=minimum, strict=strict)
+            if x is not None and key == "poisson_ratio" and x >= 0.5:
+                rd.error(f"{path}.{key}", f"must be < 0.5 for a stable isotropic solid, got {x}")
+                x = None
+            if x is None:
+                ok = False
+            else:
+                props[key] = x
+        if ok:
             rd.materials[name] = props
+        else:
+            rd.invalid.add(name)
 
 
 # Subsystem kinds ------------------------------------------------------------------------

@@ -289,3 +289,29 @@ def test_byte_order_mark_is_accepted(tmp_path, capsys):
     path = tmp_path / "model.toml"
     path.write_bytes(b"\xef\xbb\xbf" + GOOD.encode())
     assert main(["check", str(path)]) == 0
+
+
+def test_material_section_with_base(tmp_path, capsys):
+    import seatool
+
+    text = (
+        "[bands]\nlowest = 1000\nhighest = 1000\n"
+        '[materials.laminated]\nbase = "glass"\nloss_factor = 0.03\n'
+        '[subsystems.pane]\nkind = "plate"\nmaterial = "laminated"\nthickness = 0.006\nlx = 1.0\nly = 0.8\n'
+    )
+    path = tmp_path / "m.toml"
+    path.write_text(text)
+    m = seatool.load(path)
+    pane = m.subsystem("pane")
+    # the built-in glass with a changed loss factor: damping defaults to it
+    assert float(pane.damping[0]) == 0.03
+    assert (
+        pane.properties["material"]["density"]
+        == seatool.materials.load_materials()["glass"].density
+    )
+    path.write_text(text.replace('base = "glass"', 'base = "glas"'))
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert (
+        len(err) == 1 and "materials.laminated.base" in err[0] and "did you mean 'glass'" in err[0]
+    )

@@ -81,6 +81,8 @@ def builtin_fluids() -> dict[str, _materials.Fluid]:
 
 
 def _named_material(rd: Reader, value: Any, path: str) -> dict[str, Any] | None:
+    if isinstance(value, str) and value in rd.invalid:
+        return None  # its definition's problems are already reported
     known = {**dict.fromkeys(builtin_materials()), **dict.fromkeys(rd.materials)}
     name = rd.name_ref(value, path, known, "material")
     if name is None:
@@ -207,7 +209,9 @@ def _wave_fields(
         return None
     bad = [x for x in v if x not in allowed]
     for x in bad:
-        rd.error(p, f"unknown wave field {x!r}" + closest(x, allowed) + f"; known: {', '.join(allowed)}")
+        rd.error(
+            p, f"unknown wave field {x!r}" + closest(x, allowed) + f"; known: {', '.join(allowed)}"
+        )
     if bad:
         return None
     if len(set(v)) != len(v):
@@ -246,8 +250,7 @@ def _damping(
     if lf is None:
         rd.error(
             f"{path}.damping",
-            f"missing required key: material {material['name']!r} has no loss_factor to "
-            "default to",
+            f"missing required key: material {material['name']!r} has no loss_factor to default to",
         )
         return None
     return (
@@ -569,9 +572,7 @@ def _read_orthotropic(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsyste
     extra.update(bending_stiffness_x=dx, bending_stiffness_y=dy)
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
-        n = st.orthotropic_plate_modal_density(
-            b.centre, area, dx, dy, m, torsional_stiffness=h_t
-        )
+        n = st.orthotropic_plate_modal_density(b.centre, area, dx, dy, m, torsional_stiffness=h_t)
         # effective isotropic stiffness with the same modal density, n = (S/2) sqrt(m''/D)
         d_eff = float(m * (area / (2.0 * n[0])) ** 2)
         lo, hi = st.orthotropic_critical_frequencies(dx, dy, m, c0)
@@ -675,7 +676,9 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
     if ly is None:
         ly = 2.0 * math.pi * a
     elif ly > 2.0 * math.pi * a * (1 + 1e-9):
-        rd.error(f"{path}.ly", f"arc length {ly:g} m exceeds the circumference {2 * math.pi * a:g} m")
+        rd.error(
+            f"{path}.ly", f"arc length {ly:g} m exceeds the circumference {2 * math.pi * a:g} m"
+        )
         return None
     perimeter = 2.0 * ly if closed else 2.0 * (lx + ly)
     geom = (lx, ly, lx * ly, perimeter)
@@ -710,9 +713,13 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
             "bending_stiffness": d,
             "critical_frequency": float(st.critical_frequency(d, m, c0)),
         }
-        return n, props, (
-            "shell_bending_modal_density, band average (Heckl 1962 dispersion, Szechenyi 1971 "
-            "count)"
+        return (
+            n,
+            props,
+            (
+                "shell_bending_modal_density, band average (Heckl 1962 dispersion, Szechenyi 1971 "
+                "count)"
+            ),
         )
 
     extra = {"radius": a, "ring_frequency": float(st.ring_frequency(a, c_l)), "closed": closed}
