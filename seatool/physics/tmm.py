@@ -490,6 +490,13 @@ def absorption(
     """
     f_, u = _prepare(f, angle)
     t = _total_matrix(layers, f_, u, rho0, c0)
+    if backing == "rigid":
+        # R = (Zs cos - rho c)/(Zs cos + rho c) with Zs = T11/T21 written without dividing,
+        # so an impervious build-up on the wall (T21 = 0, Zs infinite) gives alpha = 0.
+        c = np.sqrt(1.0 - u)
+        num = t[..., 0, 0] * c - rho0 * c0 * t[..., 1, 0]
+        den = t[..., 0, 0] * c + rho0 * c0 * t[..., 1, 0]
+        return np.asarray(1.0 - np.abs(num / den) ** 2, dtype=np.float64)
     zs = _zs_from_matrix(t, backing, rho0 * c0 / np.sqrt(1.0 - u))
     return _reflection_absorption(zs, u, rho0, c0)
 

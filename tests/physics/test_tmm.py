@@ -272,3 +272,16 @@ def test_shapes_vectorised():
     assert tmm.transmission_coefficient(f, layers, angle=th).shape == (2, 3)
     assert tmm.transmission_loss(f, layers).shape == (3,)
     assert np.ndim(tmm.transmission_loss(300.0, layers)) == 0
+
+
+def test_impervious_layer_on_rigid_wall_absorbs_nothing():
+    # A limp impervious layer pressed on a rigid wall cannot move: no absorption
+    # (the surface velocity is zero; common practice). Must not divide by zero.
+    import warnings
+
+    from seatool.physics import tmm
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        a = tmm.absorption(np.array([250.0, 1000.0, 4000.0]), [tmm.LimpLayer(5.0)], backing="rigid")
+    np.testing.assert_allclose(a, 0.0, atol=1e-15)
