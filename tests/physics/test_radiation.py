@@ -300,11 +300,6 @@ def test_input_validation():
     with pytest.raises(ValueError, match="corner_factor"):
         rad.radiation_efficiency_maidanik(100.0, 1.0, 1.0, 1000.0, corner_factor=-1.0)
     with pytest.raises(ValueError, match="radius"):
-        rad.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0)
+        rad.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3)
 
-
-def test_curved_panel_is_flat_value_limitation():
-    # Documented limitation: no curvature model; result equals the flat Leppington value.
-    f = np.array([100.0, 1000.0])
-    np.testing.assert_array_equal(rad.radiation_efficiency_curved_panel(f, 1.0, 1.0, 5e3, 2.0),
-                                  rad.radiation_efficiency_leppington(f, 1.0, 1.0, 5e3))
+# curved panels: tests/physics/test_radiation_curved.py
