@@ -49,6 +49,7 @@ __all__ = [
     "cavity_pair_clf",
     "default_angles",
     "fluid_of",
+    "is_curved",
     "panel_critical_frequency",
     "radiation_clf",
     "nonresonant_clf",
@@ -257,14 +258,23 @@ def radiation_clf(
     """Radiation CLF panel -> fluid per band and the band-averaged sigma used.
 
     ``sigma`` from :func:`seatool.physics.radiation.radiation_efficiency_band` over the
-    model's band edges, with the critical frequency in that fluid; ``eta`` from
-    :func:`seatool.physics.coupling.clf_radiation`. No treatment factor applied here.
+    model's band edges, with the critical frequency in that fluid; for a shell or curved
+    panel (properties ``radius`` and ``ring_frequency``, :func:`is_curved`) with the default
+    method, from :func:`seatool.physics.radiation.radiation_efficiency_curved_panel`
+    (Szechenyi 1971). ``eta`` from :func:`seatool.physics.coupling.clf_radiation`. No
+    treatment factor applied here.
     """
     assert rd.bands is not None
     bands = rd.bands
     nb = len(bands)
     rho, c = fluid
     f_c = panel_critical_frequency(props, c, nb)
+    if is_curved(props) and method == "leppington":
+        sigma = _curved_sigma(props, bands, f_c, c)
+        eta = coupling.clf_radiation(
+            bands.centre, sigma, float(props["mass_per_area"]), rho0=rho, c0=c
+        )
+        return _per_band(eta, nb), _per_band(sigma, nb)
     sigma = radiation.radiation_efficiency_band(
         bands.centre,
         float(props["lx"]),
@@ -278,6 +288,41 @@ def radiation_clf(
     )
     eta = coupling.clf_radiation(bands.centre, sigma, float(props["mass_per_area"]), rho0=rho, c0=c)
     return _per_band(eta, nb), _per_band(sigma, nb)
+
+
+def is_curved(props: Mapping[str, Any]) -> bool:
+    """True for the bending field of a shell or curved panel (``radius`` and ``ring_frequency``)."""
+    return props.get("wave_type") == "bending" and "radius" in props and "ring_frequency" in props
+
+
+def _curved_sigma(props: Mapping[str, Any], bands: Any, f_c: Array, c: float) -> Array:
+    """Band sigma of a curved panel or closed cylinder (lx axial, ly developed arc).
+
+    c_L' = 2 pi a f_r (the definition of the ring frequency) is divided by
+    sqrt(m'' / (rho h)) so that the membrane stiffness sees the same mass per area (with an
+    added treatment mass) as the critical frequency; without the material, nu = 0.3 and no
+    added-mass correction.
+    """
+    mat = props.get("material")
+    nu = _get(mat, "poisson_ratio")
+    rho_w = _get(mat, "density")
+    m = float(props["mass_per_area"])
+    c_l = 2.0 * math.pi * float(props["radius"]) * float(props["ring_frequency"])
+    if rho_w is not None and "thickness" in props:
+        c_l *= math.sqrt(float(rho_w) * float(props["thickness"]) / m)
+    return radiation.radiation_efficiency_curved_panel(
+        bands.centre,
+        float(props["lx"]),
+        float(props["ly"]),
+        f_c,
+        float(props["radius"]),
+        longitudinal_speed=c_l,
+        poisson_ratio=float(nu) if nu is not None else 0.3,
+        closed=bool(props.get("closed", False)),
+        f_lower=bands.lower,
+        f_upper=bands.upper,
+        c0=c,
+    )
 
 
 def nonresonant_clf(
@@ -397,7 +442,13 @@ def _read_radiation(
         provenance={
             "coupling_loss_factor": (
                 f"resonant radiation into {where}: rho c sigma/(omega m''), sigma "
-                f"band-averaged ({method})"
+                + (
+                    "band-averaged for the curved panel (Szechenyi 1971 statistical mode "
+                    "count, Heckl shell dispersion, Leppington edge modes)"
+                    if is_curved(props) and method == "leppington"
+                    else f"band-averaged ({method}"
+                    + (", flat-panel formula: curvature not included)" if is_curved(props) else ")")
+                )
                 + (", reduced by the treatment insertion loss" if _treated(props, air) else "")
             )
         },
