@@ -754,7 +754,7 @@ def radiation_efficiency_curved_panel(
     of the radiating surface and fluid loading ignored). With few modes per band the
     statistical count misplaces the few low-order modes that dominate the radiation: against
     exact Donnell-Mushtari modes and Wallace's modal integral (tests) the band value is within
-    a factor of about 2.5 of the modal average below f_m and about 3 times too high in the
+    a factor of about 2.5 of the modal average below f_m and about 3.5 times too high in the
     band containing f_m, where the continuum puts acoustically fast modes near the origin of
     the wavenumber plane that the mode lattice does not have.
 
