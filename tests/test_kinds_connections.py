@@ -524,8 +524,13 @@ BAD = [
     ),
     (
         "rad-unknown-key",
-        '[connections.x]\nkind = "radiation"\nbetween = ["p", "a"]\nedges = "clamped"',
-        ["connections.x.edges", "unknown key"],
+        '[connections.x]\nkind = "radiation"\nbetween = ["p", "a"]\nbaffled = false',
+        ["connections.x.baffled", "unknown key"],
+    ),
+    (
+        "rad-edges",
+        '[connections.x]\nkind = "radiation"\nbetween = ["p", "a"]\nedges = "free"',
+        ["connections.x.edges", "must be one of 'simply_supported', 'clamped'"],
     ),
     (
         "nr-through-missing",

@@ -44,6 +44,7 @@ from ..modelfile import CONNECTION_KINDS, DEFAULT_FLUID, Reader
 from ..physics import coupling, junctions, mobility, radiation, structural, transmission
 
 __all__ = [
+    "RADIATION_EDGES",
     "RADIATION_METHODS",
     "TAU_FLOOR",
     "cavity_pair_clf",
@@ -61,6 +62,10 @@ ComplexArray = npt.NDArray[np.complex128]
 
 #: Radiation-efficiency formulas offered by ``method`` (see :mod:`seatool.physics.radiation`).
 RADIATION_METHODS = ("leppington", "maidanik", "en12354")
+
+#: Edge conditions offered by ``edges`` (see
+#: :func:`seatool.physics.radiation.radiation_efficiency_leppington`).
+RADIATION_EDGES = ("simply_supported", "clamped")
 
 #: Default junction angles [deg] by number of plates: L, T (the second plate is the stem), X.
 _DEFAULT_ANGLES = {2: (0.0, 90.0), 3: (0.0, 90.0, 180.0), 4: (0.0, 90.0, 180.0, 270.0)}
@@ -254,6 +259,7 @@ def radiation_clf(
     *,
     method: str = "leppington",
     corner_factor: float = 1.0,
+    edges: str = "simply_supported",
 ) -> tuple[Array, Array]:
     """Radiation CLF panel -> fluid per band and the band-averaged sigma used.
 
@@ -262,7 +268,8 @@ def radiation_clf(
     panel (properties ``radius`` and ``ring_frequency``, :func:`is_curved`) with the default
     method, from :func:`seatool.physics.radiation.radiation_efficiency_curved_panel`
     (Szechenyi 1971). ``eta`` from :func:`seatool.physics.coupling.clf_radiation`. No
-    treatment factor applied here.
+    treatment factor applied here. ``edges`` is passed to the flat-panel formula (the reader
+    refuses ``"clamped"`` where the curved-panel formula is used).
     """
     assert rd.bands is not None
     bands = rd.bands
@@ -285,6 +292,7 @@ def radiation_clf(
         f_upper=bands.upper,
         c0=c,
         corner_factor=corner_factor,
+        edges=edges,  # type: ignore[arg-type]
     )
     eta = coupling.clf_radiation(bands.centre, sigma, float(props["mass_per_area"]), rho0=rho, c0=c)
     return _per_band(eta, nb), _per_band(sigma, nb)
@@ -374,7 +382,7 @@ def _read_radiation(
     subs: Mapping[str, Subsystem],
 ) -> Connection | None:
     path = f"connections.{name}"
-    if not rd.keys(s, path, (*_COMMON, "method", "corner_factor", "fluid")):
+    if not rd.keys(s, path, (*_COMMON, "method", "corner_factor", "edges", "fluid")):
         return None
     if not _need_two(rd, path, ends, "radiation connection"):
         return None
@@ -409,6 +417,21 @@ def _read_radiation(
             )
             ok = ok and cf is not None
             corner = cf if cf is not None else corner
+    edges = "simply_supported"
+    if "edges" in s:
+        got = _choice(rd, s["edges"], _join(path, "edges"), RADIATION_EDGES)
+        if got == "clamped" and method == "en12354":
+            rd.error(_join(path, "edges"), "'clamped' is not available with method = 'en12354'")
+            got = None
+        elif got == "clamped" and is_curved(props) and method == "leppington":
+            rd.error(
+                _join(path, "edges"),
+                "'clamped' is not available for a shell or curved panel "
+                "(the curved-panel radiation efficiency has no edge option)",
+            )
+            got = None
+        ok = ok and got is not None
+        edges = got or edges
     if air.sink:
         fname = "air"
         if "fluid" in s:
@@ -430,7 +453,7 @@ def _read_radiation(
     if not ok:
         return None
     assert rd.bands is not None
-    eta, sigma = radiation_clf(rd, props, fluid, method=method, corner_factor=corner)
+    eta, sigma = radiation_clf(rd, props, fluid, method=method, corner_factor=corner, edges=edges)
     eta = eta * treatment_factor(props, air.name, len(rd.bands))
     where = "the exterior" if air.sink else f"cavity {air.name!r}"
     return Connection(
@@ -446,7 +469,7 @@ def _read_radiation(
                     "band-averaged for the curved panel (Szechenyi 1971 statistical mode "
                     "count, Heckl shell dispersion, Leppington edge modes)"
                     if is_curved(props) and method == "leppington"
-                    else f"band-averaged ({method}"
+                    else f"band-averaged ({method}, {edges.replace('_', ' ')} edges"
                     + (", flat-panel formula: curvature not included)" if is_curved(props) else ")")
                 )
                 + (", reduced by the treatment insertion loss" if _treated(props, air) else "")
