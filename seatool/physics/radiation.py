@@ -206,7 +206,7 @@ def radiation_efficiency_leppington(
     .. [2] Maidanik, G. (1962). "Response of ribbed panels to reverberant acoustic fields."
        J. Acoust. Soc. Am. 34(6), 809-826. doi:10.1121/1.1918203 (clamped edges: factor 2)
     .. [3] Beranek, L.L., Ver, I.L. (eds.) (1992). Noise and Vibration Control Engineering.
-       Wiley, ch. 9 (sound radiation from structures). ISBN 0-471-61751-2
+       Wiley, ch. 9 (sound radiation from structures).
     """
     factor = _edge_factor(edges)
     f_a, l1_a, l2_a, fc_a = _check_common(f, l1, l2, f_c, c0)
