@@ -331,7 +331,7 @@ def modal_band_average(a: float, b: float, h: float, lo: float, hi: float, edges
 def test_clamped_band_average_is_twice_simply_supported_below_coincidence(f_mid):
     # Steel 1 mm (f_c = 11.96 kHz), 1/3-octave bands at f/f_c = 0.011 ... 0.084.
     # Ensemble means over 8 panels (single panels scatter by up to +-50 % at 125 Hz).
-    # Numerical ratios clamped/simply supported of the ensemble means: 1.96, 2.02, 1.87,
+    # Numerical ratios clamped/simply supported of the ensemble means: 1.92, 2.03, 1.86,
     # 1.96 in these bands; the implemented factor is 2 (Maidanik 1962 as corrected;
     # Leppington et al. 1982; Beranek & Ver 1992, from memory). Tolerance: 10 %.
     # Also each edge condition's modal mean against the implemented Leppington band value of
@@ -360,7 +360,7 @@ def test_clamped_band_average_is_twice_simply_supported_below_coincidence(f_mid)
 def test_clamped_factor_falls_towards_coincidence():
     # Reported limitation of the constant factor 2: nearer coincidence (2 kHz band,
     # f/f_c = 0.17) the numerical ratio of the clamped to the simply supported modal mean is
-    # lower (1.88 over the 8-panel ensemble; here 3 panels, modest size for speed). A low-
+    # lower (1.89 over these 3 panels, 1.88 over all 8; 3 for speed). A low-
     # wavenumber estimate for one straight edge (derived here: trace wavenumber kappa of the
     # radiating field, bending wavenumber beta) is 2 beta^2/(beta^2 + kappa^2) <= 2, which
     # falls towards 1 at coincidence. The implemented factor stays within 15 % here.
