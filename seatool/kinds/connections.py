@@ -503,10 +503,11 @@ def _read_nonresonant(
         return None
     ok = True
     for k, e in enumerate(ends):
-        if not _is_cavity(e):
+        if not (_is_cavity(e) or e.sink):
             rd.error(
                 f"{path}.between[{k}]",
-                f"{_describe(e)} is not a cavity; the non-resonant path joins two cavities",
+                f"{_describe(e)} is not a cavity; the non-resonant path joins two cavities "
+                "(or a cavity and the exterior)",
             )
             ok = False
     pname = rd.name_ref(s["through"], _join(path, "through"), subs, "subsystem")
@@ -516,6 +517,28 @@ def _read_nonresonant(
     props = _panel(rd, _join(path, "through"), subs[pname])
     if props is None:
         return None
+    sinks = [e for e in ends if e.sink]
+    if sinks:
+        # Cavity -> free field: eta = c S tau_NR / (4 omega V) from the cavity, no return.
+        room = ends[0] if sinks[0] is ends[1] else ends[1]
+        f_room, v_room = fluid_of(room), _volume(room)
+        assert f_room is not None and v_room is not None and rd.bands is not None
+        eta_out = nonresonant_clf(rd, props, f_room, v_room, stiffness_factor=sf)
+        eta_out = eta_out * treatment_factor(props, None, len(rd.bands))
+        return Connection(
+            name,
+            room.name,
+            sinks[0].name,
+            eta_out,
+            kind="nonresonant",
+            provenance={
+                "coupling_loss_factor": (
+                    f"non-resonant (forced-wave) transmission through {pname!r} into the "
+                    "exterior: c S tau_NR/(4 omega V), tau_NR = 0 above coincidence"
+                    + (", reduced by the treatment insertion loss" if _treated(props, None) else "")
+                )
+            },
+        )
     f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
     assert f1 is not None and f2 is not None
     if not _same_fluid(f1, f2):
@@ -895,6 +918,11 @@ def _read_point_like(
     )
 
 
+#: Loss factor through a resonator's spring above which the weak-coupling estimate is
+#: flagged (the neglected frequency shift is of the same order; common practice).
+WEAK_RESONATOR_COUPLING = 0.1
+
+
 def _resonator_point(
     rd: Reader, name: str, s: dict[str, Any], ends: list[Subsystem], res: Subsystem
 ) -> Connection | None:
@@ -917,6 +945,14 @@ def _resonator_point(
     assert rd.bands is not None
     f = np.asarray(rd.bands.centre, dtype=float)
     eta = junctions.clf_resonator_point(f, f0, float(p["stiffness"]), y0)
+    eta0 = float(junctions.clf_resonator_point(f0, f0, float(p["stiffness"]), y0))
+    if eta0 > WEAK_RESONATOR_COUPLING:
+        rd.notes.append(
+            f"{name}: the resonator {res.name!r} is strongly coupled to {other.name!r} "
+            f"(loss factor {eta0:.2g} through its spring at f0 = {f0:.4g} Hz, above "
+            f"{WEAK_RESONATOR_COUPLING:g}): the weak-coupling estimate is rough; its natural "
+            "frequency shifts on this structure"
+        )
     eta = np.maximum(_per_band(eta, f.size), np.finfo(float).tiny)
     return Connection(
         name,
