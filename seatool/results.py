@@ -86,7 +86,6 @@ class Result:
     def level_array(self) -> tuple[Array, list[str], list[str]]:
         """Levels (N, B) [dB], their quantity and reference label per subsystem."""
         m = self.model
-        omega = m.bands.omega
         out = np.empty_like(self.energy)
         quantity: list[str] = []
         refs: list[str] = []
@@ -107,7 +106,6 @@ class Result:
                 out[i] = levels.energy_level(e)
                 quantity.append("energy")
                 refs.append(levels.reference_label("energy"))
-        del omega
         return out, quantity, refs
 
     # -- tables ------------------------------------------------------------------------
