@@ -75,6 +75,11 @@ def _parser() -> argparse.ArgumentParser:
     )
     sp.add_argument("--csv", metavar="FILE", help="write the tidy per-band table to FILE")
     sp.add_argument(
+        "--plot",
+        metavar="FILE",
+        help="draw the band levels of the shown subsystems to FILE (.png, .pdf or .svg)",
+    )
+    sp.add_argument(
         "--balance", action="store_true", help="also print each subsystem's power balance"
     )
     sp.add_argument("--digits", type=int, default=1, help="decimals in the level table (default 1)")
@@ -123,6 +128,20 @@ def _cmd_solve(args: argparse.Namespace) -> int:
     model = _load(args.model)
     names = _names(model, args.show, args.model)
     csv_path = Path(args.csv) if args.csv else None
+    plot_path = Path(args.plot) if args.plot else None
+    if plot_path is not None:
+        if plot_path.suffix.lower() not in (".png", ".pdf", ".svg"):
+            raise InputError(
+                [Problem(str(plot_path), "--plot", "use a .png, .pdf or .svg file name")]
+            )
+        if not plot_path.parent.exists():
+            raise InputError(
+                [
+                    Problem(
+                        str(plot_path), "--plot", f"folder {str(plot_path.parent)!r} does not exist"
+                    )
+                ]
+            )
     if csv_path is not None and not csv_path.parent.exists():
         raise InputError(
             [Problem(str(csv_path), "--csv", f"folder {str(csv_path.parent)!r} does not exist")]
@@ -149,6 +168,16 @@ def _cmd_solve(args: argparse.Namespace) -> int:
                 [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]
             ) from None
         print(f"wrote {csv_path}")
+    if plot_path is not None:
+        from .plot import plot_levels
+
+        try:
+            plot_levels(result, plot_path, names)
+        except OSError as exc:
+            raise InputError(
+                [Problem(str(plot_path), "--plot", f"cannot write: {exc.strerror or exc}")]
+            ) from None
+        print(f"wrote {plot_path}")
     print()
     print("Caution: " + CAUTION)
     return EXIT_OK

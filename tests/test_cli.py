@@ -75,3 +75,17 @@ def test_every_shipped_model_conserves_energy(path):
     res = seatool.run(seatool.load(path))
     assert res.solution.residual.max() <= 1e-9
     assert np.all(res.energy >= 0)
+
+
+def test_plot_option_writes_a_figure(tmp_path, capsys):
+    out = tmp_path / "levels.png"
+    assert main(["solve", str(DEMO), "--plot", str(out)]) == 0
+    assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (ISO/IEC 15948)
+    assert out.stat().st_size > 10_000
+
+
+def test_plot_option_bad_suffix(tmp_path, capsys):
+    assert main(["solve", str(DEMO), "--plot", str(tmp_path / "levels.bmp")]) == 2
+    err = capsys.readouterr().err
+    assert "--plot" in err and ".png" in err
+    assert not (tmp_path / "levels.bmp").exists()

@@ -1,0 +1,99 @@
+"""Figures of results (matplotlib is imported here only, with a file-only backend).
+
+Band levels are drawn as steps over the band edges (one flat segment per band), on a
+logarithmic frequency axis labelled with the nominal band centres; every axis names its
+reference. Bands where SEA validity is weak for a subsystem are drawn dashed.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Sequence
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from .results import CAUTION, Result
+
+__all__ = ["plot_levels"]
+
+_QUANTITY_LABEL = {
+    "sound_pressure": "sound pressure level",
+    "velocity": "velocity level",
+    "energy": "energy level",
+}
+
+
+def _pyplot() -> Any:
+    import matplotlib
+
+    matplotlib.use("Agg", force=True)
+    import matplotlib.pyplot as plt
+
+    return plt
+
+
+def _weak_bands(result: Result) -> dict[str, np.ndarray]:
+    """Per subsystem, the bands whose validity flag is not 'ok' (see seatool.validity_report)."""
+    table = result.validity()
+    out: dict[str, np.ndarray] = {}
+    for name, grp in table.groupby("subsystem", sort=False):
+        out[str(name)] = (grp["flag"] != "ok").to_numpy(dtype=bool)
+    return out
+
+
+def plot_levels(
+    result: Result, path: str | os.PathLike[str], names: Sequence[str] | None = None
+) -> Path:
+    """Write a figure of the band levels of ``names`` (default: all with a level) to ``path``.
+
+    One panel per quantity (sound pressure, velocity, energy level), each with its
+    reference in the axis label. The file type follows the suffix (``.png``, ``.pdf``,
+    ``.svg``). Returns the path written.
+    """
+    plt = _pyplot()
+    model = result.model
+    bands = model.bands
+    lv, quantity, refs = result.level_array()
+    chosen = [s.name for s in model.subsystems if not s.sink] if names is None else list(names)
+    idx = model.index()
+    groups: dict[str, list[str]] = {}
+    for n in chosen:
+        groups.setdefault(quantity[idx[n]], []).append(n)
+    weak = _weak_bands(result)
+    fig, axes = plt.subplots(
+        len(groups), 1, figsize=(8.0, 3.2 * len(groups) + 0.6), squeeze=False, sharex=True
+    )
+    edges = np.append(bands.lower, bands.upper[-1])
+    for ax, (q, members) in zip(axes[:, 0], groups.items(), strict=True):
+        for n in members:
+            i = idx[n]
+            y = np.append(lv[i], lv[i][-1])
+            (line,) = ax.step(edges, y, where="post", label=n, linewidth=1.6)
+            bad = weak.get(n)
+            if bad is not None and bad.any():
+                yb = np.where(np.append(bad, bad[-1]), y, np.nan)
+                ax.step(edges, yb, where="post", color=line.get_color(), linewidth=3.0,
+                        alpha=0.35)  # fmt: skip
+        ax.set_xscale("log")
+        ax.set_ylabel(f"{_QUANTITY_LABEL.get(q, q)} [dB {refs[idx[members[0]]]}]")
+        ax.grid(True, which="both", alpha=0.3)
+        ax.legend(fontsize=8, ncol=2)
+    ax_last = axes[-1, 0]
+    ticks = bands.centre
+    labels = [bands.label(k) for k in range(len(bands))]
+    step = max(1, len(ticks) // 12)
+    ax_last.set_xticks(ticks[::step])
+    ax_last.set_xticklabels(labels[::step], rotation=45, ha="right", fontsize=8)
+    ax_last.minorticks_off()
+    ax_last.set_xlabel(f"{bands.kind} band")
+    title = model.title or "band levels"
+    axes[0, 0].set_title(title + "\n(wide pale segments: bands where SEA validity is weak)",
+                         fontsize=10)  # fmt: skip
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    out = Path(path)
+    fig.savefig(out, dpi=130)
+    plt.close(fig)
+    return out
