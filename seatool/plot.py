@@ -16,7 +16,7 @@ import numpy as np
 
 from .results import CAUTION, Result
 
-__all__ = ["plot_levels"]
+__all__ = ["plot_contributions", "plot_levels"]
 
 _QUANTITY_LABEL = {
     "sound_pressure": "sound pressure level",
@@ -91,6 +91,74 @@ def plot_levels(
     title = model.title or "band levels"
     axes[0, 0].set_title(title + "\n(wide pale segments: bands where SEA validity is weak)",
                          fontsize=10)  # fmt: skip
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    out = Path(path)
+    fig.savefig(out, dpi=130)
+    plt.close(fig)
+    return out
+
+
+def plot_contributions(
+    contributions: Any, result: Result, receiver: str, path: str | os.PathLike[str]
+) -> Path:
+    """Write a figure of the share of each source in a receiver's level, band by band.
+
+    ``contributions`` is the table of :func:`seatool.analysis.paths.contributions`. Upper
+    panel: the receiver's level with its reference; lower panel: stacked shares [%] per
+    band (they add up to 100 %). Bands where the receiver's SEA validity is weak are shaded.
+    """
+    plt = _pyplot()
+    model = result.model
+    bands = model.bands
+    r = model.index()[receiver]
+    lv, _, refs = result.level_array()
+    sources = list(dict.fromkeys(contributions["source"]))
+    shares = np.vstack(
+        [
+            contributions[contributions["source"] == s]
+            .set_index("band_hz")
+            .reindex(bands.nominal)["share"]
+            .to_numpy(dtype=float)
+            for s in sources
+        ]
+    )
+    valid = (
+        contributions.drop_duplicates("band_hz")
+        .set_index("band_hz")
+        .reindex(bands.nominal)["valid"]
+    ).to_numpy(dtype=bool)
+    fig, (ax1, ax2) = plt.subplots(2, 1, figsize=(8.0, 6.4), sharex=True)
+    edges = np.append(bands.lower, bands.upper[-1])
+    sink = model.subsystems[r].sink
+    if sink:
+        y = 10 * np.log10(np.maximum(result.solution.dissipated_power[r], 1e-300) / 1e-12)
+        ax1.set_ylabel("absorbed power level [dB re 1 pW]")
+    else:
+        y = lv[r]
+        ax1.set_ylabel(f"level [dB {refs[r]}]")
+    ax1.step(edges, np.append(y, y[-1]), where="post", color="black", linewidth=1.6)
+    bottom = np.zeros(len(bands))
+    for s, share in zip(sources, shares, strict=True):
+        pct = 100 * np.nan_to_num(share)
+        ax2.bar(bands.lower, pct, width=bands.width, bottom=bottom, align="edge", label=s,
+                edgecolor="white", linewidth=0.5)  # fmt: skip
+        bottom = bottom + pct
+    for ax in (ax1, ax2):
+        for j in np.flatnonzero(~valid):
+            ax.axvspan(bands.lower[j], bands.upper[j], color="grey", alpha=0.15, linewidth=0)
+        ax.set_xscale("log")
+        ax.grid(True, which="both", alpha=0.3)
+    ax2.set_ylim(0, 100)
+    ax2.set_ylabel("share of the receiver's total [%]")
+    ax2.legend(fontsize=8, ncol=3, loc="upper center", bbox_to_anchor=(0.5, -0.28))
+    step = max(1, len(bands) // 12)
+    ax2.set_xticks(bands.centre[::step])
+    ax2.set_xticklabels([bands.label(k) for k in range(len(bands))][::step], rotation=45,
+                        ha="right", fontsize=8)  # fmt: skip
+    ax2.minorticks_off()
+    ax1.set_title(f"{model.title or 'model'}: sources of {receiver}\n"
+                  "(shaded: bands where the receiver's SEA validity is weak)", fontsize=10)  # fmt: skip
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)

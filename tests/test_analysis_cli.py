@@ -67,9 +67,16 @@ def test_spread_command(tmp_path, capsys):
     [
         (["paths", MODEL, "--to", "wokshop_air"], "--to", "did you mean 'workshop_air'"),
         (["sensitivity", MODEL, "--to", "wals"], "--to", "did you mean 'walls'"),
-        (["sensitivity", MODEL, "--to", "walls", "--params", "subsystems.walls.mas"],
-         "subsystems.walls.mas", "did you mean 'mass'"),
-        (["paths", MODEL, "--to", "walls", "--csv", "/nonexistent/dir/x.csv"], "--csv", "does not exist"),
+        (
+            ["sensitivity", MODEL, "--to", "walls", "--params", "subsystems.walls.mas"],
+            "subsystems.walls.mas",
+            "did you mean 'mass'",
+        ),
+        (
+            ["paths", MODEL, "--to", "walls", "--csv", "/nonexistent/dir/x.csv"],
+            "--csv",
+            "does not exist",
+        ),
         (["spread", MODEL, "--show", "wall"], "--show", "did you mean 'walls'"),
         (["paths", "models/nope.toml", "--to", "walls"], "", "file not found"),
     ],
@@ -80,3 +87,13 @@ def test_bad_input_one_line(capsys, argv, where, what):
     assert code == 2
     assert len(err) == 1, err
     assert where in err[0] and what in err[0], err[0]
+
+
+def test_paths_plot(tmp_path, capsys):
+    from seatool.cli import main
+
+    out = tmp_path / "sources.png"
+    assert main(["paths", "models/rail_cab.toml", "--to", "cab_air", "--plot", str(out)]) == 0
+    assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (ISO/IEC 15948)
+    assert main(["paths", MODEL, "--to", "walls", "--plot", str(tmp_path / "x.gif")]) == 2
+    assert "--plot" in capsys.readouterr().err

@@ -36,6 +36,17 @@ def _csv_target(value: str | None, option: str) -> Path | None:
     return p
 
 
+def _plot_target(value: str | None) -> Path | None:
+    if value is None:
+        return None
+    p = Path(value)
+    if p.suffix.lower() not in (".png", ".pdf", ".svg"):
+        raise InputError([Problem(str(p), "--plot", "use a .png, .pdf or .svg file name")])
+    if not p.parent.exists():
+        raise InputError([Problem(str(p), "--plot", f"folder {str(p.parent)!r} does not exist")])
+    return p
+
+
 def write_csv(table: pd.DataFrame, path: Path) -> None:
     """Write a tidy table atomically (no half-written file on failure)."""
     text = table.to_csv(index=False, float_format="%.10g")
@@ -75,6 +86,11 @@ def _paths_args(p: argparse.ArgumentParser) -> None:
     p.add_argument(
         "--connections-csv", metavar="FILE", help="write the connection powers into the receiver"
     )
+    p.add_argument(
+        "--plot",
+        metavar="FILE",
+        help="draw the receiver's level and each source's share per band to FILE (.png, .pdf, .svg)",
+    )
     p.add_argument("--max-length", type=int, default=6, help="longest path, in connections")
     p.add_argument("--top", type=int, default=10, help="paths listed in the overall ranking")
 
@@ -89,6 +105,7 @@ def _cmd_paths(args: argparse.Namespace) -> int:
     ]
     if args.max_length < 1:
         raise InputError([Problem(args.model, "--max-length", "must be >= 1")])
+    plot_path = _plot_target(args.plot)
     _, _, _, model = _load(args.model)
     r = receiver_index(model, args.to)
     result = Result(model, solve(model))
@@ -106,9 +123,7 @@ def _cmd_paths(args: argparse.Namespace) -> int:
     head = ["band", "total"] + srcs
     rows = []
     for j in range(len(bands)):
-        total = (
-            f"{result.solution.dissipated_power[r, j]:.3g}" if sink else f"{lv[r, j]:.1f}"
-        )
+        total = f"{result.solution.dissipated_power[r, j]:.3g}" if sink else f"{lv[r, j]:.1f}"
         cells = [bands.label(j) + ("" if valid[j] else " *"), total]
         for s in srcs:
             row = con[(con["source"] == s) & (con["band_hz"] == bands.nominal[j])].iloc[0]
@@ -157,6 +172,16 @@ def _cmd_paths(args: argparse.Namespace) -> int:
         if path is not None:
             write_csv(table, path)
             print(f"wrote {path}")
+    if plot_path is not None:
+        from ..plot import plot_contributions
+
+        try:
+            plot_contributions(con, result, model.names[r], plot_path)
+        except OSError as exc:
+            raise InputError(
+                [Problem(str(plot_path), "--plot", f"cannot write: {exc.strerror or exc}")]
+            ) from None
+        print(f"wrote {plot_path}")
     print()
     print("Caution: " + CAUTION)
     return 0
@@ -204,11 +229,7 @@ def _cmd_sensitivity(args: argparse.Namespace) -> int:
          f"{x['band_of_max']:g} Hz" + ("" if x["valid_at_max"] else " *")]
         for _, x in rk.head(args.top).iterrows()
     ]  # fmt: skip
-    print(
-        "\n".join(
-            _fmt_table(["rank", "parameter", "overall", "max |band|", "at band"], rows)
-        )
-    )
+    print("\n".join(_fmt_table(["rank", "parameter", "overall", "max |band|", "at band"], rows)))
     if len(rk) > args.top:
         print(f"({len(rk) - args.top} more in the CSV table)")
     if not rk["valid_at_max"].all():
