@@ -128,20 +128,9 @@ def _cmd_solve(args: argparse.Namespace) -> int:
     model = _load(args.model)
     names = _names(model, args.show, args.model)
     csv_path = Path(args.csv) if args.csv else None
-    plot_path = Path(args.plot) if args.plot else None
-    if plot_path is not None:
-        if plot_path.suffix.lower() not in (".png", ".pdf", ".svg"):
-            raise InputError(
-                [Problem(str(plot_path), "--plot", "use a .png, .pdf or .svg file name")]
-            )
-        if not plot_path.parent.exists():
-            raise InputError(
-                [
-                    Problem(
-                        str(plot_path), "--plot", f"folder {str(plot_path.parent)!r} does not exist"
-                    )
-                ]
-            )
+    from .plot import plot_target
+
+    plot_path = plot_target(args.plot)
     if csv_path is not None and not csv_path.parent.exists():
         raise InputError(
             [Problem(str(csv_path), "--csv", f"folder {str(csv_path.parent)!r} does not exist")]

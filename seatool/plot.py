@@ -16,7 +16,25 @@ import numpy as np
 
 from .results import CAUTION, Result
 
-__all__ = ["plot_contributions", "plot_levels"]
+__all__ = ["PLOT_SUFFIXES", "plot_contributions", "plot_levels", "plot_target"]
+
+#: File types a figure can be written as.
+PLOT_SUFFIXES = (".png", ".pdf", ".svg")
+
+
+def plot_target(value: str | None, option: str = "--plot") -> Path | None:
+    """Check a figure file name given on the command line (InputError if it cannot be used)."""
+    from .errors import InputError, Problem
+
+    if value is None:
+        return None
+    p = Path(value)
+    if p.suffix.lower() not in PLOT_SUFFIXES:
+        raise InputError([Problem(str(p), option, "use a .png, .pdf or .svg file name")])
+    if not p.parent.exists():
+        raise InputError([Problem(str(p), option, f"folder {str(p.parent)!r} does not exist")])
+    return p
+
 
 _QUANTITY_LABEL = {
     "sound_pressure": "sound pressure level",

@@ -18,10 +18,10 @@ import pandas as pd
 
 from . import levels
 from .bands import a_weighting
-from .model import Model
+from .model import Model, Subsystem
 from .solve import Solution
 
-__all__ = ["CAUTION", "Result"]
+__all__ = ["CAUTION", "Result", "subsystem_level", "write_text_atomic"]
 
 CAUTION = (
     "Estimates guide design; they do not certify. Verify by measurement to the applicable "
@@ -30,6 +30,36 @@ CAUTION = (
 )
 
 Array = npt.NDArray[np.float64]
+
+
+def subsystem_level(sub: Subsystem, energy: npt.ArrayLike) -> tuple[Array, str]:
+    """Level [dB] of a subsystem's band energy and the quantity it is a level of.
+
+    Cavities: sound pressure level from <p^2> = rho c^2 E / V; structures with a mass:
+    velocity level from <v^2> = E / M; otherwise the energy level (conversions and ISO 1683
+    references in :mod:`seatool.levels`).
+    """
+    e = np.asarray(energy, dtype=float)
+    if sub.quantity == "sound_pressure" and not sub.sink:
+        assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
+        p_sq = levels.mean_square_pressure(e, sub.volume, sub.density, sub.sound_speed)
+        return levels.sound_pressure_level(p_sq), "sound_pressure"
+    if sub.quantity == "velocity" and sub.mass is not None:
+        return levels.velocity_level(levels.mean_square_velocity(e, sub.mass)), "velocity"
+    return levels.energy_level(e), "energy"
+
+
+def write_text_atomic(path: str | os.PathLike[str], text: str) -> None:
+    """Write ``text`` to ``path`` through a temporary file (no half-written file on failure)."""
+    path = Path(path)
+    fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=path.suffix, dir=path.parent or ".")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
+            fh.write(text)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
 
 
 @dataclass(frozen=True)
@@ -85,27 +115,13 @@ class Result:
 
     def level_array(self) -> tuple[Array, list[str], list[str]]:
         """Levels (N, B) [dB], their quantity and reference label per subsystem."""
-        m = self.model
         out = np.empty_like(self.energy)
         quantity: list[str] = []
         refs: list[str] = []
-        for i, s in enumerate(m.subsystems):
-            e = self.energy[i]
-            if s.quantity == "sound_pressure" and not s.sink:
-                assert s.volume is not None and s.density is not None and s.sound_speed is not None
-                out[i] = levels.sound_pressure_level(
-                    levels.mean_square_pressure(e, s.volume, s.density, s.sound_speed)
-                )
-                quantity.append("sound_pressure")
-                refs.append(levels.reference_label("sound_pressure"))
-            elif s.quantity == "velocity" and s.mass is not None:
-                out[i] = levels.velocity_level(levels.mean_square_velocity(e, s.mass))
-                quantity.append("velocity")
-                refs.append(levels.reference_label("velocity"))
-            else:
-                out[i] = levels.energy_level(e)
-                quantity.append("energy")
-                refs.append(levels.reference_label("energy"))
+        for i, s in enumerate(self.model.subsystems):
+            out[i], q = subsystem_level(s, self.energy[i])
+            quantity.append(q)
+            refs.append(levels.reference_label(q))
         return out, quantity, refs
 
     # -- tables ------------------------------------------------------------------------
@@ -214,16 +230,7 @@ class Result:
     # -- output ------------------------------------------------------------------------
     def to_csv(self, path: str | os.PathLike[str]) -> None:
         """Write :meth:`table` to ``path`` atomically (no half-written file on failure)."""
-        path = Path(path)
-        text = self.table().to_csv(index=False, float_format="%.10g")
-        fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=".csv", dir=path.parent or ".")
-        try:
-            with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-                fh.write(text)
-            os.replace(tmp, path)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
+        write_text_atomic(path, self.table().to_csv(index=False, float_format="%.10g"))
 
     def render(self, names: list[str] | None = None, *, digits: int = 1) -> str:
         """Compact text table of band levels with overall totals and notes."""

@@ -67,9 +67,10 @@ class FreeBlock:
         ff = (pos[a] >= 0) & (pos[b] >= 0)
         rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
         cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-        vals = np.concatenate(
-            [asm.diag[self.free, j], -asm.eta_ba[ff, j], -asm.eta_ab[ff, j]]
-        ) * self.n_free[cols, j]
+        vals = (
+            np.concatenate([asm.diag[self.free, j], -asm.eta_ba[ff, j], -asm.eta_ab[ff, j]])
+            * self.n_free[cols, j]
+        )
         return sp.csc_matrix(sp.coo_matrix((vals, (rows, cols)), shape=(nf, nf)))
 
     def rhs(self, power: Array, held_energy: Array, j: int) -> Array:
@@ -100,9 +101,7 @@ class FreeBlock:
             yield j, lu
 
 
-def solve_sources(
-    model: Model, asm: Assembly, power: Array, held_energy: Array
-) -> Array:
+def solve_sources(model: Model, asm: Assembly, power: Array, held_energy: Array) -> Array:
     """Energies (N, S, B) for S right-hand sides (``power``, ``held_energy``: (N, S, B)).
 
     Each column s is an independent solve with the input powers ``power[:, s]`` and the
@@ -163,25 +162,15 @@ def validity_columns(model: Model, asm: Assembly, i: int) -> dict[str, Array]:
 def level_offset(model: Model, i: int) -> float:
     """Level of subsystem ``i`` at an energy of 1 J [dB]: level = 10 lg(E / 1 J) + offset.
 
-    Uses the same conversion as :meth:`seatool.results.Result.level_array` (via
-    :mod:`seatool.levels`).
+    The levels are 10 lg of quantities proportional to E, so the offset is the level of 1 J
+    (:func:`seatool.results.subsystem_level`).
     """
-    from .. import levels
+    from ..results import subsystem_level
 
-    s = model.subsystems[i]
-    one = np.ones(1)
-    if s.quantity == "sound_pressure" and not s.sink:
-        assert s.volume is not None and s.density is not None and s.sound_speed is not None
-        v = levels.sound_pressure_level(
-            levels.mean_square_pressure(one, s.volume, s.density, s.sound_speed)
-        )
-    elif s.quantity == "velocity" and s.mass is not None:
-        v = levels.velocity_level(levels.mean_square_velocity(one, s.mass))
-    else:
-        v = levels.energy_level(one)
-    return float(v[0])
+    return float(subsystem_level(model.subsystems[i], np.ones(1))[0][0])
 
 
 def db(x: npt.ArrayLike) -> Array:
+    """10 lg x [dB] of a ratio of powers or energies (common practice; -inf at 0)."""
     with np.errstate(divide="ignore"):
         return np.asarray(10.0 * np.log10(np.asarray(x, dtype=float)), dtype=float)

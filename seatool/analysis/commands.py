@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import argparse
-import os
-import tempfile
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -13,7 +11,8 @@ import pandas as pd
 
 from ..errors import InputError, Problem
 from ..modelfile import build
-from ..results import CAUTION, Result
+from ..plot import plot_target
+from ..results import CAUTION, Result, write_text_atomic
 from ..solve import solve
 from ._keypath import read_data
 from ._system import receiver_index
@@ -36,28 +35,9 @@ def _csv_target(value: str | None, option: str) -> Path | None:
     return p
 
 
-def _plot_target(value: str | None) -> Path | None:
-    if value is None:
-        return None
-    p = Path(value)
-    if p.suffix.lower() not in (".png", ".pdf", ".svg"):
-        raise InputError([Problem(str(p), "--plot", "use a .png, .pdf or .svg file name")])
-    if not p.parent.exists():
-        raise InputError([Problem(str(p), "--plot", f"folder {str(p.parent)!r} does not exist")])
-    return p
-
-
 def write_csv(table: pd.DataFrame, path: Path) -> None:
     """Write a tidy table atomically (no half-written file on failure)."""
-    text = table.to_csv(index=False, float_format="%.10g")
-    fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=".csv", dir=path.parent or ".")
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+    write_text_atomic(path, table.to_csv(index=False, float_format="%.10g"))
 
 
 def _fmt_table(head: list[str], rows: list[list[str]]) -> list[str]:
@@ -105,7 +85,7 @@ def _cmd_paths(args: argparse.Namespace) -> int:
     ]
     if args.max_length < 1:
         raise InputError([Problem(args.model, "--max-length", "must be >= 1")])
-    plot_path = _plot_target(args.plot)
+    plot_path = plot_target(args.plot)
     _, _, _, model = _load(args.model)
     r = receiver_index(model, args.to)
     result = Result(model, solve(model))

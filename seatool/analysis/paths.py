@@ -214,6 +214,10 @@ def connection_powers(result: Result, receiver: str) -> pd.DataFrame:
     receiver's dissipated power, for the sink: absorbed), ``share`` (power_in /
     dissipated), ``modes_in_band, modal_overlap, valid``. Per band, ``power_in_W`` sums
     to ``dissipated_W`` (the receiver's power balance).
+
+    The connection powers are the solver's W_ab = omega (eta_ab E_a - eta_ba E_b)
+    (Lyon & DeJong 1995, Theory and Application of SEA, 2nd ed., ch. 3; Vigran 2008,
+    Building Acoustics, eq. 7.4); this function only selects and signs them.
     """
     model = result.model
     r = receiver_index(model, receiver)

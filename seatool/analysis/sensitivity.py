@@ -298,6 +298,13 @@ def parameter_sensitivities(
     difference of ``ln X`` times X where X > 0 (exact for a power law X ~ p^k, which most
     SEA quantities are locally), else of X. The model is rebuilt twice per parameter but
     solved once in all.
+
+    References
+    ----------
+    .. [1] Giles, M.B., Pierce, N.A. (2000). "An introduction to the adjoint approach to
+       design." Flow, Turbulence and Combustion 65, 393-415 (adjoint derivatives of an output
+       of a linear system; from memory). The physics of each X is in the functions that
+       :func:`seatool.modelfile.build` calls.
     """
     if not 0 < step < 0.1:
         raise ValueError("step must be in (0, 0.1)")

@@ -140,6 +140,22 @@ def _same_fluid(a: tuple[float, float], b: tuple[float, float]) -> bool:
     return all(math.isclose(x, y, rel_tol=_SAME_FLUID) for x, y in zip(a, b, strict=True))
 
 
+def _shared_fluid(
+    rd: Reader, path: str, ends: list[Subsystem], what: str
+) -> tuple[tuple[float, float], tuple[float, float]] | None:
+    """The (density, sound speed) of two cavities, or None after one error if they differ."""
+    f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
+    assert f1 is not None and f2 is not None
+    if not _same_fluid(f1, f2):
+        rd.error(
+            _join(path, "between"),
+            f"cavities {ends[0].name!r} and {ends[1].name!r} hold different fluids; the "
+            f"{what} assumes the same fluid on both sides",
+        )
+        return None
+    return f1, f2
+
+
 def _choice(rd: Reader, value: Any, path: str, choices: Sequence[str]) -> str | None:
     from ..errors import closest
 
@@ -181,6 +197,13 @@ def cavity_pair_clf(eta_12: Array, eta_21: Array, n_1: Array, n_2: Array) -> Arr
     so the connection states the geometric mean ``sqrt(eta_12 eta_21 n_2 / n_1)``: the same
     model results whichever cavity is named first, and each physical value is recovered
     when the cavities' ``n/V`` are equal.
+
+    References
+    ----------
+    .. [1] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of Statistical Energy
+       Analysis, 2nd ed., Butterworth-Heinemann (consistency relation n_1 eta_12 = n_2 eta_21;
+       room-to-room coupling through a wall; from memory). The geometric mean is this
+       project's choice to make the stated direction irrelevant.
     """
     return np.asarray(np.sqrt(eta_12 * eta_21 * n_2 / n_1), dtype=float)
 
@@ -539,15 +562,10 @@ def _read_nonresonant(
                 )
             },
         )
-    f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
-    assert f1 is not None and f2 is not None
-    if not _same_fluid(f1, f2):
-        rd.error(
-            _join(path, "between"),
-            f"cavities {ends[0].name!r} and {ends[1].name!r} hold different fluids; the "
-            "non-resonant path model assumes the same fluid on both sides",
-        )
+    fluids = _shared_fluid(rd, path, ends, "non-resonant path model")
+    if fluids is None:
         return None
+    f1, f2 = fluids
     v1, v2 = _volume(ends[0]), _volume(ends[1])
     assert v1 is not None and v2 is not None and rd.bands is not None
     eta = cavity_pair_clf(
@@ -1035,15 +1053,10 @@ def _read_leak(
         ok = False
     if not ok or area is None or holes is None or depth is None:
         return None
-    f1, f2 = fluid_of(ends[0]), fluid_of(ends[1])
-    assert f1 is not None and f2 is not None
-    if not _same_fluid(f1, f2):
-        rd.error(
-            _join(path, "between"),
-            f"cavities {ends[0].name!r} and {ends[1].name!r} hold different fluids; the "
-            "leak model assumes the same fluid on both sides",
-        )
+    fluids = _shared_fluid(rd, path, ends, "leak model")
+    if fluids is None:
         return None
+    f1, f2 = fluids
     assert rd.bands is not None
     f = np.asarray(rd.bands.centre, dtype=float)
     rho, c = f1

@@ -103,15 +103,17 @@ def two_room_model(
 ) -> Any:
     """The room-panel-room :class:`seatool.model.Model` of the panel (read from data).
 
-    Room damping ``eta = 6 ln(10)/(pi f T)`` per band (decay of a loss factor); rooms are
+    The laboratory arrangement of ISO 10140-2 (two diffuse rooms, the panel between them)
+    as an SEA model: room damping from the reverberation time through the model file's
+    ``reverberation_time`` damping form (eta = 2.2/(f T), common practice); rooms are
     shoeboxes of side ratios 0.8 : 1 : 1.25 for the modal density's surface and edge
-    terms; the panel keeps the loss factor of ``spec``.
+    terms; the panel keeps the loss factor of ``spec``. References: ISO 10140-2:2021
+    (sound reduction index from the level difference, TL = L1 - L2 + 10 lg(S/A2));
+    Crocker & Price (1969), "Sound transmission using statistical energy analysis",
+    JSV 9(3), 469-486 (the three-subsystem model; from memory).
     """
     from .. import modelfile
 
-    f = bands.centre
-    eta_room = 6.0 * np.log(10.0) / (np.pi * f * reverberation_time)
-    band_hz = [float(x) for x in bands.nominal]
     rooms = {}
     for name, v in zip(("source_room", "receiving_room"), volumes, strict=True):
         side = v ** (1.0 / 3.0)
@@ -119,7 +121,7 @@ def two_room_model(
             "kind": "acoustic_cavity",
             "fluid": "panel_fluid",
             "dimensions": [side * r for r in _ROOM_RATIOS],
-            "damping": {"band_hz": band_hz, "values": [float(x) for x in eta_room]},
+            "damping": {"reverberation_time": reverberation_time},
         }
     mat = spec.material
     data = {
