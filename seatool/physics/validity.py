@@ -3,8 +3,9 @@
 The thresholds used here are rules of thumb. Where a source is known it is cited; the
 rest is marked *common practice*. The spread estimate is the ensemble relative variance
 of the energy of a randomly perturbed (GOE) subsystem under point excitation after
-Langley & Brown (2004), quoted from memory and checked in the tests against a Monte Carlo
-simulation with GOE natural frequencies.
+Langley & Brown (2004), checked in the tests against a Monte Carlo simulation with GOE
+natural frequencies; the band-averaged and built-up forms are in
+:mod:`seatool.physics.variance`.
 """
 
 from __future__ import annotations
@@ -13,6 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
+from scipy import special
 
 from seatool.physics.structural import _positive
 
@@ -137,46 +139,74 @@ def modal_overlap(
 def relative_variance_goe(
     modal_overlap: npt.ArrayLike, *, alpha: npt.ArrayLike = 3.0
 ) -> FloatArray:
-    """Relative variance of the energy of a random subsystem under a point force.
+    """Relative variance of the single-frequency energy of a random (GOE) subsystem.
 
     Parameters
     ----------
     modal_overlap : float or array_like
         Modal overlap factor m [-], > 0.
     alpha : float or array_like, optional
-        alpha = E[phi^4] / E[phi^2]^2 of the mode shapes at the drive point: 3 for
-        Gaussian mode shapes (default), 9/4 for sin x sin plate modes, 3/2 for sine beam
-        modes.
+        alpha = E[a^2] / E[a]^2 of the modal excitation coefficients a_j [-]: 3 for a
+        point force on Gaussian mode shapes (default), 9/4 for sin x sin plate modes,
+        3/2 for sine beam modes, 1 + 2/P for P uncorrelated point forces, 1 for
+        rain-on-the-roof excitation.
 
     Returns
     -------
     numpy.ndarray
-        r^2 = Var[E] / E[E]^2 = (1 / (pi m)) [alpha - 1 + (1 - exp(-2 pi m)) / (2 pi m)].
+        r^2 = Var[E] / E[E]^2 [-].
 
     Notes
     -----
-    Single-frequency (pure tone) response, natural frequencies with GOE statistics.
-    Large overlap: r^2 -> (alpha - 1) / (pi m). Averaging over a frequency band or
-    over several drive points lowers the variance; this value is then an upper bound.
-    The formula is quoted from memory; the tests check it against a Monte Carlo
-    simulation (GOE eigenvalues from the tridiagonal model of Dumitriu & Edelman 2002,
-    Gaussian mode shapes) to within the sampling error.
+    Natural frequencies with the statistics of the Gaussian orthogonal ensemble, light
+    damping, energy at one frequency (Langley & Brown 2004, the GOE result):
+
+        r^2 = (1 / (pi m)) [alpha - 1 + (1 - exp(-2 pi m)) / (2 pi m)
+                            + E_1(pi m) (cosh(pi m) - sinh(pi m) / (pi m))]
+
+    with E_1 the exponential integral. It equals
+    ``alpha / (pi m) - 2 int_0^inf b(k) exp(-2 pi m k) dk`` with b the GOE two-level form
+    factor (:func:`seatool.physics.variance.goe_form_factor`); without the E_1 term it
+    would be the result for the unitary ensemble (b = 1 - |k|). Large overlap:
+    r^2 -> (alpha - 1) / (pi m) + 1 / (pi m)^2. Averaging over a band lowers the
+    variance (:func:`seatool.physics.variance.relative_variance_band`). The tests check
+    the formula against a Monte Carlo simulation (GOE eigenvalues from the tridiagonal
+    model of Dumitriu & Edelman 2002, random mode shapes) to within a few percent.
 
     References
     ----------
     .. [1] Langley, R.S., Brown, A.W.M. (2004). The ensemble statistics of the energy of
        a random system subjected to harmonic excitation. J. Sound Vib. 275, 823-846
-       (from memory).
-    .. [2] Dumitriu, I., Edelman, A. (2002). Matrix models for beta ensembles. J. Math.
+       (GOE result for point and rain-on-the-roof loading; volume and pages from memory).
+    .. [2] Langley, R.S., Cotoni, V. (2004). Response variance prediction in the
+       statistical energy analysis of built-up systems. J. Acoust. Soc. Am. 115(2),
+       706-718 (the same formula, used per subsystem).
+    .. [3] Dumitriu, I., Edelman, A. (2002). Matrix models for beta ensembles. J. Math.
        Phys. 43(11), 5830-5847 (used in the tests).
     """
     m = _positive("modal_overlap", modal_overlap)
     a = np.asarray(alpha, dtype=np.float64)
-    if np.any(a < 1.0):
-        msg = "alpha must be >= 1"
+    if np.any(a < 1.0) or not np.all(np.isfinite(a)):
+        msg = "alpha must be finite and >= 1"
         raise ValueError(msg)
-    x = 2.0 * np.pi * m
-    return np.asarray((a - 1.0 + (-np.expm1(-x)) / x) / (np.pi * m), dtype=np.float64)
+    x = np.pi * m
+    return np.asarray(
+        (a - 1.0 + (-np.expm1(-2.0 * x)) / (2.0 * x) + _e1_hyperbolic(x)) / x,
+        dtype=np.float64,
+    )
+
+
+def _e1_hyperbolic(x: FloatArray) -> FloatArray:
+    """E_1(x) (cosh x - sinh x / x) for x > 0 without overflow (Abramowitz & Stegun
+    1964, 5.1.51 asymptotic series of e^x E_1(x) above x = 500)."""
+    xs = np.minimum(x, 500.0)
+    ex_e1 = np.where(
+        x <= 500.0,
+        special.exp1(xs) * np.exp(xs),
+        (1.0 - 1.0 / x + 2.0 / x**2 - 6.0 / x**3 + 24.0 / x**4) / x,
+    )
+    em2 = np.exp(-2.0 * x)
+    return np.asarray(ex_e1 * (0.5 * (1.0 + em2) - 0.5 * (1.0 - em2) / x), dtype=np.float64)
 
 
 def level_spread_db(relative_variance: npt.ArrayLike) -> FloatArray:
