@@ -13,9 +13,10 @@ from pathlib import Path
 
 import numpy as np
 
+from .analysis.confidence import table_with_confidence
 from .errors import InputError, Problem, closest
 from .model import Model
-from .results import CAUTION
+from .results import CAUTION, write_text_atomic
 
 __all__ = ["main"]
 
@@ -38,7 +39,11 @@ class Command:
 
 
 #: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
-COMMAND_MODULES: list[str] = ["seatool.panel", "seatool.analysis.commands"]
+COMMAND_MODULES: list[str] = [
+    "seatool.panel",
+    "seatool.analysis.commands",
+    "seatool.analysis.measured_command",
+]
 
 
 def _commands() -> dict[str, Command]:
@@ -151,7 +156,8 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         )
     if csv_path is not None:
         try:
-            result.to_csv(csv_path)
+            table = table_with_confidence(model, result)
+            write_text_atomic(csv_path, table.to_csv(index=False, float_format="%.10g"))
         except OSError as exc:
             raise InputError(
                 [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]

@@ -149,3 +149,17 @@ def test_confidence_table_of_a_model() -> None:
     assert wide["receiving_room"] > wide["source_room"]
     assert "Verify by measurement" in df.attrs["caution"]
     assert column_name(0.05) == "level_p05_dB" and column_name(0.975) == "level_p97_5_dB"
+
+
+def test_solve_csv_has_confidence_columns(tmp_path: Path) -> None:
+    import pandas as pd
+
+    from seatool.cli import main
+
+    out = tmp_path / "r.csv"
+    assert main(["solve", str(MODELS / "two_rooms.toml"), "--csv", str(out)]) == 0
+    df = pd.read_csv(out)
+    assert {"level_p05_dB", "level_p50_dB", "level_p95_dB", "relative_variance"} <= set(df)
+    assert np.all(df["level_p05_dB"] <= df["level_dB"]) and np.all(
+        df["level_dB"] <= df["level_p95_dB"]
+    )

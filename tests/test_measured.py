@@ -199,3 +199,55 @@ def test_bad_input() -> None:
     ):
         with pytest.raises(ValueError, match=word):
             call()
+
+
+def _write_measurements(path: Path) -> Model:
+    model = seatool.load(MODELS / "two_rooms.toml")
+    energy = _experiments(model)
+    lines = ["band_hz,driven,input_W,subsystem,energy_J"]
+    for j, fc in enumerate(model.bands.centre):
+        for k, driven in enumerate(model.names):
+            for i, sub in enumerate(model.names):
+                lines.append(f"{float(fc)!r},{driven},1.0,{sub},{float(energy[i, k, j])!r}")
+    path.write_text("\n".join(lines) + "\n")
+    return model
+
+
+def test_command_writes_estimates(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    from seatool.cli import main
+
+    data = tmp_path / "measured.csv"
+    model = _write_measurements(data)
+    out, table = tmp_path / "lf.toml", tmp_path / "lf.csv"
+    assert main(["loss-factors", str(data), "--toml", str(out), "--csv", str(table)]) == 0
+    text = out.read_text()
+    assert "[connections.pane__receiving_room]" in text and 'kind = "given"' in text
+    import pandas as pd
+
+    df = pd.read_csv(table)
+    damp = df[(df["quantity"] == "damping") & (df["subsystem"] == "pane")]
+    np.testing.assert_allclose(damp["loss_factor"], assemble(model).damping[1], rtol=1e-8)
+    assert "power injection" in capsys.readouterr().out
+
+
+@pytest.mark.parametrize(
+    ("content", "word"),
+    [
+        ("band_hz,driven,subsystem\n500,a,a\n", "missing column"),
+        ("band_hz,driven,input_W,subsystem,energy_J\n500,a,1,a,-1\n", "energy_J"),
+        ("band_hz,driven,input_W,subsystem,energy_J\n500,a,1,a,1\n500,a,1,b,1\n", "driven"),
+        (
+            "band_hz,driven,input_W,subsystem,energy_J\n500,a,1,a,1\n500,b,1,b,1\n500,a,1,b,1\n",
+            "no energy",
+        ),
+    ],
+)
+def test_command_bad_input(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str], content: str, word: str
+) -> None:
+    from seatool.cli import main
+
+    data = tmp_path / "m.csv"
+    data.write_text(content)
+    assert main(["loss-factors", str(data)]) == 2
+    assert word in capsys.readouterr().err

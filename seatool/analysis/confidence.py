@@ -267,3 +267,16 @@ def _level_std(r2: Array, distribution: str) -> Array:
     else:
         var = np.log1p(safe)
     return np.asarray(np.where(pos, c * np.sqrt(var), 0.0), dtype=float)
+
+
+def table_with_confidence(model: Model, result: Result) -> pd.DataFrame:
+    """:meth:`seatool.results.Result.table` with the confidence columns added:
+    ``relative_variance, level_std_dB, level_p05_dB, level_p50_dB, level_p95_dB``
+    (:func:`confidence_bands`; NaN for sinks)."""
+    base = result.table()
+    conf = confidence_bands(model, result)
+    keep = ["subsystem", "band_hz", "relative_variance", "level_std_dB"]
+    keep += [c for c in conf.columns if c.startswith("level_p")]
+    out = base.merge(conf[keep], on=["subsystem", "band_hz"], how="left")
+    out.attrs["caution"] = CAUTION
+    return out
