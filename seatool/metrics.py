@@ -210,9 +210,11 @@ def octave_levels(
         grad[..., k, members] = share
         if members.size < 3:
             present = [float(v) for v in bands.nominal[members]]
+            absent_x = [v for v in (3 * xo - 1, 3 * xo, 3 * xo + 1) if v not in x]
+            absent = [float(BandAxis("third-octave", np.array([v])).nominal[0]) for v in absent_x]
             notes.append(
-                f"octave {oct_axis.label(k)}: only the 1/3-octave band(s) {_labels(present)} "
-                "are in the model; the octave level sums those (a lower bound)"
+                f"octave {oct_axis.label(k)}: its 1/3-octave band(s) {_labels(absent)} are "
+                f"outside the model; the octave level sums {_labels(present)} only (a lower bound)"
             )
     return np.array(oct_axis.nominal), out, grad, tuple(notes)
 
