@@ -163,7 +163,7 @@ def weighted_level(
     else:
         raise ValueError(f"weighting must be 'Z', 'A' or 'C', got {weighting!r}")
     value, share = _energy_sum(lv + w)
-    note = f"{name}: energetic sum over the model's bands {_band_range(bands)} only"
+    note = f"overall levels (dB, dB(A), dB(C)): energetic sum over the model's bands {_band_range(bands)} only"
     return MetricValue(name, value, share, unit, _WEIGHTING_SOURCE, (note,))
 
 
