@@ -318,7 +318,7 @@ def zwicker_loudness(
     References
     ----------
     ISO 532-1:2017, Acoustics - Methods for calculating loudness - Part 1: Zwicker method,
-    clause 5 and Annex A (tables A.1-A.7 as keyed in from Zwicker et al. 1991).
+    clause 5 and Annex A (its tables, keyed in from the listing of Zwicker et al. 1991).
     Zwicker, E. et al. (1991). Program for calculating loudness according to DIN 45631
     (ISO 532B). J. Acoust. Soc. Jpn. (E) 12(1), 39-42.
     """
