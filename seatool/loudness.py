@@ -23,7 +23,9 @@ levels from 25 Hz to 12.5 kHz and
    rate up to 24 Bark (band edges ``_ZUP``) to the total loudness N [sone].
 
 The tables below are those of ISO 532-1:2017, Annex A (the same values as the program of
-Zwicker et al. 1991). Numbers in this module are keyed in from that program listing.
+Zwicker et al. 1991). The numbers follow that program listing (keyed in from memory of it;
+the tests compare the whole procedure with an independent implementation and the published
+example).
 
 This module also returns the derivative dN/dL of the total loudness with respect to each
 band level, by forward-mode differentiation of the same steps with the discrete choices

@@ -214,7 +214,7 @@ def octave_levels(
             absent = [float(BandAxis("third-octave", np.array([v])).nominal[0]) for v in absent_x]
             notes.append(
                 f"octave {oct_axis.label(k)}: its 1/3-octave band(s) {_labels(absent)} are "
-                f"outside the model; the octave level sums {_labels(present)} only (a lower bound)"
+                f"outside the model, so the octave level sums {_labels(present)} only (a lower bound)"
             )
     return np.array(oct_axis.nominal), out, grad, tuple(notes)
 
@@ -304,7 +304,7 @@ def _loudness_input(
     if miss:
         notes.append(
             f"loudness: 1/3-octave band(s) {_labels(miss)} are outside the model's bands "
-            f"{_band_range(bands)}; treated as silent (below the threshold of hearing), so "
+            f"{_band_range(bands)} and treated as silent (below the threshold of hearing), so "
             "the loudness is a lower bound"
         )
     outside = (bands.indices < want[0]) | (bands.indices > want[-1])
@@ -317,7 +317,7 @@ def _loudness_input(
     if low.size and np.any(low > LOW_FREQUENCY_LIMIT_DB):
         notes.append(
             "loudness: a band level at or below 250 Hz exceeds 120 dB, beyond the tables of "
-            "ISO 532-1; the highest level range was used"
+            "ISO 532-1, so the highest level range was used"
         )
     return full, have, pos[have], notes
 

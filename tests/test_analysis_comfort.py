@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import numpy as np
+import pandas as pd
 import pytest
 
 import seatool
@@ -111,3 +112,38 @@ def test_bad_names_are_input_errors():
         receiver_metric(result, "receiving_room", "dBa")
     with pytest.raises(InputError, match="'free' or 'diffuse'"):
         receiver_metrics(result, field="reverberant")
+
+
+def test_solve_prints_the_metrics_and_writes_their_csv(tmp_path, capsys):
+    from seatool.cli import main
+
+    out = tmp_path / "comfort.csv"
+    model = str(MODELS / "two_rooms.toml")
+    assert main(["solve", model, "--metrics-csv", str(out)]) == 0
+    text = capsys.readouterr().out
+    assert "what the occupants hear (loudness for a diffuse field)" in text
+    assert "receiving_room" in text.split("what the occupants hear")[1]
+    assert "so the loudness is a lower bound" in text
+    assert text.rstrip().endswith(CAUTION)
+    table = pd.read_csv(out)
+    expect = receiver_metrics(seatool.run(seatool.load(model)))
+    assert list(table.columns) == list(expect.columns)
+    np.testing.assert_allclose(table["loudness_sone"], expect["loudness_sone"], rtol=1e-9)
+    # --show without a cavity prints no metrics block; the CSV still has every cavity.
+    assert main(["solve", model, "--show", "pane", "--metrics-csv", str(out)]) == 0
+    assert "what the occupants hear" not in capsys.readouterr().out
+    assert len(pd.read_csv(out)) == 2
+    # The free field is a choice.
+    assert main(["solve", model, "--field", "free"]) == 0
+    assert "loudness for a free field" in capsys.readouterr().out
+
+
+def test_solve_metrics_csv_bad_folder_is_exit_2(tmp_path, capsys):
+    from seatool.cli import main
+
+    target = tmp_path / "missing" / "m.csv"
+    assert main(["solve", str(MODELS / "two_rooms.toml"), "--metrics-csv", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert "--metrics-csv" in err
+    assert "does not exist" in err
+    assert not target.exists()

@@ -27,7 +27,7 @@ from ..loudness import Field
 from ..metrics import METRICS, MetricValue
 from ..results import CAUTION, Result
 
-__all__ = ["COLUMNS", "receiver_metric", "receiver_metrics", "receivers"]
+__all__ = ["COLUMNS", "receiver_metric", "receiver_metrics", "receivers", "render"]
 
 #: Output column of each metric in :func:`receiver_metrics`, by metric name.
 COLUMNS: dict[str, str] = {
@@ -156,3 +156,39 @@ def receiver_metrics(
     out.attrs["references"] = refs
     out.attrs["caution"] = CAUTION
     return out
+
+
+_HEADINGS = {
+    "overall_dB": "dB",
+    "overall_dBA": "dB(A)",
+    "overall_dBC": "dB(C)",
+    "SIL_dB": "SIL dB",
+    "loudness_sone": "sone",
+    "loudness_level_phon": "phon",
+}
+
+
+def render(table: pd.DataFrame, *, digits: int = 1) -> str:
+    """Text block of a :func:`receiver_metrics` table: one line per cavity, then the notes
+    and the sources (the caller shows the caution once with the levels)."""
+    if table.empty:
+        return ""
+    field = str(table["field"].iloc[0])
+    head = ["cavity", *_HEADINGS.values()]
+    rows = []
+    for r in table.itertuples(index=False):
+        cells = [str(r.subsystem)]
+        for column in _HEADINGS:
+            v = float(getattr(r, column))
+            d = digits + 1 if column == "loudness_sone" else digits
+            cells.append(f"{v:.{d}f}" if np.isfinite(v) else "-")
+        rows.append(cells)
+    widths = [max(len(x[k]) for x in [head, *rows]) for k in range(len(head))]
+    fmt = "  ".join(f"{{:>{w}}}" if k else f"{{:<{w}}}" for k, w in enumerate(widths))
+    out = [f"what the occupants hear (loudness for a {field} field)", fmt.format(*head)]
+    out.append(fmt.format(*["-" * w for w in widths]))
+    out.extend(fmt.format(*x) for x in rows)
+    out.append("levels re 20 uPa; dB(A), dB(C): IEC 61672-1; SIL: ISO 9921; sone, phon: ISO 532-1")
+    notes = str(table["notes"].iloc[0])
+    out.extend(f"note: {n}" for n in notes.split("; ") if n)
+    return "\n".join(out)
