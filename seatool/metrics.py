@@ -26,6 +26,7 @@ import numpy as np
 import numpy.typing as npt
 
 from .bands import BandAxis, a_weighting, c_weighting
+from .levels import db
 from .loudness import (
     LOUDNESS_BANDS_HZ,
     LOW_FREQUENCY_LIMIT_DB,
@@ -108,7 +109,7 @@ def _energy_sum(levels: Array, axis: int = -1) -> tuple[Array, Array]:
         e = 10.0 ** ((levels - top) / 10.0)
         total = np.sum(e, axis=axis, keepdims=True)
         share = np.divide(e, total, out=np.zeros_like(e), where=total > 0)
-        level = 10.0 * np.log10(total) + top
+        level = db(total) + top
     return np.squeeze(level, axis=axis), share
 
 
