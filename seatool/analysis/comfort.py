@@ -27,7 +27,14 @@ from ..loudness import Field
 from ..metrics import METRICS, MetricValue
 from ..results import CAUTION, Result
 
-__all__ = ["COLUMNS", "receiver_metric", "receiver_metrics", "receivers", "render"]
+__all__ = [
+    "COLUMNS",
+    "metric_sensitivities",
+    "receiver_metric",
+    "receiver_metrics",
+    "receivers",
+    "render",
+]
 
 #: Output column of each metric in :func:`receiver_metrics`, by metric name.
 COLUMNS: dict[str, str] = {
@@ -192,3 +199,69 @@ def render(table: pd.DataFrame, *, digits: int = 1) -> str:
     notes = str(table["notes"].iloc[0])
     out.extend(f"note: {n}" for n in notes.split("; ") if n)
     return "\n".join(out)
+
+
+def metric_sensitivities(
+    result: Result, sensitivities: pd.DataFrame, metric: str, *, field: str = "diffuse"
+) -> pd.DataFrame:
+    """Sensitivity of a metric of each receiver to each parameter, by the chain rule.
+
+    Parameters
+    ----------
+    result : Result
+        The solved model the sensitivities belong to.
+    sensitivities : pandas.DataFrame
+        Per-band level sensitivities of cavities, as returned by
+        :func:`seatool.analysis.sensitivity.sensitivities` or
+        :func:`~seatool.analysis.sensitivity.parameter_sensitivities` (columns
+        ``receiver, parameter, kind, target, band_exact_hz, dL_dlnx_dB``).
+    metric : str
+        A key of :data:`seatool.metrics.METRICS`.
+    field : {'diffuse', 'free'}
+        Sound field of the loudness.
+
+    Returns
+    -------
+    pandas.DataFrame
+        One row per receiver and parameter: ``receiver, parameter, kind, target, metric,
+        value, unit, dM_dlnx`` (change of the metric per unit change of ln x) and
+        ``dM_per_percent`` (linearised change for a 1 % increase of x).
+
+    Notes
+    -----
+    dM/d ln x = sum_k (dM/dL_k)(dL_k/d ln x), with dM/dL_k the metric's gradient
+    (:mod:`seatool.metrics`) and dL_k/d ln x the band-level sensitivity (adjoint method).
+    Bands where the metric's gradient is zero do not contribute, whatever their level
+    sensitivity (e.g. a silent band).
+    """
+    bands = result.model.bands
+    cache: dict[str, MetricValue] = {}
+    rows = []
+    for (rec, par), grp in sensitivities.groupby(["receiver", "parameter"], sort=False):
+        rec = str(rec)
+        if rec not in cache:
+            cache[rec] = receiver_metric(result, rec, metric, field=field)
+        m = cache[rec]
+        pos = np.searchsorted(bands.centre, grp["band_exact_hz"].to_numpy(dtype=float))
+        pos = np.clip(pos, 0, len(bands) - 1)
+        dl = np.full(len(bands), np.nan)
+        dl[pos] = grp["dL_dlnx_dB"].to_numpy(dtype=float)
+        w = np.asarray(m.gradient, dtype=float)
+        with np.errstate(invalid="ignore"):
+            d = float(np.sum(np.where(w != 0.0, w * dl, 0.0)))
+        first = grp.iloc[0]
+        rows.append(
+            (rec, par, first["kind"], first["target"], metric, float(m.value), m.unit, d, d / 100.0)
+        )
+    columns = [
+        "receiver",
+        "parameter",
+        "kind",
+        "target",
+        "metric",
+        "value",
+        "unit",
+        "dM_dlnx",
+        "dM_per_percent",
+    ]
+    return pd.DataFrame(rows, columns=columns)
