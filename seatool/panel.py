@@ -42,7 +42,7 @@ import pandas as pd
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
 from .materials import Fluid, Material, load_fluids, load_materials
-from .physics import structural as st
+from .physics import plates
 from .physics import validity as pv
 
 __all__ = [
@@ -98,15 +98,15 @@ class PanelSpec:
 
     @property
     def bending_stiffness(self) -> float:
-        """D [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
+        """D [N m] (:func:`seatool.physics.plates.bending_stiffness`)."""
         m = self.material
-        return float(st.bending_stiffness(m.youngs_modulus, self.thickness, m.poisson_ratio))
+        return float(plates.bending_stiffness(m.youngs_modulus, self.thickness, m.poisson_ratio))
 
     @property
     def critical_frequency(self) -> float:
         """Coincidence frequency in the fluid [Hz]."""
         return float(
-            st.critical_frequency(
+            plates.critical_frequency(
                 self.bending_stiffness, self.mass_per_area, self.fluid.sound_speed
             )
         )
@@ -119,8 +119,8 @@ PanelArgument = Callable[[argparse.ArgumentParser], None]
 def _basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:
     f = bands.centre
     d, m = spec.bending_stiffness, spec.mass_per_area
-    n = st.plate_bending_modal_density(f, spec.area, d, m)
-    k = st.plate_bending_wavenumber(f, d, m)
+    n = plates.plate_bending_modal_density(f, spec.area, d, m)
+    k = plates.plate_bending_wavenumber(f, d, m)
     return {
         "critical_frequency_hz": np.full(f.shape, spec.critical_frequency),
         "modal_density_per_hz": n,
