@@ -200,5 +200,5 @@ def air_at(temperature_C: float = 20.0, pressure_Pa: float = 101325.0) -> Fluid:
         name=f"air ({temperature_C:g} C, {pressure_Pa:g} Pa)",
         density=rho,
         sound_speed=c,
-        source="ideal gas, dry air (seatool.physics.acoustic)",
+        source="ideal gas, dry air (seatool.physics.air)",
     )

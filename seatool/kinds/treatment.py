@@ -50,6 +50,7 @@ from seatool.materials import load_materials
 from seatool.modelfile import DAMPING_FORMS, DEFAULT_FLUID, Reader
 from seatool.physics import air_absorption, damping_layers, porous, tmm, tmm_transmission
 from seatool.physics import damping as dmp
+from seatool.physics.air import AIR_DENSITY, AIR_SOUND_SPEED
 from seatool.physics.damping_layers import ModulusTable
 from seatool.treatments import Treatment, load_treatments
 
@@ -650,7 +651,7 @@ def _read_surfaces_form(
 
 
 def lining_absorption(
-    f: Array, layers: Sequence[TrimLayer], *, rho0: float = 1.204, c0: float = 343.2
+    f: Array, layers: Sequence[TrimLayer], *, rho0: float = AIR_DENSITY, c0: float = AIR_SOUND_SPEED
 ) -> Array:
     """Diffuse-field absorption coefficient of a rigid-backed lining at band centres.
 

@@ -10,6 +10,8 @@ from seatool.physics import acoustic as ac
 from seatool.physics import air
 
 C0 = 343.0
+
+
 BOX = (2.0, 1.5, 1.0)
 
 
@@ -109,26 +111,6 @@ def test_duct_cut_on_circular_vs_bessel_root() -> None:
     x11 = optimize.brentq(lambda x: special.jvp(1, x), 1.0, 3.0, xtol=1e-12)
     d = 0.1
     assert ac.duct_cut_on_frequency_circular(d, C0) == pytest.approx(x11 * C0 / (np.pi * d), rel=1e-5)
-
-
-def test_air_properties_us_standard_atmosphere_sea_level() -> None:
-    # U.S. Standard Atmosphere 1976, sea level: T = 15 C, p = 101325 Pa,
-    # rho = 1.2250 kg/m^3, c = 340.294 m/s (from memory)
-    assert air.air_density(15.0, 101325.0) == pytest.approx(1.2250, rel=3e-4)
-    assert air.air_sound_speed(15.0) == pytest.approx(340.294, rel=2e-4)
-
-
-def test_air_sound_speed_iso_9613_reference_and_linear_rule() -> None:
-    # ISO 9613-1: c = 343.2 sqrt(T / 293.15 K) (from memory); textbook rule
-    # c = 331.3 + 0.606 t (PHYSICS.md sec. 0, from memory)
-    t = np.array([-10.0, 0.0, 20.0, 35.0])
-    c = air.air_sound_speed(t)
-    np.testing.assert_allclose(c, 343.2 * np.sqrt((t + 273.15) / 293.15), rtol=3e-4)
-    np.testing.assert_allclose(c, 331.3 + 0.606 * t, rtol=2e-3)
-
-
-def test_air_density_scales_with_pressure() -> None:
-    assert air.air_density(20.0, 2 * 101325.0) == pytest.approx(2 * air.air_density(20.0))
 
 
 def test_characteristic_impedance_of_air() -> None:

@@ -18,7 +18,11 @@ from seatool.physics import radiation as rad
 from seatool.physics import radiation_curved, radiation_modal
 
 C0 = 343.0
+
+
 E_STEEL, RHO_STEEL, NU_STEEL = 210e9, 7850.0, 0.3
+
+
 G10 = 10.0**0.3  # base-10 octave ratio, IEC 61260-1
 
 
@@ -45,97 +49,6 @@ def resonant_modes(a: float, b: float, h: float, f_lo: float, f_hi: float):
     jj = np.broadcast_to(j, f.shape)[sel]
     return list(zip(ii.tolist(), jj.tolist(), f[sel].tolist(), strict=True))
 
-
-def freq_for_ka(ka: float, a: float) -> float:
-    return ka * C0 / (2.0 * math.pi * a)
-
-
-# ------------------------------------------------------------------------------------------
-# Wallace (1972) modal radiation efficiency against its published low-frequency asymptotes
-# ------------------------------------------------------------------------------------------
-
-
-def wallace_asymptote(k: float, m: int, n: int, a: float, b: float) -> float:
-    """Wallace (1972) low-frequency asymptotes with first corrections (from memory;
-    PHYSICS.md sec. 4.4, even-even correction coefficient 1/28 as corrected there)."""
-    cm = 1.0 - (8.0 if m % 2 else 24.0) / (m * math.pi) ** 2
-    cn = 1.0 - (8.0 if n % 2 else 24.0) / (n * math.pi) ** 2
-    pre = 1.0 / (math.pi**5 * m**2 * n**2)
-    if m % 2 and n % 2:
-        return 32 * k**2 * a * b * pre * (1 - k**2 * a * b / 12 * (cm * a / b + cn * b / a))
-    if m % 2 and not n % 2:
-        return (8 * k**4 * a * b**3 / 3 * pre
-                * (1 - k**2 * a * b / 20 * (cm * a / b + cn * b / a)))
-    if n % 2 and not m % 2:
-        return (8 * k**4 * a**3 * b / 3 * pre
-                * (1 - k**2 * a * b / 20 * (cm * a / b + cn * b / a)))
-    return 2 * k**6 * a**3 * b**3 / 15 * pre * (1 - k**2 * a * b / 28 * (cm * a / b + cn * b / a))
-
-
-@pytest.mark.parametrize(
-    ("m", "n", "a", "b", "ka", "rtol"),
-    [
-        (1, 1, 1.0, 1.0, 0.05, 1e-4),   # odd-odd, Wallace 1972 (from memory)
-        (1, 1, 1.0, 1.0, 0.3, 2e-4),    # first correction term matters here
-        (1, 1, 1.0, 0.6, 0.3, 2e-4),
-        (3, 1, 1.0, 0.7, 0.2, 1e-3),
-        (1, 2, 1.0, 1.0, 0.1, 1e-3),    # odd-even
-        (2, 1, 1.2, 0.8, 0.1, 1e-3),    # even-odd
-        (2, 2, 1.0, 1.0, 0.1, 1e-3),    # even-even (correction coefficient 1/28)
-    ],
-)
-def test_wallace_low_frequency_asymptotes(m, n, a, b, ka, rtol):
-    f = freq_for_ka(ka, a)
-    k = 2 * math.pi * f / C0
-    got = radiation_modal.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0)
-    assert got == pytest.approx(wallace_asymptote(k, m, n, a, b), rel=rtol)
-
-
-def test_wallace_quadrature_matches_adaptive_scipy_integral():
-    # Independent numerical method: scipy adaptive dblquad on the Vigran (2008) eq. 6.46 form,
-    # at k a = 12 with a mode whose x-wavenumber is supersonic (integrand peak inside).
-    a, b, m, n = 1.0, 0.8, 3, 6
-    f = freq_for_ka(12.0, a)
-    k = 2 * math.pi * f / C0
-
-    def factor(arg: float, q: int) -> float:
-        trig = math.cos if q % 2 else math.sin
-        x = arg / (q * math.pi)
-        if abs(x - 1.0) < 1e-9:
-            return q * math.pi / 4.0
-        return trig(arg / 2.0) / (x * x - 1.0)
-
-    def integrand(theta: float, phi: float) -> float:
-        al = k * a * math.sin(theta) * math.cos(phi)
-        be = k * b * math.sin(theta) * math.sin(phi)
-        return (factor(al, m) * factor(be, n)) ** 2 * math.sin(theta)
-
-    val, _ = integrate.dblquad(integrand, 0.0, math.pi / 2, 0.0, math.pi / 2,
-                               epsabs=0.0, epsrel=1e-9)
-    ref = 64 * k**2 * a * b / (math.pi**6 * m**2 * n**2) * val
-    got = radiation_modal.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0)
-    assert got == pytest.approx(ref, rel=1e-6)
-
-
-def test_wallace_single_mode_tends_to_one_well_above_its_coincidence():
-    # A (1,1) mode at k a >> pi radiates like a piston-ish plane wave: sigma -> 1
-    # (Wallace 1972, Fig. 2 trend; values 1.109/1.027/1.006 at k a = 10/20/40 are [C]).
-    vals = [radiation_modal.modal_radiation_efficiency_wallace(freq_for_ka(ka, 1.0), 1, 1, 1.0, 1.0)
-            for ka in (10.0, 20.0, 40.0)]
-    assert abs(vals[2] - 1.0) < abs(vals[1] - 1.0) < abs(vals[0] - 1.0) < 0.15
-    assert vals[2] == pytest.approx(1.0, abs=0.01)
-
-
-def test_wallace_rejects_bad_input():
-    with pytest.raises(ValueError, match="mode indices"):
-        radiation_modal.modal_radiation_efficiency_wallace(100.0, 0, 1, 1.0, 1.0)
-    with pytest.raises(ValueError, match="a must be"):
-        radiation_modal.modal_radiation_efficiency_wallace(100.0, 1, 1, -1.0, 1.0)
-
-
-# ------------------------------------------------------------------------------------------
-# Leppington band value against the equal-weight average of Wallace modal values
-# ------------------------------------------------------------------------------------------
 
 # deterministic ensemble of simply supported steel panels, a in [1.2, 2.0] m, b in [0.8, 1.2] m
 PANELS = [(1.2 + 0.8 * x, 0.8 + 0.4 * y) for x, y in
@@ -182,10 +95,6 @@ def test_above_coincidence_asymptote_from_modal_average(a, b, f_mid):
     band = rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
     assert band == pytest.approx(asymptote, rel=0.03)
 
-
-# ------------------------------------------------------------------------------------------
-# relations between the published formulas
-# ------------------------------------------------------------------------------------------
 
 F_BANDS = np.array([100.0, 251.19, 501.19, 1000.0, 1995.26, 3981.07, 7943.28])
 
@@ -262,11 +171,6 @@ def test_single_frequency_regression_table():
                                [1.3801e-3, 3.2363e-3, 2.9787e-2, 1.5803], rtol=2e-4)
 
 
-# ------------------------------------------------------------------------------------------
-# band averaging
-# ------------------------------------------------------------------------------------------
-
-
 def test_band_average_equals_adaptive_integral():
     # Independent numerical method: scipy quad of the single-frequency formula over the band.
     fc, a, b = 1500.0, 1.4, 0.9
@@ -302,5 +206,3 @@ def test_input_validation():
         rad.radiation_efficiency_maidanik(100.0, 1.0, 1.0, 1000.0, corner_factor=-1.0)
     with pytest.raises(ValueError, match="radius"):
         radiation_curved.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3)
-
-# curved panels: tests/physics/test_radiation_curved.py
