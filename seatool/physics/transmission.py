@@ -16,7 +16,7 @@ Contents
   :func:`transmission_nonresonant` (EN ISO 12354-1 Annex B forced-radiation route).
 * Sharp's single-panel prediction :func:`transmission_loss_sharp`.
 * Double wall mass-air-mass resonance :func:`mass_air_mass_frequency`.
-* Conversions :func:`transmission_loss` and :func:`transmission_from_loss`.
+* Conversions :func:`loss_from_transmission` and :func:`transmission_from_loss`.
 
 Symbols: ``m_area`` mass per unit area m'' [kg/m^2]; ``f_c`` critical frequency [Hz];
 ``eta`` loss factor [-]; ``rho0, c0`` fluid density [kg/m^3] and speed of sound [m/s].
@@ -39,12 +39,12 @@ from .air import AIR_DENSITY as _RHO0
 from .air import AIR_SOUND_SPEED as _C0
 
 __all__ = [
+    "loss_from_transmission",
     "mass_air_mass_frequency",
     "transmission_cremer",
     "transmission_from_loss",
     "transmission_infinite_panel",
     "transmission_infinite_panel_diffuse",
-    "transmission_loss",
     "transmission_loss_sharp",
     "transmission_nonresonant",
 ]
@@ -52,7 +52,7 @@ __all__ = [
 FloatArray = npt.NDArray[np.float64]
 
 
-def transmission_loss(tau: npt.ArrayLike) -> FloatArray:
+def loss_from_transmission(tau: npt.ArrayLike) -> FloatArray:
     """Sound reduction index / transmission loss ``R = -10 lg(tau)`` [dB].
 
     Parameters

@@ -107,9 +107,9 @@ def test_mass_air_mass_frequency():
 
 
 def test_conversions_and_validation():
-    np.testing.assert_allclose(tr.transmission_from_loss(tr.transmission_loss([0.1, 1e-3])),
+    np.testing.assert_allclose(tr.transmission_from_loss(tr.loss_from_transmission([0.1, 1e-3])),
                                [0.1, 1e-3])
-    assert float(tr.transmission_loss(0.01)) == pytest.approx(20.0)
+    assert float(tr.loss_from_transmission(0.01)) == pytest.approx(20.0)
     with pytest.raises(ValueError, match="m_area"):
         mass_law.transmission_mass_law_normal(100.0, -1.0)
     with pytest.raises(ValueError, match="theta"):
