@@ -16,7 +16,7 @@ import numpy as np
 import numpy.typing as npt
 from scipy import special
 
-from seatool.physics.structural import _positive
+from ._checks import positive as _positive
 
 __all__ = [
     "BandValidity",
