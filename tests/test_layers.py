@@ -64,14 +64,12 @@ PACKAGES = {
 }
 
 #: Function-local imports of seatool modules and loading by name that the rewrite of the
-#: model-file readers (kinds/*, modelfile.py) and the split of the physics modules remove;
-#: nothing may be added here.
+#: model-file readers (kinds/*, modelfile.py) removes; nothing may be added here.
 PENDING = {
     "seatool.modelfile",
     "seatool.kinds.subsystems",
     "seatool.kinds.treatment",
     "seatool.kinds.connections",
-    "seatool.physics.radiation",
 }
 
 #: The one lazy-import mechanism (PEP 562) and where it lives.
@@ -164,7 +162,7 @@ def test_imports_point_down(module):
 @pytest.mark.parametrize("module", sorted(MODS))
 def test_no_function_local_import_of_seatool(module):
     if module in PENDING:
-        pytest.skip("removed by the rewrite of the readers / the physics split")
+        pytest.skip("removed by the rewrite of the readers")
     for node, func in _imports(module):
         if func is None or (module, func) == LAZY:
             continue

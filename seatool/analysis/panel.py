@@ -33,8 +33,7 @@ from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
 from ..modelfile import Reader, build
-from ..physics import radiation
-from ..physics import structural as st
+from ..physics import plates, radiation
 from ..physics import validity as pv
 from ..solve import solve
 
@@ -114,15 +113,15 @@ class PanelSpec:
 
     @property
     def bending_stiffness(self) -> float:
-        """D [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
+        """D [N m] (:func:`seatool.physics.plates.bending_stiffness`)."""
         m = self.material
-        return float(st.bending_stiffness(m.youngs_modulus, self.thickness, m.poisson_ratio))
+        return float(plates.bending_stiffness(m.youngs_modulus, self.thickness, m.poisson_ratio))
 
     @property
     def critical_frequency(self) -> float:
         """Coincidence frequency in the fluid [Hz]."""
         return float(
-            st.critical_frequency(
+            plates.critical_frequency(
                 self.bending_stiffness, self.mass_per_area, self.fluid.sound_speed
             )
         )
@@ -132,8 +131,8 @@ def basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:
     """Coincidence frequency, modal density, modes in band, modal overlap, bending wavelength."""
     f = bands.centre
     d, m = spec.bending_stiffness, spec.mass_per_area
-    n = st.plate_bending_modal_density(f, spec.area, d, m)
-    k = st.plate_bending_wavenumber(f, d, m)
+    n = plates.plate_bending_modal_density(f, spec.area, d, m)
+    k = plates.plate_bending_wavenumber(f, d, m)
     return {
         "critical_frequency_hz": np.full(f.shape, spec.critical_frequency),
         "modal_density_per_hz": n,

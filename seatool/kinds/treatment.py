@@ -14,7 +14,7 @@ a subsystem's *internal* damping loss factor besides a spectrum:
     (:func:`seatool.physics.damping.cavity_loss_factor_from_surfaces`).
 
 ``air_absorption = { temperature, relative_humidity, pressure }`` adds the ISO 9613-1 air
-absorption loss factor (:func:`seatool.physics.damping.air_absorption_loss_factor`).
+absorption loss factor (:func:`seatool.physics.air_absorption.air_absorption_loss_factor`).
 
 ``damping`` is internal damping only. Radiation damping (power radiated into a cavity or
 the exterior) comes from the coupling loss factors of radiation connections; a measured
@@ -47,9 +47,10 @@ import numpy.typing as npt
 from seatool.errors import closest
 from seatool.materials import load_materials
 from seatool.modelfile import DAMPING_FORMS, DEFAULT_FLUID, Reader
+from seatool.physics import air_absorption, damping_layers, porous, tmm, tmm_transmission
 from seatool.physics import damping as dmp
-from seatool.physics import porous, tmm
-from seatool.physics.damping import ModulusTable
+from seatool.physics.air import AIR_DENSITY, AIR_SOUND_SPEED
+from seatool.physics.damping_layers import ModulusTable
 from seatool.treatments import Treatment, load_treatments
 
 if TYPE_CHECKING:
@@ -517,7 +518,7 @@ def _air_absorption(
     if not ok:
         return None
     assert temp is not None and rh is not None and pa is not None
-    return dmp.air_absorption_loss_factor(
+    return air_absorption.air_absorption_loss_factor(
         f, temperature=temp, relative_humidity=rh, pressure=pa, c0=c
     )
 
@@ -649,7 +650,7 @@ def _read_surfaces_form(
 
 
 def lining_absorption(
-    f: Array, layers: Sequence[TrimLayer], *, rho0: float = 1.204, c0: float = 343.2
+    f: Array, layers: Sequence[TrimLayer], *, rho0: float = AIR_DENSITY, c0: float = AIR_SOUND_SPEED
 ) -> Array:
     """Diffuse-field absorption coefficient of a rigid-backed lining at band centres.
 
@@ -945,7 +946,7 @@ def read_plate_treatment(
             h3 = rd.number(ct["thickness"], _join(cp, "thickness"), unit="m")
             if cmat is None or h3 is None:
                 return None
-            res = dmp.constrained_layer_damping(
+            res = damping_layers.constrained_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 h3, float(cmat["youngs_modulus"]), float(cmat["density"]),
                 base_loss_factor=eta1, cover_loss_factor=_prop(cmat, "loss_factor", 0.0),
@@ -957,7 +958,7 @@ def read_plate_treatment(
                 f"{1000 * h3:.3g} mm cover ({vt.density * layer.thickness + m_cover:.3g} kg/m^2)"
             )
         else:
-            res = dmp.free_layer_damping(
+            res = damping_layers.free_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 base_loss_factor=eta1, base_poisson=nu1, layer_poisson=nu2,
             )  # fmt: skip
@@ -1010,7 +1011,9 @@ def read_plate_treatment(
         else:
             rd.error(_join(path, "trim"), "the plate has no mass per area to put the trim on")
             return None
-        res_il = _quiet(tmm.insertion_loss, f, base, _tmm_layers(trim), rho0=rho0, c0=c0)
+        res_il = _quiet(
+            tmm_transmission.insertion_loss, f, base, _tmm_layers(trim), rho0=rho0, c0=c0
+        )
         il = np.asarray(res_il.insertion_loss, dtype=np.float64)
         notes.extend(_validity_notes(trim, f, rho0))
         parts.append(
