@@ -38,6 +38,8 @@ MODULES = {
     "seatool.bands": "model",
     "seatool.errors": "model",
     "seatool.levels": "model",
+    "seatool.loudness": "model",
+    "seatool.metrics": "model",
     "seatool.materials": "model",
     "seatool.model": "model",
     "seatool.kinds": "readers",

@@ -1,5 +1,5 @@
 """Analyses of solved models: the panel table, contributions and paths, sensitivities,
-uncertainty.
+uncertainty, comfort metrics.
 
 These modules only read models and results; they never change a model. Every table
 they return is a tidy pandas DataFrame; the tables of a receiver carry its per-band
@@ -8,8 +8,8 @@ validity indicators (modes in band, modal overlap).
 
 from __future__ import annotations
 
-from . import panel, paths, sensitivity, uncertainty
+from . import comfort, panel, paths, sensitivity, uncertainty
 from ._keypath import read_data
 from ._system import receiver_index
 
-__all__ = ["panel", "paths", "read_data", "receiver_index", "sensitivity", "uncertainty"]
+__all__ = ["comfort", "panel", "paths", "read_data", "receiver_index", "sensitivity", "uncertainty"]

@@ -8,6 +8,7 @@ layer and prints or writes what they return:
 command        module                Python function(s) it calls
 =============  ====================  ===================================================
 solve          :mod:`.model`         :func:`seatool.load`, :func:`seatool.run`,
+                                     :func:`seatool.analysis.comfort.receiver_metrics`,
                                      :func:`seatool.plot_levels`
 check          :mod:`.model`         :func:`seatool.load`, :func:`seatool.model_summary`
 panel          :mod:`.panel`         :func:`seatool.panel_table`

@@ -1,8 +1,8 @@
 """``seatool solve`` and ``seatool check``: parse, call, print.
 
 ``solve`` calls :func:`seatool.load`, :func:`seatool.run` and the :class:`seatool.Result`
-tables (:meth:`~seatool.results.Result.render`, :meth:`~seatool.results.Result.to_csv`,
-:func:`seatool.plot_levels`); ``check`` calls :func:`seatool.model_summary`. They are
+tables (:meth:`~seatool.results.Result.render`, :meth:`~seatool.results.Result.to_csv`),
+:func:`seatool.analysis.comfort.receiver_metrics` and :func:`seatool.plot_levels`; ``check`` calls :func:`seatool.model_summary`. They are
 reached through the lazy package attributes of :mod:`seatool`.
 """
 
@@ -14,7 +14,7 @@ from pathlib import Path
 import seatool
 
 from ..errors import InputError, Problem, closest
-from ._common import EXIT_OK, Command, cannot_write, print_caution
+from ._common import EXIT_OK, Command, cannot_write, output_target, print_caution
 
 __all__ = ["CHECK", "SOLVE"]
 
@@ -36,6 +36,17 @@ def _solve_args(sp: argparse.ArgumentParser) -> None:
         "--balance", action="store_true", help="also print each subsystem's power balance"
     )
     sp.add_argument("--digits", type=int, default=1, help="decimals in the level table (default 1)")
+    sp.add_argument(
+        "--field",
+        choices=["diffuse", "free"],
+        default="diffuse",
+        help="sound field for the loudness of the cavities (default diffuse, as in a cabin)",
+    )
+    sp.add_argument(
+        "--metrics-csv",
+        metavar="FILE",
+        help="write the cavities' dB, dB(A), dB(C), SIL, sone and phon to FILE",
+    )
 
 
 def _names(model: seatool.Model, spec: str | None, file: str) -> list[str] | None:
@@ -61,8 +72,15 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         raise InputError(
             [Problem(str(csv_path), "--csv", f"folder {str(csv_path.parent)!r} does not exist")]
         )
+    metrics_path = output_target(args.metrics_csv, "--metrics-csv")
     result = seatool.run(model)
     print(result.render(names, digits=args.digits, caution=False))
+    comfort = seatool.analysis.comfort
+    comfort_table = comfort.receiver_metrics(result, args.field)
+    shown = comfort_table[comfort_table["subsystem"].isin(names or model.names)]
+    if len(shown):
+        print()
+        print(comfort.render(shown, digits=args.digits))
     if args.balance:
         pb = result.power_balance()
         pb = pb[pb["subsystem"].isin(names or model.names)]
@@ -81,6 +99,14 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         except OSError as exc:
             raise cannot_write(csv_path, "--csv", exc) from None
         print(f"wrote {csv_path}")
+    if metrics_path is not None:
+        try:
+            seatool.results.write_text_atomic(
+                metrics_path, comfort_table.to_csv(index=False, float_format="%.10g")
+            )
+        except OSError as exc:
+            raise cannot_write(metrics_path, "--metrics-csv", exc) from None
+        print(f"wrote {metrics_path}")
     if plot_path is not None:
         try:
             seatool.plot_levels(result, plot_path, names)
