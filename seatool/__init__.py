@@ -15,10 +15,11 @@ Lazy imports
 command line starts fast. Every public name below is imported on first use by the
 module-level :func:`__getattr__` (PEP 562), the package's one lazy-import mechanism:
 ``seatool.run`` imports :mod:`seatool.results` (and with it numpy, scipy.sparse, pandas)
-the first time it is used. The submodules the command line reaches through the package
-(``seatool.analysis``, ``seatool.bands``, ``seatool.materials``, ``seatool.modelfile``,
-``seatool.plot``, ``seatool.results``, ``seatool.treatments``) are imported the same way. ``import seatool.solve``
-or ``from seatool.analysis.paths import contributions`` import modules directly as usual.
+the first time it is used. The submodules ``analysis``, ``bands``, ``errors``, ``levels``,
+``materials``, ``model``, ``modelfile``, ``plot``, ``results``, ``solve`` and ``treatments``
+are reached the same way (``seatool.solve`` is the module; its function is
+``seatool.solve.solve``). ``import seatool.solve`` or
+``from seatool.analysis.paths import contributions`` import modules directly as usual.
 """
 
 from __future__ import annotations
@@ -31,10 +32,14 @@ from ._version import __version__
 if TYPE_CHECKING:  # what __getattr__ returns, for type checkers and readers
     from . import analysis as analysis
     from . import bands as bands
+    from . import errors as errors
+    from . import levels as levels
     from . import materials as materials
+    from . import model as model
     from . import modelfile as modelfile
     from . import plot as plot
     from . import results as results
+    from . import solve as solve
     from . import treatments as treatments
     from .analysis.panel import PanelSpec, panel_table
     from .analysis.paths import connection_powers, contributions, path_ranking, paths
@@ -89,7 +94,7 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.bands as bands
 
         return bands
-    if name == "InputError":
+    if name in ("errors", "InputError"):
         import seatool.errors as errors
 
         return errors
@@ -97,7 +102,11 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.materials as materials
 
         return materials
-    if name in ("Connection", "Excitation", "Model", "Subsystem"):
+    if name == "levels":
+        import seatool.levels as levels
+
+        return levels
+    if name in ("model", "Connection", "Excitation", "Model", "Subsystem"):
         import seatool.model as model
 
         return model
@@ -113,7 +122,7 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.results as results
 
         return results
-    if name == "SolveError":
+    if name in ("solve", "SolveError"):
         import seatool.solve as solve
 
         return solve

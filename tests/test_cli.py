@@ -156,3 +156,18 @@ def test_one_caution_wording_everywhere():
         text = path.read_text()
         assert "do not certify" not in text or path.name == "levels.py", path
         assert "they do not certify" not in text, path
+
+
+def test_every_public_name_resolves():
+    # the lazy package attributes (seatool.__getattr__): every name of __all__ is found,
+    # an unknown one is an AttributeError, and seatool.solve is the module, not a function
+    code = (
+        "import seatool, types\n"
+        "missing = [n for n in seatool.__all__ if getattr(seatool, n, None) is None]\n"
+        "assert not missing, missing\n"
+        "assert isinstance(seatool.solve, types.ModuleType)\n"
+        "assert not hasattr(seatool, 'no_such_name')\n"
+        "print('ok')"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT)
+    assert out.stdout.strip() == "ok", out.stderr
