@@ -306,7 +306,7 @@ def test_material_section_with_base(tmp_path, capsys):
     # the built-in glass with a changed loss factor: damping defaults to it
     assert float(pane.damping[0]) == 0.03
     assert (
-        pane.properties["material"]["density"]
+        pane.props.material.density
         == seatool.materials.load_materials()["glass"].density
     )
     path.write_text(text.replace('base = "glass"', 'base = "glas"'))

@@ -7,7 +7,7 @@ Importing this module appends :func:`coupling_columns` to
 
 The transmission loss is that of a laboratory-like test, computed with the model-file
 machinery: a source room, the panel (``kind = "plate"``) and a receiving room
-(``kind = "acoustic_cavity"``), coupled by ``radiation`` on both faces and the
+(``kind = "cavity"``), coupled by ``radiation`` on both faces and the
 ``nonresonant`` path through the panel (see :mod:`seatool.kinds.connections`), solved by
 :func:`seatool.solve.solve`; then ``TL = L1 - L2 + 10 lg(S/A2)`` (ISO 10140-2 definition of
 the sound reduction index from the level difference) with the receiving room's equivalent
@@ -118,7 +118,7 @@ def two_room_model(
     for name, v in zip(("source_room", "receiving_room"), volumes, strict=True):
         side = v ** (1.0 / 3.0)
         rooms[name] = {
-            "kind": "acoustic_cavity",
+            "kind": "cavity",
             "fluid": "panel_fluid",
             "dimensions": [side * r for r in _ROOM_RATIOS],
             "damping": {"reverberation_time": reverberation_time},
