@@ -27,7 +27,7 @@ import numpy.typing as npt
 import pandas as pd
 
 from .model import Model, Subsystem
-from .physics import structural as st
+from .physics import elastic
 from .physics import validity as pv
 from .properties import DuctProps, PanelProps, has_thin_plate_limit, is_resonator
 from .solve import assemble
@@ -119,7 +119,7 @@ def _limits(s: Subsystem, f: Array) -> tuple[tuple[str, BoolArray, str], ...]:
     if has_thin_plate_limit(s):
         assert isinstance(p, PanelProps)
         mat = p.material
-        c_l = st.plate_longitudinal_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio)
+        c_l = elastic.plate_longitudinal_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio)
         f_max = float(pv.thin_plate_upper_frequency(p.thickness, c_l))
         out.append(
             (

@@ -2,7 +2,7 @@
 point_links.py, leaks.py).
 
 Subsystems are built here in Python with the typed properties of seatool.properties
-(modal densities from seatool.physics.structural / acoustic), so that the connection kinds
+(modal densities from the structural modules of seatool.physics and acoustic), so that the connection kinds
 are checked independently of the subsystem kinds. Each check names its source.
 """
 
@@ -25,7 +25,7 @@ from seatool.kinds.params import Kind, Param
 from seatool.kinds.validate import check
 from seatool.model import Connection, Subsystem
 from seatool.modelfile import CONNECTION_KINDS, SUBSYSTEM_KINDS, Reader
-from seatool.physics import acoustic, mobility, structural
+from seatool.physics import acoustic, beams, elastic, mobility, plates
 from seatool.properties import (
     BeamProps,
     BeamSectionProps,
@@ -60,13 +60,13 @@ def plate(
     treatment: Any = None,
 ) -> Subsystem:
     f = bands.centre
-    d = float(structural.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
+    d = float(plates.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
     m = mat["density"] * h
     props = PanelProps(
         wave_type="bending",
-        wavenumber=structural.plate_bending_wavenumber(f, d, m),
-        phase_speed=structural.plate_bending_phase_speed(f, d, m),
-        group_speed=structural.plate_bending_group_speed(f, d, m),
+        wavenumber=plates.plate_bending_wavenumber(f, d, m),
+        phase_speed=plates.plate_bending_phase_speed(f, d, m),
+        group_speed=plates.plate_bending_group_speed(f, d, m),
         area=lx * ly,
         lx=lx,
         ly=ly,
@@ -76,10 +76,10 @@ def plate(
         material=material(mat),
         fluid=AIR_PROPS,
         bending_stiffness=d,
-        critical_frequency=float(structural.critical_frequency(d, m, AIR[1])),
+        critical_frequency=float(plates.critical_frequency(d, m, AIR[1])),
         treatment=treatment,
     )
-    n = structural.plate_bending_modal_density(f, lx * ly, d, m)
+    n = plates.plate_bending_modal_density(f, lx * ly, d, m)
     return Subsystem(
         name,
         "plate",
@@ -96,11 +96,11 @@ def inplane(p: Subsystem, bands: BandAxis, wave: str) -> Subsystem:
     e, rho, nu = mat.youngs_modulus, mat.density, mat.poisson_ratio
     s = p.props.area
     if wave == "longitudinal":
-        c = float(structural.plate_longitudinal_speed(e, rho, nu))
-        n = structural.plate_inplane_longitudinal_modal_density(bands.centre, s, c)
+        c = float(elastic.plate_longitudinal_speed(e, rho, nu))
+        n = plates.plate_inplane_longitudinal_modal_density(bands.centre, s, c)
     else:
-        c = float(structural.shear_speed(e, rho, nu))
-        n = structural.plate_inplane_shear_modal_density(bands.centre, s, c)
+        c = float(elastic.shear_speed(e, rho, nu))
+        n = plates.plate_inplane_shear_modal_density(bands.centre, s, c)
     props = dataclasses.replace(
         p.props,
         wave_type=wave,
@@ -152,14 +152,14 @@ def beam(name: str, bands: BandAxis, *, length: float = 2.0, b: float = 0.04, hb
     area = b * hb
     i_y = b * hb**3 / 12
     m1 = mat["density"] * area
-    n = structural.beam_bending_modal_density(bands.centre, length, mat["youngs_modulus"], i_y, m1)
+    n = beams.beam_bending_modal_density(bands.centre, length, mat["youngs_modulus"], i_y, m1)
     f = bands.centre
     e = mat["youngs_modulus"]
     props = BeamProps(
         wave_type="bending_y",
-        wavenumber=structural.beam_bending_wavenumber(f, e, i_y, m1),
-        phase_speed=structural.beam_bending_phase_speed(f, e, i_y, m1),
-        group_speed=structural.beam_bending_group_speed(f, e, i_y, m1),
+        wavenumber=beams.beam_bending_wavenumber(f, e, i_y, m1),
+        phase_speed=beams.beam_bending_phase_speed(f, e, i_y, m1),
+        group_speed=beams.beam_bending_group_speed(f, e, i_y, m1),
         length=length,
         mass_per_length=m1,
         material=material(mat),
@@ -380,7 +380,7 @@ def test_line_T_junction_with_inplane_fields_is_reciprocal(bands):
     # Three plates of two materials and thicknesses, each with bending, longitudinal and
     # shear fields: every pair of wave fields gets one connection, and the CLF the wave
     # model gives in the other direction (reader called with the plates in another
-    # order) equals n_i eta_ij / n_j with the modal densities of seatool.physics.structural
+    # order) equals n_i eta_ij / n_j with the modal densities of seatool.physics.plates
     # (k_i tau_ij = k_j tau_ji, Langley & Heron 1990; derived in docs/theory/coupling.md).
     bands = BandAxis.from_range(125, 4000, "octave")
     p1 = plate("p1", bands, h=0.003, lx=1.2, ly=1.0)
@@ -451,7 +451,7 @@ def test_point_identical_plates_against_mode_count():
 def test_point_and_mount_reciprocity_plate_beam(bands):
     # Re Y = pi n(omega)/(2 M) holds for the infinite plate and beam (Cremer, Heckl &
     # Petersson 2005), so the point CLF computed from either side obeys n_1 eta_12 =
-    # n_2 eta_21 with the modal densities of seatool.physics.structural.
+    # n_2 eta_21 with the modal densities of seatool.physics.plates.
     p = plate("deck", bands, h=0.004, lx=2.0, ly=1.0)
     bm = beam("girder", bands)
     subs = {s.name: s for s in (p, bm)}
@@ -782,9 +782,9 @@ def test_line_non_homogeneous_plate_uses_equivalent_plate(bands):
     props = dataclasses.replace(
         b0.props,
         bending_stiffness=d,
-        group_speed=structural.plate_bending_group_speed(bands.centre, d, m),
+        group_speed=plates.plate_bending_group_speed(bands.centre, d, m),
     )
-    n_b = structural.plate_bending_modal_density(bands.centre, props.area, d, m)
+    n_b = plates.plate_bending_modal_density(bands.centre, props.area, d, m)
     b = Subsystem(
         "b", "plate", n_b, b0.damping, quantity="velocity", mass=b0.mass, props=props
     )

@@ -15,7 +15,7 @@ from scipy import integrate
 
 import seatool
 from seatool.cli import main
-from seatool.kinds.treatment import PlateTreatment
+from seatool.kinds.plate_treatment import PlateTreatment
 
 RHO, C = 1.204, 343.2  # the model file's default air (docs/model-format.md)
 P0 = 20e-6  # reference sound pressure [Pa] (ISO 1683)

@@ -11,7 +11,7 @@ import numpy as np
 
 from ..errors import closest
 from ..model import Subsystem
-from ..physics import structural as st
+from ..physics import beams, elastic
 from ..properties import BeamProps, BeamSectionProps
 from .fields import (
     DAMPING,
@@ -42,7 +42,7 @@ def _num(rd: Reader, t: dict[str, Any], path: str, key: str, p: Param) -> float 
     return x if ok else None
 
 
-def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
+def _read_section(rd: Reader, value: Any, path: str) -> beams.BeamSection | None:
     t = rd.table(value, path)
     if t is None:
         return None
@@ -59,7 +59,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
             return None
         wd = _num(rd, t, path, "width", _SIDE)
         ht = _num(rd, t, path, "height", _SIDE)
-        return None if wd is None or ht is None else st.rectangular_section(wd, ht)
+        return None if wd is None or ht is None else beams.rectangular_section(wd, ht)
     if shape == "circular":
         if not rd.keys(t, path, ("shape", "outer_diameter", "inner_diameter"), ("outer_diameter",)):
             return None
@@ -74,7 +74,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
         if di >= do:
             rd.error(f"{path}.inner_diameter", f"must be smaller than outer_diameter ({do:g} m)")
             return None
-        return st.circular_section(do, di)
+        return beams.circular_section(do, di)
     keys = ("area", "I_y", "I_z", "J", "I_p")
     if not rd.keys(t, path, ("shape", *keys), keys[:4]):
         return None
@@ -86,7 +86,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
     iy, iz = vals["I_y"], vals["I_z"]
     assert iy is not None and iz is not None
     ip = vals.get("I_p") or iy + iz
-    return st.BeamSection(
+    return beams.BeamSection(
         area=float(vals["area"] or 0.0),
         second_moment_y=iy,
         second_moment_z=iz,
@@ -126,18 +126,18 @@ def _beam(
     for fld in fields:
         if fld in ("bending_y", "bending_z"):
             i = sec.second_moment_y if fld == "bending_y" else sec.second_moment_z
-            n = st.beam_bending_modal_density(f, length, e, i, mpl)
-            k = st.beam_bending_wavenumber(f, e, i, mpl)
-            cp = st.beam_bending_phase_speed(f, e, i, mpl)
-            cg = st.beam_bending_group_speed(f, e, i, mpl)
+            n = beams.beam_bending_modal_density(f, length, e, i, mpl)
+            k = beams.beam_bending_wavenumber(f, e, i, mpl)
+            cp = beams.beam_bending_phase_speed(f, e, i, mpl)
+            cg = beams.beam_bending_group_speed(f, e, i, mpl)
             src = "beam_bending_modal_density (Euler-Bernoulli; Lyon & DeJong 1995)"
         else:
             if fld == "longitudinal":
-                c = float(st.bar_longitudinal_speed(e, rho))
+                c = float(elastic.bar_longitudinal_speed(e, rho))
             else:
-                g = float(st.shear_modulus(e, nu))
-                c = float(st.torsion_speed(g, sec.torsion_constant, rho, sec.polar_moment))
-            n = st.longitudinal_modal_density(f, length, c)
+                g = float(elastic.shear_modulus(e, nu))
+                c = float(beams.torsion_speed(g, sec.torsion_constant, rho, sec.polar_moment))
+            n = beams.longitudinal_modal_density(f, length, c)
             k, cp, cg = b.omega / c, np.full(len(b), c), np.full(len(b), c)
             src = f"longitudinal_modal_density, 2 L / c ({fld})"
         out.append(

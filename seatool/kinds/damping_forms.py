@@ -35,8 +35,8 @@ import numpy as np
 import numpy.typing as npt
 
 from ..errors import closest
+from ..physics import air_absorption, tmm
 from ..physics import damping as dmp
-from ..physics import tmm
 from .layers import (
     TrimLayer,
     buildup_text,
@@ -130,7 +130,7 @@ def _air_absorption(
     if not ok:
         return None
     assert temp is not None and rh is not None and pa is not None
-    return dmp.air_absorption_loss_factor(
+    return air_absorption.air_absorption_loss_factor(
         f, temperature=temp, relative_humidity=rh, pressure=pa, c0=c
     )
 

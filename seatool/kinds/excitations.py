@@ -16,7 +16,7 @@ import numpy.typing as npt
 from .. import levels
 from ..model import Subsystem
 from ..physics import mobility as mob
-from ..physics import structural as st
+from ..physics import plates
 from ..physics.radiation import radiation_efficiency_band
 from ..properties import BeamProps, PanelProps, is_flat_panel, takes_point_force
 from .fields import bands_of
@@ -140,7 +140,7 @@ def _diffuse(
     if p.section is not None:
         f_c = sandwich_critical_frequency(p.section, c0)
     else:
-        f_c = float(st.critical_frequency(p.bending_stiffness, p.mass_per_area, c0))
+        f_c = float(plates.critical_frequency(p.bending_stiffness, p.mass_per_area, c0))
     b = bands_of(rd)
     sigma = radiation_efficiency_band(
         b.centre, p.lx, p.ly, f_c, f_lower=b.lower, f_upper=b.upper, c0=c0

@@ -18,7 +18,7 @@ import numpy.typing as npt
 from ..bands import BandAxis
 from ..errors import closest
 from ..model import Subsystem
-from ..physics import structural as st
+from ..physics import elastic, plates
 from ..properties import FluidProps, MaterialProps, PanelProps, ShellProps
 from .damping_forms import read_damping
 from .params import Param
@@ -139,9 +139,9 @@ def structure_damping(
 def bending_fields(f: Array, d: Array | float, m: float) -> dict[str, Any]:
     """Wavenumber, phase and group speed of thin-plate bending waves."""
     return {
-        "wavenumber": st.plate_bending_wavenumber(f, d, m),
-        "phase_speed": st.plate_bending_phase_speed(f, d, m),
-        "group_speed": st.plate_bending_group_speed(f, d, m),
+        "wavenumber": plates.plate_bending_wavenumber(f, d, m),
+        "phase_speed": plates.plate_bending_phase_speed(f, d, m),
+        "group_speed": plates.plate_bending_group_speed(f, d, m),
     }
 
 
@@ -187,13 +187,13 @@ def _inplane(
     for field in fields:
         if field == "longitudinal":
             c = float(
-                st.plate_longitudinal_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio)
+                elastic.plate_longitudinal_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio)
             )
-            n = st.plate_inplane_longitudinal_modal_density(f, area, c)
+            n = plates.plate_inplane_longitudinal_modal_density(f, area, c)
             src = "plate_inplane_longitudinal_modal_density (Lyon & DeJong 1995)"
         elif field == "shear":
-            c = float(st.shear_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio))
-            n = st.plate_inplane_shear_modal_density(f, area, c)
+            c = float(elastic.shear_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio))
+            n = plates.plate_inplane_shear_modal_density(f, area, c)
             src = "plate_inplane_shear_modal_density (Lyon & DeJong 1995)"
         else:
             continue

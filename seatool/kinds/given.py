@@ -12,7 +12,7 @@ from typing import Any
 import numpy as np
 
 from ..model import Connection, Subsystem
-from ..physics import structural as st
+from ..physics import resonators
 from ..properties import ResonatorProps
 from .damping_forms import read_damping
 from .fields import bands_of
@@ -59,8 +59,8 @@ def _resonator(
 ) -> Subsystem | None:
     m, k, eta = v["mass"], v["stiffness"], v["loss_factor"]
     b = bands_of(rd)
-    f0 = float(st.resonator_natural_frequency(m, k))
-    n = st.resonator_modal_density(b.lower, b.upper, f0, loss_factor=eta)
+    f0 = float(resonators.resonator_natural_frequency(m, k))
+    n = resonators.resonator_modal_density(b.lower, b.upper, f0, loss_factor=eta)
     if not np.all(n > 0):
         rd.error(
             f"{path}.loss_factor",

@@ -16,7 +16,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Connection, Subsystem
-from ..physics import coupling, junctions, structural
+from ..physics import coupling, elastic, junctions, plates
 from ..properties import PanelProps, radiates
 from .fields import LENGTH_BOUNDS
 from .links import BETWEEN, describe, per_band
@@ -60,7 +60,7 @@ def _junction_plate(
     d = per_band(p.bending_stiffness, nb)
     h = p.thickness
     if h is not None and np.ndim(h) == 0:
-        d_iso = float(structural.bending_stiffness(e, float(h), nu))
+        d_iso = float(plates.bending_stiffness(e, float(h), nu))
         homogeneous = bool(np.allclose(d, d_iso, rtol=_HOMOGENEOUS, atol=0.0))
     else:
         homogeneous = False
@@ -99,11 +99,11 @@ def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: A
         return per_band(sub.props.group_speed, nb)
     e, rho, nu, h = plate.youngs_modulus, plate.density, plate.poisson, plate.thickness
     if wave == "bending":
-        d = structural.bending_stiffness(e, h, nu)
-        return per_band(structural.plate_bending_group_speed(f, d, rho * h), nb)
+        d = plates.bending_stiffness(e, h, nu)
+        return per_band(plates.plate_bending_group_speed(f, d, rho * h), nb)
     if wave == "longitudinal":
-        return per_band(structural.plate_longitudinal_speed(e, rho, nu), nb)
-    return per_band(structural.shear_speed(e, rho, nu), nb)
+        return per_band(elastic.plate_longitudinal_speed(e, rho, nu), nb)
+    return per_band(elastic.shear_speed(e, rho, nu), nb)
 
 
 def _angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] | None:

@@ -22,7 +22,8 @@ import numpy.typing as npt
 from ..catalogue import Treatment, load_treatments, to_tmm_layer
 from ..errors import closest
 from ..physics import porous, tmm
-from ..physics.damping import ModulusTable
+from ..physics.air import AIR_DENSITY, AIR_SOUND_SPEED
+from ..physics.damping_layers import ModulusTable
 from .params import Kind, Param
 from .reader import Reader, join
 from .validate import check_value
@@ -402,7 +403,7 @@ def read_layers(
 
 
 def lining_absorption(
-    f: Array, layers: Sequence[TrimLayer], *, rho0: float = 1.204, c0: float = 343.2
+    f: Array, layers: Sequence[TrimLayer], *, rho0: float = AIR_DENSITY, c0: float = AIR_SOUND_SPEED
 ) -> Array:
     """Diffuse-field absorption coefficient of a rigid-backed lining at band centres.
 

@@ -14,7 +14,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Subsystem
-from ..physics import structural
+from ..physics import plates
 from ..properties import CavityProps, PanelProps, radiates
 from .reader import Reader
 
@@ -128,14 +128,14 @@ def critical_frequency_per_band(props: PanelProps, sound_speed: float, nb: int) 
     """Critical frequency of a panel in a fluid of the given sound speed, per band [Hz].
 
     Recomputed from the properties' ``bending_stiffness`` and ``mass_per_area`` with
-    :func:`seatool.physics.structural.critical_frequency`, so it holds for the fluid on
+    :func:`seatool.physics.plates.critical_frequency`, so it holds for the fluid on
     the radiating side even when that is not the panel's own fluid (for which the
     properties' ``critical_frequency`` was computed). A per-band (sandwich, effective)
     bending stiffness gives a per-band value: the coincidence ratio k_B/k_0 of that band.
     """
     d = per_band(props.bending_stiffness, nb)
     m = float(props.mass_per_area)
-    return per_band(structural.critical_frequency(d, m, sound_speed), nb)
+    return per_band(plates.critical_frequency(d, m, sound_speed), nb)
 
 
 def treatment_factor(props: PanelProps, face: str | None, nb: int) -> Array:

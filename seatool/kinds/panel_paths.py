@@ -21,7 +21,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Connection, Subsystem
-from ..physics import coupling, radiation, transmission
+from ..physics import coupling, radiation, radiation_curved, transmission
 from ..properties import PanelProps, ShellProps, is_cavity
 from .links import (
     BETWEEN,
@@ -82,7 +82,7 @@ def radiation_clf(
     ``sigma`` from :func:`seatool.physics.radiation.radiation_efficiency_band` over the
     model's band edges, with the critical frequency in that fluid; for a shell or curved
     panel (:class:`seatool.properties.ShellProps`) with the default method, from
-    :func:`seatool.physics.radiation.radiation_efficiency_curved_panel` (Szechenyi 1971).
+    :func:`seatool.physics.radiation_curved.radiation_efficiency_curved_panel` (Szechenyi 1971).
     ``eta`` from :func:`seatool.physics.coupling.clf_radiation`. No treatment factor
     applied here. ``edges`` is passed to the flat-panel formula (the reader refuses
     ``"clamped"`` where the curved-panel formula is used).
@@ -125,7 +125,7 @@ def _curved_sigma(props: ShellProps, bands: Any, f_c: Array, c: float) -> Array:
     m = float(props.mass_per_area)
     c_l = 2.0 * math.pi * float(props.radius) * float(props.ring_frequency)
     c_l *= math.sqrt(float(mat.density) * float(props.thickness) / m)
-    return radiation.radiation_efficiency_curved_panel(
+    return radiation_curved.radiation_efficiency_curved_panel(
         bands.centre,
         float(props.lx),
         float(props.ly),

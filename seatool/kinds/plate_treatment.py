@@ -19,8 +19,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Model
-from ..physics import damping as dmp
-from ..physics import tmm
+from ..physics import damping_layers, tmm, tmm_transmission
 from .layers import TrimLayer, buildup_text, quiet, read_layers, tmm_layers, validity_notes
 from .params import Kind, Param
 from .reader import DEFAULT_FLUID, Reader, join
@@ -299,7 +298,7 @@ def read_plate_treatment(
             h3 = rd.number(ct["thickness"], join(cp, "thickness"), unit="m")
             if cmat is None or h3 is None:
                 return None
-            res = dmp.constrained_layer_damping(
+            res = damping_layers.constrained_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 h3, float(cmat.youngs_modulus), float(cmat.density),
                 base_loss_factor=eta1, cover_loss_factor=_prop(cmat, "loss_factor", 0.0),
@@ -311,7 +310,7 @@ def read_plate_treatment(
                 f"{1000 * h3:.3g} mm cover ({vt.density * layer.thickness + m_cover:.3g} kg/m^2)"
             )
         else:
-            res = dmp.free_layer_damping(
+            res = damping_layers.free_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 base_loss_factor=eta1, base_poisson=nu1, layer_poisson=nu2,
             )  # fmt: skip
@@ -364,7 +363,7 @@ def read_plate_treatment(
         else:
             rd.error(join(path, "trim"), "the plate has no mass per area to put the trim on")
             return None
-        res_il = quiet(tmm.insertion_loss, f, base, tmm_layers(trim), rho0=rho0, c0=c0)
+        res_il = quiet(tmm_transmission.insertion_loss, f, base, tmm_layers(trim), rho0=rho0, c0=c0)
         il = np.asarray(res_il.insertion_loss, dtype=np.float64)
         notes.extend(validity_notes(trim, f, rho0))
         parts.append(

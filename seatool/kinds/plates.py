@@ -15,7 +15,7 @@ import numpy.typing as npt
 from scipy import optimize
 
 from ..model import Subsystem
-from ..physics import structural as st
+from ..physics import orthotropic_plates, plates, sandwich
 from .fields import (
     LX,
     LY,
@@ -64,7 +64,7 @@ def _plate(
         return None
     geom = _geometry(v)
     b = bands_of(rd)
-    d = float(st.bending_stiffness(mat.youngs_modulus, h, mat.poisson_ratio))
+    d = float(plates.bending_stiffness(mat.youngs_modulus, h, mat.poisson_ratio))
     keys = (f"{path}.thickness", f"{path}.material")
     if not check_derived(
         rd, path, {"bending stiffness": d, "mass per area": mat.density * h}, keys
@@ -73,11 +73,11 @@ def _plate(
     c0, area = fluid.sound_speed, geom[2]
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
-        n = st.plate_bending_modal_density(b.centre, area, d, m)
+        n = plates.plate_bending_modal_density(b.centre, area, d, m)
         props = {
             **bending_fields(b.centre, d, m),
             "bending_stiffness": d,
-            "critical_frequency": float(st.critical_frequency(d, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d, m, c0)),
         }
         return n, props, "plate_bending_modal_density (thin plate; Cremer et al. 2005)"
 
@@ -104,19 +104,19 @@ def _orthotropic(
         if bw >= sp:
             rd.error(f"{path}.rib_width", f"must be smaller than rib_spacing ({sp:g} m)")
             return None
-        i_rib = float(st.rib_second_moment_rectangular(bw, bh, h))
+        i_rib = float(orthotropic_plates.rib_second_moment_rectangular(bw, bh, h))
         dx, dy, hh = (
             float(x)
-            for x in st.ribbed_plate_stiffness(
+            for x in orthotropic_plates.ribbed_plate_stiffness(
                 mat.youngs_modulus, h, mat.poisson_ratio, i_rib, sp,
                 rib_youngs_modulus=rmat.youngs_modulus,
             )
         )  # fmt: skip
         m_skin = mat.density * h
         m_bare = m_skin + rmat.density * bw * bh / sp
-        d_skin = float(st.bending_stiffness(mat.youngs_modulus, h, mat.poisson_ratio))
+        d_skin = float(plates.bending_stiffness(mat.youngs_modulus, h, mat.poisson_ratio))
         extra["rib_spacing"] = sp
-        extra["bay_frequency"] = float(st.ribbed_plate_bay_frequency(sp - bw, d_skin, m_skin))
+        extra["bay_frequency"] = float(orthotropic_plates.ribbed_plate_bay_frequency(sp - bw, d_skin, m_skin))
         h_t: float | None = hh
         keys: tuple[str, ...] = tuple(
             f"{path}.{k}" for k in ("thickness", "rib_width", "rib_height", "rib_spacing")
@@ -135,14 +135,14 @@ def _orthotropic(
     extra.update(bending_stiffness_x=dx, bending_stiffness_y=dy)
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
-        n = st.orthotropic_plate_modal_density(b.centre, area, dx, dy, m, torsional_stiffness=h_t)
+        n = orthotropic_plates.orthotropic_plate_modal_density(b.centre, area, dx, dy, m, torsional_stiffness=h_t)
         # effective isotropic stiffness with the same modal density, n = (S/2) sqrt(m''/D)
         d_eff = float(m * (area / (2.0 * n[0])) ** 2)
-        lo, hi = st.orthotropic_critical_frequencies(dx, dy, m, c0)
+        lo, hi = orthotropic_plates.orthotropic_critical_frequencies(dx, dy, m, c0)
         props = {
             **bending_fields(b.centre, d_eff, m),
             "bending_stiffness": d_eff,
-            "critical_frequency": float(st.critical_frequency(d_eff, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d_eff, m, c0)),
             "critical_frequency_range": (float(lo), float(hi)),
         }
         return n, props, "orthotropic_plate_modal_density (Huber plate; Lyon & DeJong 1995)"
@@ -153,16 +153,16 @@ def _orthotropic(
     )  # fmt: skip
 
 
-def sandwich_critical_frequency(section: st.SandwichSection, sound_speed: float) -> float:
+def sandwich_critical_frequency(section: sandwich.SandwichSection, sound_speed: float) -> float:
     """Frequency where the sandwich bending phase speed equals the sound speed [Hz].
 
-    Root of :func:`seatool.physics.structural.sandwich_phase_speed` ``(f) = c0`` (the
+    Root of :func:`seatool.physics.sandwich.sandwich_phase_speed` ``(f) = c0`` (the
     phase speed rises monotonically from 0 to the face-sheet bending speed, which grows
     without bound), found with :func:`scipy.optimize.brentq` on ln f.
     """
 
     def g(x: float) -> float:
-        return float(st.sandwich_phase_speed(math.exp(x), section)) - sound_speed
+        return float(sandwich.sandwich_phase_speed(math.exp(x), section)) - sound_speed
 
     lo, hi = math.log(1e-3), math.log(1e9)
     if g(lo) > 0 or g(hi) < 0:
@@ -181,23 +181,23 @@ def _sandwich(
         v["core_density"],
     )
     geom = _geometry(v)
-    sec0 = st.sandwich_section(mat.youngs_modulus, mat.poisson_ratio, t, mat.density, gc, c, rc)
+    sec0 = sandwich.sandwich_section(mat.youngs_modulus, mat.poisson_ratio, t, mat.density, gc, c, rc)
     b = bands_of(rd)
     c0, area = fluid.sound_speed, geom[2]
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
         sec = dataclasses.replace(sec0, surface_density=m)
-        k = st.sandwich_wavenumber(b.centre, sec)
+        k = sandwich.sandwich_wavenumber(b.centre, sec)
         props = {
             "wavenumber": k,
-            "phase_speed": st.sandwich_phase_speed(b.centre, sec),
-            "group_speed": st.sandwich_group_speed(b.centre, sec),
+            "phase_speed": sandwich.sandwich_phase_speed(b.centre, sec),
+            "group_speed": sandwich.sandwich_group_speed(b.centre, sec),
             # effective bending stiffness per band, m'' omega^2 = D_eff k^4
             "bending_stiffness": m * b.omega**2 / k**4,
             "critical_frequency": sandwich_critical_frequency(sec, c0),
             "section": sec,
         }
-        n = st.sandwich_modal_density(b.centre, area, sec)
+        n = sandwich.sandwich_modal_density(b.centre, area, sec)
         return n, props, "sandwich_modal_density (Nilsson 1990 dispersion)"
 
     extra = {"core_thickness": c, "face_thickness": t}

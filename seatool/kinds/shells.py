@@ -13,7 +13,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Subsystem
-from ..physics import structural as st
+from ..physics import elastic, plates, shells
 from .fields import (
     LENGTH_BOUNDS,
     LX,
@@ -57,8 +57,8 @@ def _shell(
     geom = (lx, ly, lx * ly, perimeter)
     b = bands_of(rd)
     e, rho, nu = mat.youngs_modulus, mat.density, mat.poisson_ratio
-    d = float(st.bending_stiffness(e, h, nu))
-    c_l = float(st.plate_longitudinal_speed(e, rho, nu))
+    d = float(plates.bending_stiffness(e, h, nu))
+    c_l = float(elastic.plate_longitudinal_speed(e, rho, nu))
     if not check_derived(
         rd, path, {"bending stiffness": d}, (f"{path}.thickness", f"{path}.material")
     ):
@@ -78,7 +78,7 @@ def _shell(
         fq = split[:, None] + sign * span[:, None] * u[None, :] ** 3
         fq = np.clip(fq, b.lower[:, None], b.upper[:, None])
         fq = np.where(span[:, None] > 0, fq, b.centre[:, None])  # empty half: weight 0
-        n_nodes = st.shell_bending_modal_density(fq, geom[2], a, h, e, rho, nu)
+        n_nodes = shells.shell_bending_modal_density(fq, geom[2], a, h, e, rho, nu)
         total += (wu[None, :] * 3.0 * span[:, None] * u[None, :] ** 2 * n_nodes).sum(axis=1)
     n_shell = np.asarray(total / (b.upper - b.lower), dtype=float)
 
@@ -88,7 +88,7 @@ def _shell(
         props = {
             **bending_fields(b.centre, d, m),
             "bending_stiffness": d,
-            "critical_frequency": float(st.critical_frequency(d, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d, m, c0)),
         }
         return (
             n,
@@ -96,7 +96,7 @@ def _shell(
             "shell_bending_modal_density, band average (Heckl 1962 dispersion, Szechenyi 1971 count)",
         )
 
-    extra = {"radius": a, "ring_frequency": float(st.ring_frequency(a, c_l)), "closed": closed}
+    extra = {"radius": a, "ring_frequency": float(shells.ring_frequency(a, c_l)), "closed": closed}
     return finish_panel(
         rd, name, s, path, role="cylindrical_shell", mat=mat, geom=geom, thickness=h,
         m_bare=rho * h, fluid=fluid, bending=bending, extra=extra, fields=["bending"], shell=True,
