@@ -275,9 +275,10 @@ def _read_connections(
             continue
         kind = _kind_of(rd, s, path, "connection", CONNECTION_KINDS, "given")
         if "between" not in s:
-            if kind is not None:
-                rd.keys(s, path, kind.allowed)  # misspelt keys first, with the right name
-            rd.error(f"{path}.between", "missing required key (two subsystem names)")
+            if kind is not None:  # misspelt keys, with the right name, and the missing one
+                rd.keys(s, path, kind.allowed, ("between", *kind.required))
+            else:
+                rd.error(f"{path}.between", "missing required key (two subsystem names)")
             continue
         btw = s["between"]
         if not isinstance(btw, list) or len(btw) < 2:
