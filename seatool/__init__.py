@@ -16,7 +16,7 @@ command line starts fast. Every public name below is imported on first use by th
 module-level :func:`__getattr__` (PEP 562), the package's one lazy-import mechanism:
 ``seatool.run`` imports :mod:`seatool.results` (and with it numpy, scipy.sparse, pandas)
 the first time it is used. The submodules ``analysis``, ``bands``, ``errors``, ``levels``,
-``materials``, ``model``, ``modelfile``, ``plot``, ``results``, ``solve`` and ``treatments``
+``materials``, ``model``, ``modelfile``, ``plot``, ``results``, ``solve`` and ``catalogue``
 are reached the same way (``seatool.solve`` is the module; its function is
 ``seatool.solve.solve``). ``import seatool.solve`` or
 ``from seatool.analysis.paths import contributions`` import modules directly as usual.
@@ -32,6 +32,7 @@ from ._version import __version__
 if TYPE_CHECKING:  # what __getattr__ returns, for type checkers and readers
     from . import analysis as analysis
     from . import bands as bands
+    from . import catalogue as catalogue
     from . import errors as errors
     from . import levels as levels
     from . import materials as materials
@@ -40,7 +41,6 @@ if TYPE_CHECKING:  # what __getattr__ returns, for type checkers and readers
     from . import plot as plot
     from . import results as results
     from . import solve as solve
-    from . import treatments as treatments
     from .analysis.panel import PanelSpec, panel_table
     from .analysis.paths import connection_powers, contributions, path_ranking, paths
     from .analysis.sensitivity import parameter_sensitivities, ranking, sensitivities
@@ -130,10 +130,10 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.summary as summary
 
         return summary
-    if name == "treatments":
-        import seatool.treatments as treatments
+    if name == "catalogue":
+        import seatool.catalogue as catalogue
 
-        return treatments
+        return catalogue
     if name in ("PanelSpec", "panel_table"):
         import seatool.analysis.panel as panel
 

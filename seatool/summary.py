@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 import numpy.typing as npt
 
-from .kinds.treatment import summary_lines
+from .kinds.plate_treatment import summary_lines
 from .model import Model
 from .validity_report import check_table
 

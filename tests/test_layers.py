@@ -40,11 +40,12 @@ MODULES = {
     "seatool.levels": "model",
     "seatool.loudness": "model",
     "seatool.metrics": "model",
+    "seatool.properties": "model",
     "seatool.materials": "model",
     "seatool.model": "model",
     "seatool.kinds": "readers",
     "seatool.modelfile": "readers",
-    "seatool.treatments": "readers",
+    "seatool.catalogue": "readers",
     "seatool.solve": "solve",
     "seatool.results": "results",
     # per-band SEA validity of a model: Result.notes and Result.validity show it
@@ -67,12 +68,7 @@ PACKAGES = {
 
 #: Function-local imports of seatool modules and loading by name that the rewrite of the
 #: model-file readers (kinds/*, modelfile.py) removes; nothing may be added here.
-PENDING = {
-    "seatool.modelfile",
-    "seatool.kinds.subsystems",
-    "seatool.kinds.treatment",
-    "seatool.kinds.connections",
-}
+PENDING: set[str] = set()
 
 #: The one lazy-import mechanism (PEP 562) and where it lives.
 LAZY = ("seatool", "_defining_module")

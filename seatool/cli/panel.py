@@ -71,7 +71,7 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         help="reverberation time of both rooms [s] "
         f"(default {t60:g})",
     )
-    library = seatool.treatments.load_treatments()
+    library = seatool.catalogue.load_treatments()
     g = p.add_argument_group("treatment")
     g.add_argument(
         "--damping-layer",
