@@ -11,16 +11,18 @@ directly in Python; solving never mutates them.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
-from typing import Any, Literal
+from dataclasses import dataclass, field, replace
+from typing import Literal
 
 import numpy as np
 import numpy.typing as npt
 
 from .bands import BandAxis
+from .properties import Props
 
 __all__ = [
     "Connection",
+    "Uncertain",
     "Excitation",
     "Model",
     "ModelError",
@@ -76,10 +78,10 @@ class Subsystem:
         The physical component this wave field belongs to (a plate carries bending,
         longitudinal and shear fields as three subsystems of one component); defaults to
         ``name``.
-    properties : mapping
-        Physical description used by coupling and excitation physics (see DEVELOPERS.md,
-        "Subsystem properties"): e.g. ``area``, ``thickness``, ``mass_per_area``,
-        ``wave_type``. Arrays in it are per band.
+    props : PanelProps, ShellProps, BeamProps, CavityProps, DuctProps, ResonatorProps or None
+        What the subsystem physically is (:mod:`seatool.properties`: typed records with
+        units in their field metadata), used by coupling and excitation kinds; None for a
+        subsystem given by its values only.
     """
 
     name: str
@@ -94,7 +96,7 @@ class Subsystem:
     sink: bool = False
     provenance: Mapping[str, str] = field(default_factory=dict)
     component: str = ""
-    properties: Mapping[str, Any] = field(default_factory=dict)
+    props: Props | None = None
 
     def __post_init__(self) -> None:
         if not self.component:
@@ -138,6 +140,43 @@ class Excitation:
 
 
 @dataclass(frozen=True)
+class Uncertain:
+    """One uncertain parameter of the model file (``[uncertainty.NAME]``): where it is (its
+    key path) and how it is drawn (``docs/model-format.md``, section "uncertainty")."""
+
+    name: str
+    parameter: str  # key path
+    distribution: str
+    factor: float | None = None
+    tolerance: float | None = None
+    low: float | None = None
+    high: float | None = None
+    sd: float | None = None
+
+    def draw(self, rng: np.random.Generator, n: int) -> Array:
+        """Standard variates of this parameter for n samples."""
+        if self.distribution == "uniform":
+            return rng.uniform(-1.0, 1.0, n) if self.low is None else rng.uniform(0.0, 1.0, n)
+        return rng.standard_normal(n)
+
+    def apply(self, value: Array, d: Array) -> Array:
+        """Sampled values from the file value(s) ``value`` and the variates ``d``."""
+        if self.distribution == "lognormal":
+            assert self.factor is not None
+            return value * self.factor**d
+        if self.distribution == "normal":
+            assert self.sd is not None
+            return value + self.sd * d
+        if self.low is not None:
+            assert self.high is not None
+            return np.broadcast_to(
+                self.low + (self.high - self.low) * d, np.broadcast(value, d).shape
+            )
+        assert self.tolerance is not None
+        return value * (1.0 + self.tolerance * d)
+
+
+@dataclass(frozen=True)
 class Model:
     """A complete SEA model, ready to solve."""
 
@@ -151,6 +190,8 @@ class Model:
     #: Descriptive lines from the readers (treatment build-ups and their masses, ...),
     #: printed by ``seatool check``.
     reports: tuple[str, ...] = ()
+    #: The validated ``[uncertainty.NAME]`` spreads (used by the Monte Carlo analysis).
+    uncertainty: tuple[Uncertain, ...] = ()
 
     def __post_init__(self) -> None:
         nb = len(self.bands)
@@ -246,6 +287,4 @@ class Model:
 
 
 def _replace(obj: object, **changes: object):  # type: ignore[no-untyped-def]
-    from dataclasses import replace
-
     return replace(obj, **changes)  # type: ignore[type-var]

@@ -3,46 +3,42 @@
 The format is described in ``docs/model-format.md``. :func:`load` returns a
 :class:`seatool.model.Model` or raises :class:`seatool.errors.InputError` carrying every
 problem found, each with the file, the key path (``subsystems.floor.mass``), what is
-wrong and, for an unknown name, the closest valid one.
+wrong and, for an unknown name, the closest valid one. Every section is validated here,
+``[uncertainty]`` included, for ``check``, ``solve`` and the analyses alike.
 
-Per-band values ("spectra") can be written three ways wherever the format says
-*spectrum*:
-
-* a number: the same value in every band;
-* a table ``{ band_hz = [...], values = [...] }`` with nominal band centres;
-* a CSV reference ``{ csv = "file.csv", column = "name" }``; the CSV has a header whose
-  first column is ``band_hz`` (path relative to the model file).
-
-New subsystem, connection and excitation kinds register a reader in
-:data:`SUBSYSTEM_KINDS`, :data:`CONNECTION_KINDS` or :data:`EXCITATION_KEYS`.
+The kinds of subsystems, connections, excitations and damping forms are read generically
+through the explicit list of :mod:`seatool.kinds.registry`: each table is checked against
+its kind's declaration (:func:`seatool.kinds.validate.check`), then the kind's derive
+function builds the subsystems or couplings from the validated values.
 """
 
 from __future__ import annotations
 
-import csv
-import math
 import tomllib
-from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field
+from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
 
 import numpy as np
-import numpy.typing as npt
 
-from . import levels
-from .bands import BandAxis, BandError, band_index
+from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
+from .kinds.media import FLUID_PARAMS
+from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
+from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
+from .kinds.spreads import read_uncertainty_section
+from .kinds.validate import check, check_derived, check_value, read_material_section
 from .model import Connection, Excitation, Model, ModelError, Subsystem
-from .physics.air import AIR_DENSITY, AIR_SOUND_SPEED
 
-__all__ = ["CONNECTION_KINDS", "SUBSYSTEM_KINDS", "Reader", "load", "loads"]
-
-Array = npt.NDArray[np.float64]
-
-#: Fluid used by a cavity that names none: the default air of
-#: :mod:`seatool.physics.air` (20 C, 101.325 kPa; its source is cited there).
-DEFAULT_FLUID = {"density": AIR_DENSITY, "sound_speed": AIR_SOUND_SPEED}
+__all__ = [
+    "CONNECTION_KINDS",
+    "DEFAULT_FLUID",
+    "SUBSYSTEM_KINDS",
+    "Reader",
+    "build",
+    "load",
+    "loads",
+]
 
 _TOP_KEYS = (
     "title",
@@ -53,273 +49,29 @@ _TOP_KEYS = (
     "subsystems",
     "connections",
     "excitations",
-    "uncertainty",  # read by seatool.analysis (parameter spreads), ignored by the solve
+    "uncertainty",
 )
 
 _MISSING = object()
 
-
-@dataclass
-class Reader:
-    """Validation context: collects problems instead of stopping at the first."""
-
-    file: str
-    base_dir: Path
-    problems: list[Problem] = field(default_factory=list)
-    bands: BandAxis | None = None
-    fluids: dict[str, dict[str, float]] = field(default_factory=dict)
-    materials: dict[str, dict[str, float]] = field(default_factory=dict)
-    #: Names of every subsystem declared in the file (for readers that refer to another
-    #: subsystem, e.g. the cavity a trimmed face looks into), with their raw tables.
-    declared: Mapping[str, Any] = field(default_factory=dict)
-    #: Descriptive lines readers add for ``seatool check`` (e.g. treatment masses); they
-    #: become :attr:`seatool.model.Model.reports`.
-    reports: list[str] = field(default_factory=list)
-    #: Warnings readers add (e.g. a porous model used outside its fitted range); they
-    #: become :attr:`seatool.model.Model.notes`.
-    notes: list[str] = field(default_factory=list)
-    #: Names of materials and fluids defined in the file whose definition had problems
-    #: (already reported): references to them are not reported again.
-    invalid: set[str] = field(default_factory=set)
-
-    # -- reporting -----------------------------------------------------------------------
-    def error(self, path: str, message: str) -> None:
-        self.problems.append(Problem(self.file, path, message))
-
-    # -- structure -----------------------------------------------------------------------
-    def table(self, value: Any, path: str) -> dict[str, Any] | None:
-        if not isinstance(value, dict):
-            self.error(path, f"must be a table, got {_type_name(value)}")
-            return None
-        return value
-
-    def keys(
-        self,
-        table: Mapping[str, Any],
-        path: str,
-        allowed: tuple[str, ...],
-        required: tuple[str, ...] = (),
-    ) -> bool:
-        """Report unknown and missing keys; True if nothing is missing."""
-        ok = True
-        suggested: set[str] = set()
-        for k in table:
-            if k not in allowed:
-                hint = closest(k, allowed)
-                self.error(_join(path, k), "unknown key" + hint)
-                suggested.add(hint)
-        for k in required:
-            if k not in table:
-                ok = False
-                if closest(k, allowed) and f" (did you mean {k!r}?)" in suggested:
-                    continue  # the misspelt key's line already names it
-                self.error(_join(path, k), "missing required key")
-        return ok
-
-    def name_ref(
-        self, value: Any, path: str, choices: Mapping[str, Any] | list[str], what: str
-    ) -> str | None:
-        if not isinstance(value, str):
-            self.error(path, f"must be the name of a {what} (a string), got {_type_name(value)}")
-            return None
-        if value not in choices:
-            valid = list(choices)
-            hint = closest(value, valid)
-            if not hint and valid:
-                hint = f" (known: {', '.join(sorted(valid)[:8])})"
-            self.error(path, f"unknown {what} {value!r}" + hint)
-            return None
-        return value
-
-    def string(self, value: Any, path: str) -> str | None:
-        if not isinstance(value, str):
-            self.error(path, f"must be a string, got {_type_name(value)}")
-            return None
-        return value
-
-    # -- numbers -------------------------------------------------------------------------
-    def number(
-        self,
-        value: Any,
-        path: str,
-        *,
-        unit: str = "",
-        minimum: float | None = 0.0,
-        strict: bool = True,
-    ) -> float | None:
-        """A finite real number; by default strictly positive (a physical quantity)."""
-        if isinstance(value, bool) or not isinstance(value, int | float):
-            self.error(path, f"must be a number{_unit(unit)}, got {_type_name(value)}")
-            return None
-        x = float(value)
-        if not math.isfinite(x):
-            self.error(path, f"must be finite, got {value}")
-            return None
-        if minimum is not None:
-            if strict and x <= minimum:
-                self.error(path, f"must be > {minimum:g}{_unit(unit)}, got {value}")
-                return None
-            if not strict and x < minimum:
-                self.error(path, f"must be >= {minimum:g}{_unit(unit)}, got {value}")
-                return None
-        return x
-
-    def spectrum(
-        self,
-        value: Any,
-        path: str,
-        *,
-        unit: str = "",
-        minimum: float | None = 0.0,
-        strict: bool = True,
-    ) -> Array | None:
-        """A per-band value: number, ``{band_hz, values}`` table or ``{csv, column}``."""
-        bands = self.bands
-        if bands is None:
-            return None
-        nb = len(bands)
-        if isinstance(value, dict):
-            if "csv" in value:
-                return self._csv_spectrum(value, path, unit=unit, minimum=minimum, strict=strict)
-            if not self.keys(value, path, ("band_hz", "values"), ("band_hz", "values")):
-                return None
-            fb, vals = value["band_hz"], value["values"]
-            if not isinstance(fb, list) or not isinstance(vals, list):
-                self.error(path, "band_hz and values must be arrays of numbers")
-                return None
-            if len(fb) != len(vals):
-                self.error(path, f"band_hz has {len(fb)} entries but values has {len(vals)}")
-                return None
-            return self._per_band(fb, vals, path, unit=unit, minimum=minimum, strict=strict)
-        x = self.number(value, path, unit=unit, minimum=minimum, strict=strict)
-        if x is None:
-            return None
-        return np.full(nb, x)
-
-    def _per_band(
-        self,
-        fb: list[Any],
-        vals: list[Any],
-        path: str,
-        *,
-        unit: str,
-        minimum: float | None,
-        strict: bool,
-        source: str = "",
-    ) -> Array | None:
-        assert self.bands is not None
-        bands = self.bands
-        out = np.full(len(bands), np.nan)
-        ok = True
-        seen: set[int] = set()
-        for k, (f, v) in enumerate(zip(fb, vals, strict=True)):
-            where = f"{path}.band_hz[{k}]" if not source else f"{path} ({source} row {k + 2})"
-            if isinstance(f, bool) or not isinstance(f, int | float):
-                self.error(where, f"band centre must be a number in Hz, got {_type_name(f)}")
-                ok = False
-                continue
-            try:
-                x = band_index(float(f), bands.kind)
-            except BandError as exc:
-                self.error(where, str(exc))
-                ok = False
-                continue
-            if x in seen:
-                self.error(where, f"band {f:g} Hz given twice")
-                ok = False
-                continue
-            seen.add(x)
-            j = x - int(bands.indices[0])
-            vpath = f"{path}.values[{k}]" if not source else where
-            val = self.number(v, vpath, unit=unit, minimum=minimum, strict=strict)
-            if val is None:
-                ok = False
-                continue
-            if 0 <= j < len(bands):
-                out[j] = val
-        missing = [bands.label(int(j)) for j in np.flatnonzero(np.isnan(out))]
-        if ok and missing:
-            shown = ", ".join(missing[:6]) + (" ..." if len(missing) > 6 else "")
-            self.error(path, f"no value for band(s) {shown}; give every band of the model")
-            ok = False
-        return out if ok else None
-
-    def _csv_spectrum(
-        self, value: dict[str, Any], path: str, *, unit: str, minimum: float | None, strict: bool
-    ) -> Array | None:
-        if not self.keys(value, path, ("csv", "column"), ("csv", "column")):
-            return None
-        fname = self.string(value["csv"], _join(path, "csv"))
-        column = self.string(value["column"], _join(path, "column"))
-        if fname is None or column is None:
-            return None
-        fpath = (self.base_dir / fname).resolve()
-        try:
-            text = fpath.read_text(encoding="utf-8-sig")
-        except FileNotFoundError:
-            self.error(_join(path, "csv"), f"file {fname!r} not found (looked in {self.base_dir})")
-            return None
-        except (OSError, UnicodeDecodeError) as exc:
-            self.error(_join(path, "csv"), f"cannot read {fname!r}: {exc}")
-            return None
-        rows = [r for r in csv.reader(text.splitlines()) if any(c.strip() for c in r)]
-        if not rows:
-            self.error(_join(path, "csv"), f"{fname!r} is empty; expected a header 'band_hz,...'")
-            return None
-        header = [h.strip() for h in rows[0]]
-        if not header or header[0] != "band_hz":
-            self.error(
-                _join(path, "csv"), f"{fname!r}: first column of the header must be 'band_hz'"
-            )
-            return None
-        if column not in header:
-            self.error(
-                _join(path, "column"),
-                f"no column {column!r} in {fname!r}" + closest(column, header[1:]),
-            )
-            return None
-        ci = header.index(column)
-        fb: list[Any] = []
-        vals: list[Any] = []
-        for r, row in enumerate(rows[1:], start=2):
-            if len(row) != len(header):
-                self.error(
-                    _join(path, "csv"),
-                    f"{fname!r} row {r}: {len(row)} cells, header has {len(header)}",
-                )
-                return None
-            try:
-                fb.append(float(row[0]))
-                vals.append(float(row[ci]))
-            except ValueError:
-                self.error(_join(path, "csv"), f"{fname!r} row {r}: not a number in {row!r}")
-                return None
-        return self._per_band(
-            fb, vals, path, unit=unit, minimum=minimum, strict=strict, source=fname
-        )
+#: Deepest nesting of tables and arrays a model file may have (a model needs about 6).
+MAX_DEPTH = 32
 
 
-def _join(path: str, key: str) -> str:
-    return f"{path}.{key}" if path else key
-
-
-def _unit(unit: str) -> str:
-    return f" [{unit}]" if unit else ""
-
-
-def _type_name(value: Any) -> str:
-    names = {
-        bool: "a boolean",
-        str: "a string",
-        int: "an integer",
-        float: "a number",
-        list: "an array",
-        dict: "a table",
-    }
-    for t, n in names.items():
-        if type(value) is t:
-            return f"{n} ({value!r})" if t in (str, int, float, bool) else n
-    return type(value).__name__
+def _depth(value: Any, limit: int) -> int:
+    """Nesting depth of parsed TOML data, counted up to ``limit`` (iterative)."""
+    stack = [(value, 1)]
+    deepest = 0
+    while stack:
+        v, d = stack.pop()
+        deepest = max(deepest, d)
+        if d > limit:
+            return d
+        if isinstance(v, dict):
+            stack.extend((x, d + 1) for x in v.values())
+        elif isinstance(v, list):
+            stack.extend((x, d + 1) for x in v)
+    return deepest
 
 
 # ----------------------------------------------------------------------------------------
@@ -373,24 +125,20 @@ def _read_fluids(rd: Reader, data: Any) -> None:
         s = rd.table(spec, path)
         if s is None:
             continue
-        if not rd.keys(
-            s, path, ("density", "sound_speed", "description"), ("density", "sound_speed")
-        ):
-            continue
-        rho = rd.number(s["density"], f"{path}.density", unit="kg/m^3")
-        c = rd.number(s["sound_speed"], f"{path}.sound_speed", unit="m/s")
-        if rho is not None and c is not None:
-            rd.fluids[name] = {"density": rho, "sound_speed": c}
-
-
-_MATERIAL_KEYS = (
-    "base",
-    "density",
-    "youngs_modulus",
-    "poisson_ratio",
-    "loss_factor",
-    "description",
-)
+        n = len(rd.problems)
+        rd.keys(
+            s, path, (*(p.name for p in FLUID_PARAMS), "description"), ("density", "sound_speed")
+        )
+        vals = {}
+        for p in FLUID_PARAMS:
+            if p.name in s:
+                ok, x = check_value(rd, p, s[p.name], join(path, p.name))
+                if ok:
+                    vals[p.name] = x
+        if "description" in s:
+            rd.string(s["description"], join(path, "description"))
+        if len(rd.problems) == n:
+            rd.fluids[name] = {"density": vals["density"], "sound_speed": vals["sound_speed"]}
 
 
 def _read_materials(rd: Reader, data: Any) -> None:
@@ -400,133 +148,41 @@ def _read_materials(rd: Reader, data: Any) -> None:
     t = rd.table(data, "materials")
     if t is None:
         return
-    from .materials import load_materials
-
-    builtin = load_materials()
     for name, spec in t.items():
-        path = f"materials.{name}"
-        s = rd.table(spec, path)
-        if s is None:
-            continue
-        required = () if "base" in s else ("density", "youngs_modulus", "poisson_ratio")
-        if not rd.keys(s, path, _MATERIAL_KEYS, required):
-            rd.invalid.add(name)
-            continue
-        props: dict[str, float] = {}
-        if "base" in s:
-            base = rd.name_ref(s["base"], f"{path}.base", builtin, "built-in material")
-            if base is None:
-                rd.invalid.add(name)
-                continue
-            m = builtin[base]
-            props.update(
-                density=m.density,
-                youngs_modulus=m.youngs_modulus,
-                poisson_ratio=m.poisson_ratio,
-                loss_factor=m.loss_factor,
-            )
-        ok = True
-        for key, unit, minimum, strict in (
-            ("density", "kg/m^3", 0.0, True),
-            ("youngs_modulus", "Pa", 0.0, True),
-            ("poisson_ratio", "", -1.0, True),
-            ("loss_factor", "", 0.0, False),
-        ):
-            if key not in s:
-                continue
-            x = rd.number(s[key], f"{path}.{key}", unit=unit, minimum=minimum, strict=strict)
-            if x is not None and key == "poisson_ratio" and x >= 0.5:
-                rd.error(f"{path}.{key}", f"must be < 0.5 for a stable isotropic solid, got {x}")
-                x = None
-            if x is None:
-                ok = False
-            else:
-                props[key] = x
-        if ok:
-            rd.materials[name] = props
-        else:
-            rd.invalid.add(name)
+        read_material_section(rd, name, spec)
 
 
-# Subsystem kinds ------------------------------------------------------------------------
-
-#: A subsystem reader returns the wave fields (subsystems) of one component, or None
-#: after reporting its problems.
-SubsystemReader = Callable[[Reader, str, dict[str, Any]], "Subsystem | list[Subsystem] | None"]
-
-#: Ways to state a damping loss factor other than a spectrum: the key of the inline table
-#: (e.g. ``damping = { reverberation_time = 0.5 }``) -> reader(reader, table, path, context)
-#: returning the per-band loss factor. ``context`` carries what the subsystem reader knows
-#: (``volume``, ``surface_area``, ``fluid``, ``area``, ...).
-DampingReader = Callable[[Reader, dict[str, Any], str, Mapping[str, Any]], "Array | None"]
-DAMPING_FORMS: dict[str, DampingReader] = {}
-
-
-def read_damping(
-    rd: Reader, value: Any, path: str, context: Mapping[str, Any] | None = None
-) -> Array | None:
-    """A damping loss factor: a spectrum, or one of the forms in :data:`DAMPING_FORMS`."""
-    if isinstance(value, dict) and not ({"band_hz", "values", "csv"} & set(value)):
-        forms = [k for k in value if k in DAMPING_FORMS]
-        if len(forms) != 1:
-            known = ", ".join(
-                ["a number", "{ band_hz, values }", "{ csv, column }", *DAMPING_FORMS]
-            )
-            rd.error(path, f"state damping as one of: {known}")
-            return None
-        return DAMPING_FORMS[forms[0]](rd, value, path, context or {})
-    return rd.spectrum(value, path, minimum=0.0, strict=False)
-
-
-def _damping(
-    rd: Reader, s: dict[str, Any], path: str, context: Mapping[str, Any] | None = None
-) -> Array | None:
-    return read_damping(rd, s["damping"], f"{path}.damping", context)
-
-
-def _read_structure(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
-    path = f"subsystems.{name}"
-    allowed = ("kind", "description", "mass", "modal_density", "damping")
-    if not rd.keys(s, path, allowed, ("mass", "modal_density", "damping")):
+def _kind_of(
+    rd: Reader,
+    s: Mapping[str, Any],
+    path: str,
+    family: str,
+    kinds: Mapping[str, Any],
+    default: str | None,
+) -> Any:
+    """The declared kind of a table, or None after one error (unknown, renamed, missing)."""
+    if "kind" not in s:
+        if default is not None:
+            return kinds[default]
+        rd.error(f"{path}.kind", "missing required key (one of: " + ", ".join(kinds) + ")")
         return None
-    mass = rd.number(s["mass"], f"{path}.mass", unit="kg")
-    n = rd.spectrum(s["modal_density"], f"{path}.modal_density", unit="modes/Hz")
-    eta = _damping(rd, s, path)
-    if mass is None or n is None or eta is None:
+    kind = s["kind"]
+    renamed = RENAMED.get(family, {})
+    if isinstance(kind, str) and kind in renamed:
+        rd.error(
+            f"{path}.kind",
+            f"{kind!r} was renamed to {renamed[kind]!r}; write kind = {renamed[kind]!r}",
+        )
         return None
-    return Subsystem(
-        name=name,
-        kind="structure",
-        modal_density=n,
-        damping=eta,
-        quantity="velocity",
-        mass=mass,
-        provenance={"modal_density": "given", "damping": "given"},
-    )
-
-
-def _read_exterior(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | None:
-    path = f"subsystems.{name}"
-    if not rd.keys(s, path, ("kind", "description")):
+    if not isinstance(kind, str) or kind not in kinds:
+        rd.error(
+            f"{path}.kind",
+            f"unknown {family} kind {kind!r}"
+            + (closest(kind, kinds) if isinstance(kind, str) else "")
+            + f"; known kinds: {', '.join(kinds)}",
+        )
         return None
-    assert rd.bands is not None
-    nb = len(rd.bands)
-    return Subsystem(
-        name=name,
-        kind="exterior",
-        modal_density=np.full(nb, np.inf),
-        damping=np.zeros(nb),
-        quantity="energy",
-        sink=True,
-        provenance={"modal_density": "free field (sink)"},
-    )
-
-
-#: Readers of subsystem kinds: ``kind`` value -> function(reader, name, table).
-SUBSYSTEM_KINDS: dict[str, SubsystemReader] = {
-    "structure": _read_structure,
-    "exterior": _read_exterior,
-}
+    return kinds[kind]
 
 
 def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
@@ -539,83 +195,68 @@ def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
         return out
     if not t:
         rd.error("subsystems", "no subsystems defined")
+    made: dict[str, str] = {}
     for name, spec in t.items():
         path = f"subsystems.{name}"
+        if not name.strip():
+            rd.error(path, "a subsystem needs a non-empty name")
+            continue
         s = rd.table(spec, path)
         if s is None:
             continue
-        if "kind" not in s:
-            rd.error(
-                f"{path}.kind", "missing required key (one of: " + ", ".join(SUBSYSTEM_KINDS) + ")"
-            )
+        kind = _kind_of(rd, s, path, "subsystem", SUBSYSTEM_KINDS, None)
+        if kind is None:
             continue
-        kind = s["kind"]
-        if not isinstance(kind, str) or kind not in SUBSYSTEM_KINDS:
-            rd.error(
-                f"{path}.kind",
-                f"unknown subsystem kind {kind!r}"
-                + (closest(kind, SUBSYSTEM_KINDS) if isinstance(kind, str) else "")
-                + f"; known kinds: {', '.join(SUBSYSTEM_KINDS)}",
-            )
+        values = check(rd, kind, s, path)
+        if values is None:
             continue
-        if "description" in s:
-            rd.string(s["description"], f"{path}.description")
-        got = SUBSYSTEM_KINDS[kind](rd, name, s)
-        if got is None:
+        n = len(rd.problems)
+        with np.errstate(all="ignore"):
+            try:
+                got = kind.derive(rd, name, values, s, path)
+            except (ValueError, ArithmeticError) as exc:
+                rd.error(path, f"cannot derive the subsystem from these values: {exc}")
+                continue
+        if got is None or len(rd.problems) > n:
             continue
-        out.extend(got if isinstance(got, list) else [got])
+        subs = got if isinstance(got, list) else [got]
+        if not _derived_ok(rd, subs, path, s):
+            continue
+        for sub in subs:
+            if sub.name in made or (sub.name != name and sub.name in t):
+                other = made.get(sub.name) or f"subsystems.{sub.name}"
+                rd.error(
+                    path,
+                    f"the wave field {sub.name!r} of {name!r} has the name of {other}; "
+                    "rename one of them",
+                )
+                continue
+            made[sub.name] = path
+            out.append(sub)
     return out
 
 
+def _derived_ok(rd: Reader, subs: list[Subsystem], path: str, s: Mapping[str, Any]) -> bool:
+    """Derived modal densities, masses and volumes must be finite and positive."""
+    keys = tuple(f"{path}.{k}" for k in s if k not in ("kind", "description", "damping"))
+    ok = True
+    for sub in subs:
+        if sub.sink:
+            continue
+        derived: dict[str, Any] = {f"modal density of {sub.name!r}": sub.modal_density}
+        if sub.mass is not None:
+            derived[f"mass of {sub.name!r}"] = sub.mass
+        if sub.volume is not None:
+            derived[f"volume of {sub.name!r}"] = sub.volume
+        ok = check_derived(rd, path, derived, keys) and ok
+        dm = np.asarray(sub.damping, dtype=float)
+        if not np.all(np.isfinite(dm) & (dm >= 0)):
+            rd.error(f"{path}.damping", "the derived damping loss factor is not finite and >= 0")
+            ok = False
+    return ok
+
+
 # Connections ----------------------------------------------------------------------------
-
-#: A connection reader gets the connection's table, its ends (the subsystems named in
-#: ``between``, in order) and every subsystem read so far (to find the other wave fields
-#: of a component); it returns one or more connections, or None after reporting problems.
-ConnectionReader = Callable[
-    [Reader, str, dict[str, Any], list[Subsystem], Mapping[str, Subsystem]],
-    "Connection | list[Connection] | None",
-]
-
-
-def _read_given_connection(
-    rd: Reader,
-    name: str,
-    s: dict[str, Any],
-    ends: list[Subsystem],
-    subs: Mapping[str, Subsystem],
-) -> Connection | None:
-    path = f"connections.{name}"
-    if not rd.keys(
-        s,
-        path,
-        ("kind", "description", "between", "coupling_loss_factor"),
-        ("coupling_loss_factor",),
-    ):
-        return None
-    if len(ends) != 2:
-        rd.error(
-            f"{path}.between", f"a given coupling loss factor joins two subsystems, got {len(ends)}"
-        )
-        return None
-    a, b = ends
-    if a.sink:
-        rd.error(
-            f"{path}.between",
-            f"put the exterior {a.name!r} second: a coupling loss factor is stated from the "
-            "structure into the exterior",
-        )
-        return None
-    eta = rd.spectrum(s["coupling_loss_factor"], f"{path}.coupling_loss_factor")
-    if eta is None:
-        return None
-    return Connection(
-        name, a.name, b.name, eta, kind="given", provenance={"coupling_loss_factor": "given"}
-    )
-
-
-#: Readers of connection kinds: ``kind`` value -> function(reader, name, table, (a, b)).
-CONNECTION_KINDS: dict[str, ConnectionReader] = {"given": _read_given_connection}
 
 
 def _read_connections(
@@ -632,20 +273,24 @@ def _read_connections(
         s = rd.table(spec, path)
         if s is None:
             continue
+        kind = _kind_of(rd, s, path, "connection", CONNECTION_KINDS, "given")
         if "between" not in s:
-            rd.error(f"{path}.between", "missing required key (two subsystem names)")
+            if kind is not None:  # misspelt keys, with the right name, and the missing one
+                rd.keys(s, path, kind.allowed, ("between", *kind.required))
+            else:
+                rd.error(f"{path}.between", "missing required key (two subsystem names)")
             continue
         btw = s["between"]
         if not isinstance(btw, list) or len(btw) < 2:
             rd.error(
                 f"{path}.between",
-                f"must be an array of at least two subsystem names, got {_type_name(btw)}",
+                f"must be an array of at least two subsystem names, got {type_name(btw)}",
             )
             continue
-        names = []
-        for k, nm in enumerate(btw):
-            r = rd.name_ref(nm, f"{path}.between[{k}]", declared, "subsystem")
-            names.append(r)
+        names = [
+            rd.name_ref(nm, f"{path}.between[{k}]", declared, "subsystem")
+            for k, nm in enumerate(btw)
+        ]
         if None in names:
             continue
         if len(set(names)) != len(names):
@@ -660,96 +305,35 @@ def _read_connections(
         if sum(e.sink for e in ends) > 1:
             rd.error(f"{path}.between", "two exterior subsystems cannot be connected")
             continue
-        kind = s.get("kind", "given")
-        if not isinstance(kind, str) or kind not in CONNECTION_KINDS:
-            rd.error(
-                f"{path}.kind",
-                f"unknown connection kind {kind!r}"
-                + (closest(kind, CONNECTION_KINDS) if isinstance(kind, str) else "")
-                + f"; known kinds: {', '.join(CONNECTION_KINDS)}",
+        if kind is None:
+            continue
+        values = check(rd, kind, s, path)
+        if values is None:
+            continue
+        n = len(rd.problems)
+        with np.errstate(all="ignore"):
+            try:
+                got = kind.derive(rd, name, values, s, ends, subs, path)
+            except (ValueError, ArithmeticError) as exc:
+                rd.error(path, f"cannot derive the coupling from these values: {exc}")
+                continue
+        if got is None or len(rd.problems) > n:
+            continue
+        cons = got if isinstance(got, list) else [got]
+        if all(
+            check_derived(
+                rd,
+                path,
+                {f"coupling loss factor of {c.name!r}": c.coupling_loss_factor},
+                tuple(f"{path}.{k}" for k in s if k not in ("kind", "description")),
             )
-            continue
-        got = CONNECTION_KINDS[kind](rd, name, s, ends, subs)
-        if got is None:
-            continue
-        out.extend(got if isinstance(got, list) else [got])
+            for c in cons
+        ):
+            out.extend(cons)
     return out
 
 
 # Excitations ----------------------------------------------------------------------------
-
-ExcitationConvert = Callable[
-    [Reader, Subsystem, Array, str, dict[str, Any]], "tuple[str, Array] | None"
-]
-
-
-@dataclass(frozen=True)
-class ExcitationKey:
-    """How one excitation key is read.
-
-    ``convert(reader, subsystem, values, path, table)`` turns the per-band values into
-    ``('power', watts)`` or ``('prescribed', joules)``, or reports a problem and returns
-    None. ``extra`` lists further keys this form accepts in the same table.
-    """
-
-    unit: str
-    convert: ExcitationConvert
-    minimum: float | None = None
-    strict: bool = True
-    extra: tuple[str, ...] = ()
-
-
-def _need(rd: Reader, sub: Subsystem, path: str, quantity: str) -> bool:
-    if sub.quantity != quantity:
-        key = path.rsplit(".", 1)[-1]
-        rd.error(
-            path,
-            f"{key} needs a subsystem whose level is {quantity.replace('_', ' ')}; "
-            f"{sub.name!r} is a {sub.kind}",
-        )
-        return False
-    return True
-
-
-def _conv_power(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
-    return "power", v
-
-
-def _conv_power_level(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
-    return "power", levels.REFERENCE["power"] * 10.0 ** (v / 10.0)
-
-
-def _conv_spl(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
-    if not _need(rd, sub, path, "sound_pressure"):
-        return None
-    assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
-    p_sq = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (v / 10.0)
-    return "prescribed", p_sq * sub.volume / (sub.density * sub.sound_speed**2)
-
-
-def _conv_velocity(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
-    if not _need(rd, sub, path, "velocity"):
-        return None
-    assert sub.mass is not None
-    return "prescribed", sub.mass * levels.REFERENCE["velocity"] ** 2 * 10.0 ** (v / 10.0)
-
-
-def _conv_acceleration(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]):  # type: ignore[no-untyped-def]
-    if not _need(rd, sub, path, "velocity"):
-        return None
-    assert sub.mass is not None and rd.bands is not None
-    a_sq = levels.REFERENCE["acceleration"] ** 2 * 10.0 ** (v / 10.0)
-    return "prescribed", sub.mass * a_sq / rd.bands.omega**2
-
-
-#: Keys that state what an excitation gives (exactly one per excitation).
-EXCITATION_KEYS: dict[str, ExcitationKey] = {
-    "power": ExcitationKey("W", _conv_power, minimum=0.0, strict=False),
-    "sound_power_level": ExcitationKey("dB re 1 pW", _conv_power_level),
-    "sound_pressure_level": ExcitationKey("dB re 20 uPa", _conv_spl),
-    "velocity_level": ExcitationKey("dB re 1e-9 m/s", _conv_velocity),
-    "acceleration_level": ExcitationKey("dB re 1e-6 m/s^2", _conv_acceleration),
-}
 
 
 def _read_excitations(
@@ -768,37 +352,42 @@ def _read_excitations(
         s = rd.table(spec, path)
         if s is None:
             continue
-        given = [k for k in EXCITATION_KEYS if k in s]
-        extra = tuple(x for k in given for x in EXCITATION_KEYS[k].extra)
-        allowed = ("subsystem", "description", *EXCITATION_KEYS, *extra)
+        given = [k for k in EXCITATION_KINDS if k in s]
+        extra = tuple(p.name for k in given for p in EXCITATION_KINDS[k].params if p.name != k)
+        allowed = ("subsystem", "description", *EXCITATION_KINDS, *extra)
         if not rd.keys(s, path, allowed, ("subsystem",)):
             continue
         if len(given) != 1:
             what = "none" if not given else ", ".join(given)
-            rd.error(path, f"give exactly one of {', '.join(EXCITATION_KEYS)} (got {what})")
+            rd.error(path, f"give exactly one of {', '.join(EXCITATION_KINDS)} (got {what})")
             continue
         key = given[0]
-        spec_key = EXCITATION_KEYS[key]
+        kind = EXCITATION_KINDS[key]
         sname = rd.name_ref(s["subsystem"], f"{path}.subsystem", declared, "subsystem")
-        if sname is None or sname not in subs:
+        values = check(rd, kind, {k: v for k, v in s.items() if k in kind.allowed}, path)
+        if sname is None or sname not in subs or values is None:
             continue
         sub = subs[sname]
         if sub.sink:
             rd.error(f"{path}.subsystem", f"{sname!r} is the exterior; it cannot be excited")
             continue
         kpath = f"{path}.{key}"
-        v = rd.spectrum(
-            s[key], kpath, unit=spec_key.unit, minimum=spec_key.minimum, strict=spec_key.strict
-        )
-        if v is None:
-            continue
-        got = spec_key.convert(rd, sub, v, kpath, s)
+        v = values[key]
+        with np.errstate(all="ignore"):
+            got = kind.derive(rd, sub, v, kpath, s)
         if got is None:
             continue
-        kind, arr = got
+        what, arr = got
+        if not check_derived(
+            rd,
+            kpath,
+            {"power" if what == "power" else "held energy": np.where(arr == 0, 1.0, arr)},
+            (kpath,),
+        ):
+            continue
         desc = s.get("description", "")
         desc = desc if isinstance(desc, str) else ""
-        if kind == "prescribed":
+        if what == "prescribed":
             if sname in held or sname in powered:
                 other = held.get(sname) or powered[sname]
                 rd.error(
@@ -831,34 +420,14 @@ def _read_excitations(
 # ----------------------------------------------------------------------------------------
 
 
-def _declared_subsystems(data: Mapping[str, Any]) -> dict[str, None]:
-    subs = data.get("subsystems")
-    return dict.fromkeys(subs) if isinstance(subs, dict) else {}
-
-
-#: Modules that register further readers into the registries above (imported before the
-#: first model is read, so that physics-derived kinds are available).
-READER_MODULES: list[str] = [
-    "seatool.kinds.subsystems",
-    "seatool.kinds.connections",
-    "seatool.kinds.treatment",
-]
-
-
-def register_readers() -> None:
-    """Import every module of :data:`READER_MODULES` (idempotent)."""
-    import importlib
-
-    for mod in READER_MODULES:
-        importlib.import_module(mod)
-
-
 def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
     """Read a model from TOML text. See :func:`load`."""
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError([Problem(file, "", f"not valid TOML: {exc}")]) from None
+    except RecursionError:
+        raise InputError([Problem(file, "", f"nested more than {MAX_DEPTH} levels deep")]) from None
     return build(data, file=file, base_dir=base_dir)
 
 
@@ -867,12 +436,13 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
 
     Used by :func:`loads`, and by analyses that rebuild a model with changed parameters.
     """
-    register_readers()
+    if _depth(data, MAX_DEPTH) > MAX_DEPTH:
+        raise InputError([Problem(file, "", f"nested more than {MAX_DEPTH} levels deep")])
     rd = Reader(file=file, base_dir=Path(base_dir))
     rd.keys(data, "", _TOP_KEYS)
     title = data.get("title", "")
     if not isinstance(title, str):
-        rd.error("title", f"must be a string, got {_type_name(title)}")
+        rd.error("title", f"must be a string, got {type_name(title)}")
         title = ""
     if "description" in data:
         rd.string(data["description"], "description")
@@ -881,12 +451,13 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
         raise InputError(rd.problems)
     _read_fluids(rd, data.get("fluids", _MISSING))
     _read_materials(rd, data.get("materials", _MISSING))
-    declared = _declared_subsystems(data)
     raw_subs = data.get("subsystems")
     rd.declared = dict(raw_subs) if isinstance(raw_subs, dict) else {}
+    declared = dict.fromkeys(rd.declared)
     subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
+    spreads = read_uncertainty_section(rd, data)
     if rd.problems:
         raise InputError(rd.problems)
     try:
@@ -899,6 +470,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             source=file,
             notes=tuple(rd.notes),
             reports=tuple(rd.reports),
+            uncertainty=tuple(spreads),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None

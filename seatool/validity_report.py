@@ -29,6 +29,8 @@ import pandas as pd
 from .model import Model, Subsystem
 from .physics import elastic
 from .physics import validity as pv
+from .properties import DuctProps, PanelProps, has_thin_plate_limit, is_resonator
+from .solve import assemble
 
 __all__ = [
     "SubsystemValidity",
@@ -98,14 +100,14 @@ class SubsystemValidity:
 
 
 def _counted(s: Subsystem) -> bool:
-    return not s.sink and s.properties.get("wave_type") != "resonator"
+    return not s.sink and not is_resonator(s)
 
 
 def _limits(s: Subsystem, f: Array) -> tuple[tuple[str, BoolArray, str], ...]:
-    p = s.properties
+    p = s.props
     out: list[tuple[str, BoolArray, str]] = []
-    if "cut_on_frequency" in p:
-        fc = float(p["cut_on_frequency"])
+    if isinstance(p, DuctProps):
+        fc = float(p.cut_on_frequency)
         out.append(
             (
                 "above_cut_on",
@@ -114,17 +116,11 @@ def _limits(s: Subsystem, f: Array) -> tuple[tuple[str, BoolArray, str], ...]:
                 "modal density undercounts the modes",
             )
         )
-    if (
-        s.kind in ("plate", "orthotropic_plate", "ribbed_plate", "cylindrical_shell")
-        and p.get("wave_type") == "bending"
-        and "material" in p
-        and "thickness" in p
-    ):
-        mat = p["material"]
-        c_l = elastic.plate_longitudinal_speed(
-            mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
-        )
-        f_max = float(pv.thin_plate_upper_frequency(p["thickness"], c_l))
+    if has_thin_plate_limit(s):
+        assert isinstance(p, PanelProps)
+        mat = p.material
+        c_l = elastic.plate_longitudinal_speed(mat.youngs_modulus, mat.density, mat.poisson_ratio)
+        f_max = float(pv.thin_plate_upper_frequency(p.thickness, c_l))
         out.append(
             (
                 "thick_plate",
@@ -133,8 +129,8 @@ def _limits(s: Subsystem, f: Array) -> tuple[tuple[str, BoolArray, str], ...]:
                 "thicknesses): shear and rotary inertia lower the modal density estimate",
             )
         )
-    if "bay_frequency" in p:
-        fb = float(p["bay_frequency"])
+    if isinstance(p, PanelProps) and p.bay_frequency is not None:
+        fb = float(p.bay_frequency)
         out.append(
             (
                 "above_bay_frequency",
@@ -154,8 +150,6 @@ def assess_model(
 ) -> list[SubsystemValidity]:
     """Validity indicators of every modal subsystem of ``model`` (exterior and resonators
     are left out: the exterior holds no modes, a resonator is one mode by design)."""
-    from .solve import assemble
-
     b = model.bands
     diag = assemble(model).diag
     out = []

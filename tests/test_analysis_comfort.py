@@ -32,7 +32,7 @@ kind = "third-octave"
 lowest = 25
 highest = 12500
 [subsystems.room]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [4.0, 3.0, 2.5]
 damping = 0.01
 [subsystems.panel]

@@ -306,7 +306,7 @@ def test_material_section_with_base(tmp_path, capsys):
     # the built-in glass with a changed loss factor: damping defaults to it
     assert float(pane.damping[0]) == 0.03
     assert (
-        pane.properties["material"]["density"]
+        pane.props.material.density
         == seatool.materials.load_materials()["glass"].density
     )
     path.write_text(text.replace('base = "glass"', 'base = "glas"'))
@@ -315,3 +315,126 @@ def test_material_section_with_base(tmp_path, capsys):
     assert (
         len(err) == 1 and "materials.laminated.base" in err[0] and "did you mean 'glass'" in err[0]
     )
+
+
+# -- checks driven by the kinds' declarations ----------------------------------------------
+
+DECLARED_CASES = [
+    # (id, replace-from, replace-to, expected fragments, number of lines)
+    (
+        # a misspelt 'between' is named as unknown with the right name, not only "missing"
+        "misspelt-between",
+        'between = ["panel", "box"]',
+        'betwen = ["panel", "box"]',
+        ["connections.rad.betwen", "unknown key", "did you mean 'between'"],
+        1,
+    ),
+    (
+        # the second name of the cavity kind is gone: a clear rename message
+        "renamed-kind",
+        'kind = "cavity"',
+        'kind = "acoustic_cavity"',
+        ["subsystems.box.kind", "renamed to 'cavity'"],
+        1,
+    ),
+    (
+        # physical bounds (common practice): a cavity of 1e300 m^3 is a typing slip
+        "volume-out-of-bounds",
+        "volume = 2.0",
+        "volume = 1e300",
+        ["subsystems.box.volume", "outside the physical bounds", "common practice"],
+        1,
+    ),
+    (
+        "huge-sound-power-level",
+        "power = 1e-3",
+        "sound_power_level = 1e10",
+        ["excitations.shaker.sound_power_level", "outside the physical bounds"],
+        1,
+    ),
+    (
+        "empty-subsystem-name",
+        "[subsystems.panel]",
+        '[subsystems.""]\nkind = "exterior"\n[subsystems.panel]',
+        ['subsystems.', "non-empty name"],
+        1,
+    ),
+    (
+        "uncertainty-bogus-key",
+        "[excitations.shaker]",
+        '[uncertainty.eta]\nparameter = "subsystems.panel.damping"\ndistribution = "lognormal"\n'
+        "factor = 1.5\nfactr = 2\n[excitations.shaker]",
+        ["uncertainty.eta.factr", "unknown key", "did you mean 'factor'"],
+        1,
+    ),
+]
+
+
+@pytest.mark.parametrize(
+    ("frm", "to", "frags", "nlines"),
+    [c[1:] for c in DECLARED_CASES],
+    ids=[c[0] for c in DECLARED_CASES],
+)
+@pytest.mark.parametrize("command", ["check", "solve"])
+def test_declared_checks_exit_2(tmp_path, capsys, frm, to, frags, nlines, command):
+    assert frm in GOOD, frm
+    path = tmp_path / "model.toml"
+    path.write_text(GOOD.replace(frm, to, 1))
+    code = main([command, str(path)])
+    err = [ln for ln in capsys.readouterr().err.splitlines() if ln.strip()]
+    assert code == 2, err
+    assert len(err) == nlines, err
+    assert "Traceback" not in "\n".join(err)
+    for frag in frags:
+        assert frag in err[0], (frag, err[0])
+
+
+def test_plate_thickness_in_millimetres_is_refused_with_a_hint(tmp_path, capsys):
+    # bounds of a plate thickness: 1e-5 .. 1 m (common practice); 6 typed for 6 mm
+    text = (
+        "[bands]\nlowest = 1000\nhighest = 1000\n"
+        '[subsystems.pane]\nkind = "plate"\nmaterial = "glass"\nthickness = 6\nlx = 1.0\nly = 0.8\n'
+    )
+    path = tmp_path / "m.toml"
+    path.write_text(text)
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "subsystems.pane.thickness" in err[0], err
+    assert "millimetres" in err[0], err
+
+
+def test_generated_name_colliding_with_a_declared_one_is_an_error(tmp_path, capsys):
+    # a plate with in-plane fields makes 'pane.longitudinal'; a second subsystem of that
+    # name must not silently replace (or be replaced by) it
+    text = (
+        "[bands]\nlowest = 1000\nhighest = 1000\n"
+        '[subsystems.pane]\nkind = "plate"\nmaterial = "glass"\nthickness = 0.006\nlx = 1.0\n'
+        'ly = 0.8\nwave_fields = ["bending", "longitudinal"]\n'
+        '[subsystems."pane.longitudinal"]\nkind = "structure"\nmass = 1.0\nmodal_density = 1.0\n'
+        "damping = 0.01\n"
+    )
+    path = tmp_path / "m.toml"
+    path.write_text(text)
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1, err
+    assert "'pane.longitudinal'" in err[0] and "subsystems.pane" in err[0], err
+
+
+def test_derived_values_must_be_finite_and_positive():
+    # the generic check run on every derived quantity: a non-finite or non-positive value
+    # is an input problem naming the key paths it came from (never an internal error)
+    from pathlib import Path
+
+    from seatool.kinds.reader import Reader
+    from seatool.kinds.validate import check_derived
+
+    rd = Reader("m.toml", Path("."))
+    keys = ("subsystems.p.thickness", "subsystems.p.material")
+    assert check_derived(rd, "subsystems.p", {"bending stiffness": 2.0}, keys)
+    assert not rd.problems
+    assert not check_derived(rd, "subsystems.p", {"bending stiffness": float("inf")}, keys)
+    assert not check_derived(rd, "subsystems.p", {"volume": [1.0, 0.0]}, keys)
+    assert len(rd.problems) == 2
+    for pr in rd.problems:
+        assert pr.path == "subsystems.p" and "subsystems.p.thickness" in pr.message

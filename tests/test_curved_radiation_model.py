@@ -29,8 +29,8 @@ def expected_eta(
     *, closed: bool = False, curved: bool = True,
 ) -> np.ndarray:  # fmt: skip
     b = m.bands
-    air = m.subsystem(cavity).properties
-    rho, c = float(air["density"]), float(air["sound_speed"])
+    air = m.subsystem(cavity).props
+    rho, c = float(air.density), float(air.sound_speed)
     mpa = RHO_AL * h
     d = E_AL * h**3 / (12 * (1 - NU_AL**2))
     fc = c**2 / (2 * math.pi) * math.sqrt(mpa / d)
@@ -44,7 +44,7 @@ def expected_eta(
         sigma = rad.radiation_efficiency_band(
             b.centre, lx, ly, fc, f_lower=b.lower, f_upper=b.upper, c0=c
         )
-    assert m.subsystem(shell).properties["mass_per_area"] == mpa
+    assert m.subsystem(shell).props.mass_per_area == mpa
     return np.asarray(rho * c * sigma / (b.omega * mpa))
 
 
@@ -82,7 +82,7 @@ lowest = 100
 highest = 2000
 
 [subsystems.box]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [2.0, 2.0, 2.0]
 damping = 0.05
 """
@@ -124,8 +124,8 @@ method = "maidanik"
     arc = connection(m, "arc_box")
     assert "curvature not included" in arc.provenance["coupling_loss_factor"]
     b = m.bands
-    air = m.subsystem("box").properties
-    rho, c = float(air["density"]), float(air["sound_speed"])
+    air = m.subsystem("box").props
+    rho, c = float(air.density), float(air.sound_speed)
     h = 0.002
     fc = c**2 / (2 * math.pi) * math.sqrt(RHO_AL * h / (E_AL * h**3 / (12 * (1 - NU_AL**2))))
     sigma = rad.radiation_efficiency_band(

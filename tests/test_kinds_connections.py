@@ -1,12 +1,14 @@
-"""Connection kinds derived from physics (seatool/kinds/connections.py).
+"""Connection kinds derived from physics (seatool/kinds/panel_paths.py, junction_lines.py,
+point_links.py, leaks.py).
 
-Subsystems are built here in Python with the ``Subsystem.properties`` contract of
-DEVELOPERS.md (modal densities from the structural modules of seatool.physics and acoustic), so that the
-readers are checked independently of the subsystem readers. Each check names its source.
+Subsystems are built here in Python with the typed properties of seatool.properties
+(modal densities from the structural modules of seatool.physics and acoustic), so that the connection kinds
+are checked independently of the subsystem kinds. Each check names its source.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from pathlib import Path
 from types import SimpleNamespace
@@ -15,19 +17,35 @@ from typing import Any
 import numpy as np
 import pytest
 
-import seatool.kinds.connections as K
+import seatool.kinds.panel_paths as K
 from seatool.bands import BandAxis
 from seatool.cli import main
+from seatool.kinds.links import critical_frequency_per_band
+from seatool.kinds.params import Kind, Param
+from seatool.kinds.validate import check
 from seatool.model import Connection, Subsystem
 from seatool.modelfile import CONNECTION_KINDS, SUBSYSTEM_KINDS, Reader
 from seatool.physics import acoustic, beams, elastic, mobility, plates
+from seatool.properties import (
+    BeamProps,
+    BeamSectionProps,
+    CavityProps,
+    FluidProps,
+    MaterialProps,
+    PanelProps,
+)
 
 AIR = (1.204, 343.2)
 STEEL = {"density": 7850.0, "youngs_modulus": 210e9, "poisson_ratio": 0.3}
 ALU = {"density": 2700.0, "youngs_modulus": 70e9, "poisson_ratio": 0.33}
+AIR_PROPS = FluidProps(name="air", density=AIR[0], sound_speed=AIR[1])
 
 
-# -- builders with the properties contract ------------------------------------------------
+def material(mat: dict[str, float]) -> MaterialProps:
+    return MaterialProps(name="test", loss_factor=None, source="test", **mat)
+
+
+# -- builders with typed properties -------------------------------------------------------
 
 
 def plate(
@@ -44,21 +62,23 @@ def plate(
     f = bands.centre
     d = float(plates.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
     m = mat["density"] * h
-    props: dict[str, Any] = {
-        "wave_type": "bending",
-        "area": lx * ly,
-        "lx": lx,
-        "ly": ly,
-        "perimeter": 2 * (lx + ly),
-        "thickness": h,
-        "mass_per_area": m,
-        "material": dict(mat),
-        "bending_stiffness": d,
-        "group_speed": plates.plate_bending_group_speed(f, d, m),
-        "critical_frequency": float(plates.critical_frequency(d, m, AIR[1])),
-    }
-    if treatment is not None:
-        props["treatment"] = treatment
+    props = PanelProps(
+        wave_type="bending",
+        wavenumber=plates.plate_bending_wavenumber(f, d, m),
+        phase_speed=plates.plate_bending_phase_speed(f, d, m),
+        group_speed=plates.plate_bending_group_speed(f, d, m),
+        area=lx * ly,
+        lx=lx,
+        ly=ly,
+        perimeter=2 * (lx + ly),
+        thickness=h,
+        mass_per_area=m,
+        material=material(mat),
+        fluid=AIR_PROPS,
+        bending_stiffness=d,
+        critical_frequency=float(plates.critical_frequency(d, m, AIR[1])),
+        treatment=treatment,
+    )
     n = plates.plate_bending_modal_density(f, lx * ly, d, m)
     return Subsystem(
         name,
@@ -67,21 +87,28 @@ def plate(
         np.full(len(bands), eta),
         quantity="velocity",
         mass=m * lx * ly,
-        properties=props,
+        props=props,
     )
 
 
 def inplane(p: Subsystem, bands: BandAxis, wave: str) -> Subsystem:
-    mat = p.properties["material"]
-    e, rho, nu = mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
-    s = p.properties["area"]
+    mat = p.props.material
+    e, rho, nu = mat.youngs_modulus, mat.density, mat.poisson_ratio
+    s = p.props.area
     if wave == "longitudinal":
         c = float(elastic.plate_longitudinal_speed(e, rho, nu))
         n = plates.plate_inplane_longitudinal_modal_density(bands.centre, s, c)
     else:
         c = float(elastic.shear_speed(e, rho, nu))
         n = plates.plate_inplane_shear_modal_density(bands.centre, s, c)
-    props = dict(p.properties, wave_type=wave, group_speed=np.full(len(bands), c))
+    props = dataclasses.replace(
+        p.props,
+        wave_type=wave,
+        critical_frequency=None,
+        wavenumber=bands.omega / c,
+        phase_speed=np.full(len(bands), c),
+        group_speed=np.full(len(bands), c),
+    )
     return Subsystem(
         f"{p.name}.{wave}",
         "plate",
@@ -90,7 +117,7 @@ def inplane(p: Subsystem, bands: BandAxis, wave: str) -> Subsystem:
         quantity="velocity",
         mass=p.mass,
         component=p.name,
-        properties=props,
+        props=props,
     )
 
 
@@ -107,7 +134,16 @@ def room(name: str, bands: BandAxis, volume: float, fluid: tuple[float, float] =
         volume=volume,
         density=rho,
         sound_speed=c,
-        properties={"wave_type": "acoustic", "volume": volume, "density": rho, "sound_speed": c},
+        props=CavityProps(
+            wave_type="acoustic",
+            wavenumber=bands.omega / c,
+            phase_speed=np.full(len(bands), c),
+            group_speed=np.full(len(bands), c),
+            volume=volume,
+            density=rho,
+            sound_speed=c,
+            fluid=FluidProps(name="test", density=rho, sound_speed=c),
+        ),
     )
 
 
@@ -117,13 +153,18 @@ def beam(name: str, bands: BandAxis, *, length: float = 2.0, b: float = 0.04, hb
     i_y = b * hb**3 / 12
     m1 = mat["density"] * area
     n = beams.beam_bending_modal_density(bands.centre, length, mat["youngs_modulus"], i_y, m1)
-    props = {
-        "wave_type": "bending_y",
-        "length": length,
-        "mass_per_length": m1,
-        "material": dict(mat),
-        "section": {"area": area, "I_y": i_y, "I_z": hb * b**3 / 12},
-    }
+    f = bands.centre
+    e = mat["youngs_modulus"]
+    props = BeamProps(
+        wave_type="bending_y",
+        wavenumber=beams.beam_bending_wavenumber(f, e, i_y, m1),
+        phase_speed=beams.beam_bending_phase_speed(f, e, i_y, m1),
+        group_speed=beams.beam_bending_group_speed(f, e, i_y, m1),
+        length=length,
+        mass_per_length=m1,
+        material=material(mat),
+        section=BeamSectionProps(area=area, I_y=i_y, I_z=hb * b**3 / 12, J=0.0, I_p=0.0),
+    )
     return Subsystem(
         name,
         "beam",
@@ -131,7 +172,7 @@ def beam(name: str, bands: BandAxis, *, length: float = 2.0, b: float = 0.04, hb
         np.full(len(bands), 0.01),
         quantity="velocity",
         mass=m1 * length,
-        properties=props,
+        props=props,
     )
 
 
@@ -151,8 +192,12 @@ def read(
 ) -> list[Connection]:
     rd = reader(bands)
     subs = {s.name: s for s in (*ends, *others)}
+    rd.declared = dict(subs)
     t = {"kind": kind, "between": [e.name for e in ends], **table}
-    got = CONNECTION_KINDS[kind](rd, "c", t, ends, subs)
+    k = CONNECTION_KINDS[kind]
+    values = check(rd, k, t, "connections.c")
+    assert values is not None, rd.problems
+    got = k.derive(rd, "c", values, t, ends, subs, "connections.c")
     assert not rd.problems, rd.problems
     assert got is not None
     return got if isinstance(got, list) else [got]
@@ -186,10 +231,10 @@ def test_radiation_reciprocity_from_diffuse_field_power_input(bands):
     (c,) = read(bands, "radiation", {}, [p, r])
     assert (c.a, c.b) == ("wall", "room")
     rd = reader(bands)
-    _, sigma = K.radiation_clf(rd, p.properties, AIR)
+    _, sigma = K.radiation_clf(rd, p.props, AIR)
     p2 = 1.0
     w = mobility.diffuse_field_power_input(
-        bands.centre, p2, sigma, p.modal_density, p.properties["mass_per_area"], AIR[1]
+        bands.centre, p2, sigma, p.modal_density, p.props.mass_per_area, AIR[1]
     )
     e_c = r.volume * p2 / (AIR[0] * AIR[1] ** 2)
     eta_cp = w / (bands.omega * e_c)
@@ -207,8 +252,8 @@ def test_radiation_above_coincidence_matches_maidanik_limit():
     r = room("room", bands, 50.0)
     (c,) = read(bands, "radiation", {}, [r, p])
     f = bands.centre
-    m = p.properties["mass_per_area"]
-    f_c = AIR[1] ** 2 / (2 * math.pi) * math.sqrt(m / p.properties["bending_stiffness"])
+    m = p.props.mass_per_area
+    f_c = AIR[1] ** 2 / (2 * math.pi) * math.sqrt(m / p.props.bending_stiffness)
     expect = AIR[0] * AIR[1] / (2 * math.pi * f * m) / np.sqrt(1 - f_c / f)
     np.testing.assert_allclose(c.coupling_loss_factor, expect, rtol=0.02)
 
@@ -217,8 +262,8 @@ def test_radiation_recomputes_critical_frequency_for_the_cavity_fluid(bands):
     # f_c = c^2/(2 pi) sqrt(m''/D) (Cremer 1942): in water (c = 1480 m/s) it is
     # (1480/343.2)^2 times the value in air.
     p = plate("hull", bands, h=0.006)
-    f_air = p.properties["critical_frequency"]
-    f_w = K.panel_critical_frequency(p.properties, 1480.0, len(bands))
+    f_air = p.props.critical_frequency
+    f_w = critical_frequency_per_band(p.props, 1480.0, len(bands))
     np.testing.assert_allclose(f_w, f_air * (1480.0 / AIR[1]) ** 2, rtol=1e-12)
     # and the CLF into a water cavity uses it: every band is then below coincidence,
     # where sigma < 1, while in air the bands above 2 kHz radiate with sigma >= 1.
@@ -226,7 +271,7 @@ def test_radiation_recomputes_critical_frequency_for_the_cavity_fluid(bands):
     w = room("tank", bands, 5.0, fluid=water)
     (c,) = read(bands, "radiation", {}, [p, w])
     sigma = (
-        c.coupling_loss_factor * bands.omega * p.properties["mass_per_area"] / (water[0] * water[1])
+        c.coupling_loss_factor * bands.omega * p.props.mass_per_area / (water[0] * water[1])
     )
     assert np.all(sigma < 1.0)
 
@@ -273,7 +318,7 @@ def test_treatment_reduces_only_the_treated_face(bands):
     # the non-resonant path crosses the treatment whichever face it is on
     (n1,) = read(bands, "nonresonant", {"through": "floor"}, [cabin, hold], p)
     (n0,) = read(bands, "nonresonant", {"through": "floor"}, [cabin, hold], bare)
-    below = bands.centre < 0.9 * p.properties["critical_frequency"]
+    below = bands.centre < 0.9 * p.props.critical_frequency
     np.testing.assert_allclose(
         n1.coupling_loss_factor[below], (n0.coupling_loss_factor * 10 ** (-il / 10))[below]
     )
@@ -293,13 +338,13 @@ def test_nonresonant_reciprocity_and_mass_law(bands):
     (c21,) = read(bands, "nonresonant", {"through": "pane"}, [r2, r1], p)
     reverse_ok(c12, c21, {s.name: s for s in (r1, r2)}, rtol=1e-12)
     f = bands.centre
-    tau = c12.coupling_loss_factor * 4 * bands.omega * 50.0 / (AIR[1] * p.properties["area"])
-    m = p.properties["mass_per_area"]
+    tau = c12.coupling_loss_factor * 4 * bands.omega * 50.0 / (AIR[1] * p.props.area)
+    m = p.props.mass_per_area
     sel = (bands.nominal >= 125) & (bands.nominal <= 1000)
     r_vigran = 20 * np.log10(f * m) - 47.0
     assert np.all(np.abs(-10 * np.log10(tau[sel]) - r_vigran[sel]) < 1.5)
     # Above coincidence (f_c ~ 3.1 kHz) the forced path is zero: only a vanishing floor.
-    above = f > p.properties["critical_frequency"] * 1.1
+    above = f > p.props.critical_frequency * 1.1
     assert np.all(tau[above] <= K.TAU_FLOOR * (1 + 1e-12))
 
 
@@ -324,7 +369,7 @@ def test_line_L_junction_identical_plates_tends_to_cremer(bands):
     b = plate("b", bands, lx=1.0, ly=1.5)
     (c,) = read(bands, "line", {"length": 1.0}, [a, b])
     f = bands.centre
-    d, m = a.properties["bending_stiffness"], a.properties["mass_per_area"]
+    d, m = a.props.bending_stiffness, a.props.mass_per_area
     c_b = np.sqrt(2 * np.pi * f) * (d / m) ** 0.25
     expect = 2 * c_b * 1.0 * (1 / 3) / (np.pi * 2 * np.pi * f * 1.0)
     sel = bands.nominal <= 1000
@@ -395,7 +440,7 @@ def test_point_identical_plates_against_mode_count():
     b = plate("b", bands, lx=2.0, ly=1.5)
     (c,) = read(bands, "point", {}, [a, b])
     n_count = _exact_mode_count_density(
-        2.0, 1.5, a.properties["bending_stiffness"], a.properties["mass_per_area"], 500.0, 4000.0
+        2.0, 1.5, a.props.bending_stiffness, a.props.mass_per_area, 500.0, 4000.0
     )
     expect = 1 / (bands.omega * n_count)
     np.testing.assert_allclose(c.coupling_loss_factor, expect, rtol=0.05)
@@ -430,7 +475,7 @@ def test_mount_limits(bands):
     np.testing.assert_allclose(stiff.coupling_loss_factor, rig.coupling_loss_factor, rtol=1e-5)
     k = 1e3
     (soft,) = read(bands, "mount", {"stiffness": k, "points": 2}, [a, b])
-    y2 = 1 / (8 * math.sqrt(b.properties["bending_stiffness"] * b.properties["mass_per_area"]))
+    y2 = 1 / (8 * math.sqrt(b.props.bending_stiffness * b.props.mass_per_area))
     w = bands.omega
     expect = 2 * y2 * k**2 / (w**3 * a.mass)
     np.testing.assert_allclose(soft.coupling_loss_factor, expect, rtol=0.01)
@@ -462,9 +507,9 @@ def test_leak_open_and_circular(bands):
 # -- bad input: one line, exit 2, key path --------------------------------------------
 
 
-def _test_plate_kind(rd: Reader, name: str, t: dict[str, Any]):
-    """A test-only subsystem kind making contract-complete plates and rooms from a few
-    numbers (the real kinds live in seatool.kinds.subsystems)."""
+def _test_plate_derive(rd: Reader, name: str, v: dict[str, Any], t: dict[str, Any], path: str):
+    """A test-only subsystem kind making complete plates and rooms from a few numbers (the
+    real kinds live in seatool.kinds.plates and seatool.kinds.cavities)."""
     assert rd.bands is not None
     if "volume" in t:
         return room(name, rd.bands, float(t["volume"]))
@@ -472,6 +517,14 @@ def _test_plate_kind(rd: Reader, name: str, t: dict[str, Any]):
         return beam(name, rd.bands)
     return plate(name, rd.bands, h=float(t.get("h", 0.002)))
 
+
+_TEST_KIND = Kind(
+    "subsystem",
+    "tkind",
+    "test only",
+    (Param("volume", unit="m^3"), Param("h", unit="m"), Param("beam", "flag")),
+    _test_plate_derive,
+)
 
 BASE = """
 [bands]
@@ -650,7 +703,7 @@ BAD = [
 
 @pytest.fixture
 def tkind(monkeypatch):
-    monkeypatch.setitem(SUBSYSTEM_KINDS, "tkind", _test_plate_kind)
+    monkeypatch.setitem(SUBSYSTEM_KINDS, "tkind", _TEST_KIND)
 
 
 def test_base_model_with_every_kind_solves(tmp_path, capsys, tkind):
@@ -724,16 +777,16 @@ def test_line_non_homogeneous_plate_uses_equivalent_plate(bands):
     # n = (S/2) sqrt(m''/D) (Cremer, Heckl & Petersson 2005), per band for a per-band D.
     a = plate("a", bands, h=0.003)
     b0 = plate("b", bands, h=0.003, lx=1.2, ly=0.9)
-    d = b0.properties["bending_stiffness"] * np.linspace(3.0, 1.5, len(bands))
-    m = b0.properties["mass_per_area"]
-    props = dict(
-        b0.properties,
+    d = b0.props.bending_stiffness * np.linspace(3.0, 1.5, len(bands))
+    m = b0.props.mass_per_area
+    props = dataclasses.replace(
+        b0.props,
         bending_stiffness=d,
         group_speed=plates.plate_bending_group_speed(bands.centre, d, m),
     )
-    n_b = plates.plate_bending_modal_density(bands.centre, props["area"], d, m)
+    n_b = plates.plate_bending_modal_density(bands.centre, props.area, d, m)
     b = Subsystem(
-        "b", "plate", n_b, b0.damping, quantity="velocity", mass=b0.mass, properties=props
+        "b", "plate", n_b, b0.damping, quantity="velocity", mass=b0.mass, props=props
     )
     (ab,) = read(bands, "line", {"length": 0.9}, [a, b])
     (ba,) = read(bands, "line", {"length": 0.9}, [b, a])
@@ -759,7 +812,7 @@ def test_cavity_pair_clf_does_not_depend_on_the_stated_direction(bands):
         volume=30.0,
         density=AIR[0],
         sound_speed=AIR[1],
-        properties=r1.properties,
+        props=r1.props,
     )
     r2 = Subsystem(
         "r2",
@@ -770,7 +823,7 @@ def test_cavity_pair_clf_does_not_depend_on_the_stated_direction(bands):
         volume=60.0,
         density=AIR[0],
         sound_speed=AIR[1],
-        properties=r2.properties,
+        props=r2.props,
     )
     (ab,) = read(bands, "leak", {"area": 0.01, "depth": 0.1}, [r1, r2])
     (ba,) = read(bands, "leak", {"area": 0.01, "depth": 0.1}, [r2, r1])
@@ -824,8 +877,8 @@ def test_resonator_on_vibrating_plate_matches_base_excited_oscillator():
     res = run(model)
     idx = model.index()
     j = 1  # the 1 kHz band
-    plate = model.subsystem("deck").properties
-    y = 1.0 / (8.0 * np.sqrt(plate["bending_stiffness"] * plate["mass_per_area"]))
+    plate = model.subsystem("deck").props
+    y = 1.0 / (8.0 * np.sqrt(plate.bending_stiffness * plate.mass_per_area))
     w0 = 2 * np.pi * f0
     eta_tot = eta_r + k * y / w0
     v_sq = 1e-18 * 10 ** (lv / 10)

@@ -8,8 +8,6 @@ mobilities written out here, and the SEA power balance of one isolated subsystem
 from __future__ import annotations
 
 import math
-import sys
-import types
 from pathlib import Path
 
 import numpy as np
@@ -56,28 +54,29 @@ def _d(h: float) -> float:
 def test_plate_properties_follow_the_contract():
     m = model(PLATE)
     s = m.subsystem("floor")
-    p = s.properties
+    p = s.props
     for key in (
         "wave_type", "area", "lx", "ly", "perimeter", "thickness", "mass_per_area", "material",
         "wavenumber", "phase_speed", "group_speed", "critical_frequency", "bending_stiffness",
     ):  # fmt: skip
-        assert key in p, key
-    assert p["wave_type"] == "bending"
-    assert p["area"] == pytest.approx(p["lx"] * p["ly"])
-    assert p["perimeter"] == pytest.approx(2 * (1.6 + 1.1))
-    assert p["mass_per_area"] == pytest.approx(RHO * 0.002)
+        assert hasattr(p, key), key
+    assert p.wave_type == "bending"
+    assert p.area == pytest.approx(p.lx * p.ly)
+    assert p.perimeter == pytest.approx(2 * (1.6 + 1.1))
+    assert p.mass_per_area == pytest.approx(RHO * 0.002)
     assert s.mass == pytest.approx(RHO * 0.002 * 1.6 * 1.1)
-    assert p["bending_stiffness"] == pytest.approx(_d(0.002))
+    assert p.bending_stiffness == pytest.approx(_d(0.002))
     # group speed of bending waves is twice the phase speed (Cremer et al. 2005, sec. 3.7)
-    np.testing.assert_allclose(p["group_speed"], 2 * p["phase_speed"])
-    np.testing.assert_allclose(p["phase_speed"], m.bands.omega / p["wavenumber"])
-    assert {"density", "youngs_modulus", "poisson_ratio", "loss_factor"} <= set(p["material"])
+    np.testing.assert_allclose(p.group_speed, 2 * p.phase_speed)
+    np.testing.assert_allclose(p.phase_speed, m.bands.omega / p.wavenumber)
+    mat = p.material
+    assert all(hasattr(mat, k) for k in ("density", "youngs_modulus", "poisson_ratio", "loss_factor"))
 
 
 def test_plate_critical_frequency_matches_long_table():
     # Long (2006), Architectural Acoustics, Table 9.1: f_c h = 12.4 Hz m for steel in air
     # (the table note allows 10 % variation).
-    fc = model(PLATE).subsystem("floor").properties["critical_frequency"]
+    fc = model(PLATE).subsystem("floor").props.critical_frequency
     assert fc * 0.002 == pytest.approx(12.4, rel=0.10)
 
 
@@ -132,8 +131,8 @@ def test_in_plane_fields_are_separate_subsystems_of_one_component():
     # c_L' = sqrt(E/(rho(1-nu^2))), c_S = sqrt(G/rho) (Cremer et al. 2005, sec. 3.3-3.4)
     c_l = math.sqrt(E / (RHO * (1 - NU**2)))
     c_s = math.sqrt(E / (2 * (1 + NU)) / RHO)
-    np.testing.assert_allclose(lo.properties["phase_speed"], c_l)
-    np.testing.assert_allclose(sh.properties["phase_speed"], c_s)
+    np.testing.assert_allclose(lo.props.phase_speed, c_l)
+    np.testing.assert_allclose(sh.props.phase_speed, c_s)
     # 2-D non-dispersive Weyl count n = 2 pi f S / c^2 (Lyon & DeJong 1995, from memory)
     np.testing.assert_allclose(lo.modal_density, 2 * np.pi * m.bands.centre * 1.76 / c_l**2)
 
@@ -141,13 +140,13 @@ def test_in_plane_fields_are_separate_subsystems_of_one_component():
 def test_user_material_overrides_builtin_and_inline_base():
     user = '[materials.steel]\ndensity = 7800\nyoungs_modulus = 2.0e11\npoisson_ratio = 0.3\n'
     s = model(user + PLATE + "damping = 0.01\n").subsystem("floor")
-    assert s.properties["material"]["density"] == 7800
-    assert s.properties["material"]["loss_factor"] is None
+    assert s.props.material.density == 7800
+    assert s.props.material.loss_factor is None
     with pytest.raises(InputError, match="no loss_factor"):
         model(user + PLATE)  # no damping and no loss factor to default to
     body = PLATE.replace('"steel"', '{ base = "steel", loss_factor = 0.003 }')
     s = model(body).subsystem("floor")
-    assert s.properties["material"]["density"] == RHO
+    assert s.props.material.density == RHO
     np.testing.assert_allclose(s.damping, 0.003)
 
 
@@ -163,17 +162,17 @@ rib_width = 0.01
 rib_height = 0.08
 rib_spacing = 0.5
 """
-    p = model(body).subsystem("deck").properties
-    assert p["bending_stiffness_x"] > 10 * p["bending_stiffness_y"]
-    assert p["bending_stiffness_y"] == pytest.approx(_d(0.004))
-    lo, hi = p["critical_frequency_range"]
-    assert lo < p["critical_frequency"] < hi
+    p = model(body).subsystem("deck").props
+    assert p.bending_stiffness_x > 10 * p.bending_stiffness_y
+    assert p.bending_stiffness_y == pytest.approx(_d(0.004))
+    lo, hi = p.critical_frequency_range
+    assert lo < p.critical_frequency < hi
     # first mode of a simply supported strip of width d (Kirchhoff): (pi/2) sqrt(D/m'')/d^2
     d = 0.49
-    assert p["bay_frequency"] == pytest.approx(
+    assert p.bay_frequency == pytest.approx(
         0.5 * math.pi * math.sqrt(_d(0.004) / (RHO * 0.004)) / d**2
     )
-    assert p["mass_per_area"] == pytest.approx(RHO * (0.004 + 0.01 * 0.08 / 0.5))
+    assert p.mass_per_area == pytest.approx(RHO * (0.004 + 0.01 * 0.08 / 0.5))
 
 
 def test_orthotropic_equal_stiffness_is_isotropic():
@@ -191,8 +190,8 @@ bending_stiffness_y = {d}
     o = model(body).subsystem("o")
     iso = model(PLATE).subsystem("floor")
     np.testing.assert_allclose(o.modal_density, iso.modal_density, rtol=1e-9)
-    assert o.properties["critical_frequency"] == pytest.approx(
-        iso.properties["critical_frequency"]
+    assert o.props.critical_frequency == pytest.approx(
+        iso.props.critical_frequency
     )
 
 
@@ -210,15 +209,15 @@ ly = 1.0
 """
     m = model(body, lo=50, hi=8000)
     s = m.subsystem("s")
-    p = s.properties
+    p = s.props
     # at the critical frequency the phase speed equals the speed of sound (definition)
     from seatool.physics.sandwich import sandwich_phase_speed
 
-    assert float(sandwich_phase_speed(p["critical_frequency"], p["section"])) == pytest.approx(
+    assert float(sandwich_phase_speed(p.critical_frequency, p.section)) == pytest.approx(
         343.2, rel=1e-8
     )
-    assert p["thickness"] == pytest.approx(0.021)
-    assert p["mass_per_area"] == pytest.approx(2 * 2700 * 0.0005 + 50 * 0.02)
+    assert p.thickness == pytest.approx(0.021)
+    assert p.mass_per_area == pytest.approx(2 * 2700 * 0.0005 + 50 * 0.02)
     assert np.all(np.diff(s.modal_density) > 0)
 
 
@@ -233,15 +232,15 @@ lx = 2.0
 """
     m = model(body, lo=1000, hi=16000)
     s = m.subsystem("roof")
-    p = s.properties
-    assert p["ly"] == pytest.approx(2 * math.pi * 0.3)
-    assert p["ring_frequency"] == pytest.approx(
+    p = s.props
+    assert p.ly == pytest.approx(2 * math.pi * 0.3)
+    assert p.ring_frequency == pytest.approx(
         math.sqrt(7.0e10 / (2700 * (1 - 0.33**2))) / (2 * math.pi * 0.3)
     )
     # far above the ring frequency n -> n_plate (1 + 3/(16 x^2)) (Heckl-type dispersion,
     # docs/theory/subsystems.md sec. 4); x = f / f_m > 5 here: within 1 %
     d = 7.0e10 * 0.002**3 / (12 * (1 - 0.33**2))
-    n_plate = 0.5 * p["area"] * math.sqrt(2700 * 0.002 / d)
+    n_plate = 0.5 * p.area * math.sqrt(2700 * 0.002 / d)
     assert s.modal_density[-1] == pytest.approx(n_plate, rel=0.01)
 
 
@@ -296,12 +295,12 @@ def test_beam_fields_and_exact_bending_count():
         "rail", "rail.bending_z", "rail.longitudinal", "rail.torsion",
     ]  # fmt: skip
     s = m.subsystem("rail")
-    p = s.properties
-    assert p["mass_per_length"] == pytest.approx(RHO * 0.004)
-    assert p["section"]["I_y"] == pytest.approx(0.04 * 0.1**3 / 12)
+    p = s.props
+    assert p.mass_per_length == pytest.approx(RHO * 0.004)
+    assert p.section.I_y == pytest.approx(0.04 * 0.1**3 / 12)
     # simply supported Euler-Bernoulli beam: f_n = (pi/2) (n/L)^2 sqrt(EI/m')
     # (Cremer et al. 2005, sec. 3.5); count within +-1 mode of the sum of n(f) df
-    k = 0.5 * math.pi * math.sqrt(E * p["section"]["I_y"] / p["mass_per_length"]) / 3.0**2
+    k = 0.5 * math.pi * math.sqrt(E * p.section.I_y / p.mass_per_length) / 3.0**2
     fn = k * np.arange(1, 500) ** 2
     exact = np.count_nonzero((fn >= m.bands.lower[0]) & (fn < m.bands.upper[-1]))
     assert float(np.sum(s.modal_density * m.bands.width)) == pytest.approx(exact, abs=1.0)
@@ -335,7 +334,7 @@ def test_cavity_from_dimensions_reproduces_exact_room_mode_count():
     # 2 kHz, within 12 % per band and 4 % over the range.
     body = """
 [subsystems.cab]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [2.0, 1.5, 1.0]
 damping = 0.05
 """
@@ -351,17 +350,17 @@ damping = 0.05
     predicted = s.modal_density * m.bands.width
     np.testing.assert_allclose(predicted, exact, rtol=0.12)
     assert predicted.sum() == pytest.approx(exact.sum(), rel=0.04)
-    p = s.properties
-    assert p["volume"] == pytest.approx(3.0)
-    assert p["surface_area"] == pytest.approx(2 * (3.0 + 1.5 + 2.0))
-    assert p["edge_length"] == pytest.approx(4 * 4.5)
-    assert p["density"] == pytest.approx(1.204) and p["sound_speed"] == pytest.approx(c)
+    p = s.props
+    assert p.volume == pytest.approx(3.0)
+    assert p.surface_area == pytest.approx(2 * (3.0 + 1.5 + 2.0))
+    assert p.edge_length == pytest.approx(4 * 4.5)
+    assert p.density == pytest.approx(1.204) and p.sound_speed == pytest.approx(c)
 
 
 def test_cavity_given_modal_density_and_builtin_fluid():
     body = """
 [subsystems.tank]
-kind = "acoustic_cavity"
+kind = "cavity"
 volume = 2.0
 modal_density = 0.4
 fluid = "water"
@@ -383,7 +382,7 @@ damping = 0.05
 """
     s = model(body).subsystem("d")
     # first cross mode of a rigid rectangular duct: c / (2 max(w, h)) (Kinsler et al. 2000)
-    assert s.properties["cut_on_frequency"] == pytest.approx(343.2 / 0.6)
+    assert s.props.cut_on_frequency == pytest.approx(343.2 / 0.6)
     np.testing.assert_allclose(s.modal_density, 2 * 4.0 / 343.2)
     assert s.volume == pytest.approx(4.0 * 0.06)
 
@@ -399,7 +398,7 @@ loss_factor = 0.05
     m = model(body, lo=20, hi=20000)
     s = m.subsystem("r")
     f0 = math.sqrt(7.9e5 / 2.0) / (2 * math.pi)
-    assert s.properties["natural_frequency"] == pytest.approx(f0)
+    assert s.props.natural_frequency == pytest.approx(f0)
     total = float(np.sum(s.modal_density * m.bands.width))
     # one Lorentzian mode of half-power bandwidth eta f0; the tails outside the band range
     # hold about (eta f0 / 2) / pi * (1/(f0 - f_low) + 1/(f_high - f0)) of it
@@ -419,15 +418,15 @@ def test_diffuse_field_power_by_sea_reciprocity():
     body = PLATE + '[excitations.room]\nsubsystem = "floor"\ndiffuse_sound_pressure_level = 94\n'
     m = model(body)
     s = m.subsystem("floor")
-    p = s.properties
+    p = s.props
     b = m.bands
     sigma = radiation_efficiency_band(
-        b.centre, 1.6, 1.1, p["critical_frequency"], f_lower=b.lower, f_upper=b.upper, c0=343.2
+        b.centre, 1.6, 1.1, p.critical_frequency, f_lower=b.lower, f_upper=b.upper, c0=343.2
     )
     rho, c, vol = 1.204, 343.2, 37.0
     p2 = (2e-5) ** 2 * 10 ** (94 / 10)
     e_c = p2 * vol / (rho * c**2)
-    eta_pc = rho * c * sigma / (b.omega * p["mass_per_area"])
+    eta_pc = rho * c * sigma / (b.omega * p.mass_per_area)
     n_c = 4 * np.pi * b.centre**2 * vol / c**3
     expected = b.omega * eta_pc * s.modal_density / n_c * e_c
     assert m.excitations[0].power is not None
@@ -451,18 +450,16 @@ def test_treatment_hook_adds_mass_and_damping(monkeypatch):
 
     def read_plate_treatment(rd, value, path, plate):  # type: ignore[no-untyped-def]
         seen.update(value=value, path=path, plate=dict(plate))
-        return _FakeTreatment(len(plate["bands"]))
+        return _FakeTreatment(len(rd.bands))
 
-    fake = types.ModuleType("seatool.kinds.treatment")
-    fake.read_plate_treatment = read_plate_treatment  # type: ignore[attr-defined]
-    monkeypatch.setitem(sys.modules, "seatool.kinds.treatment", fake)
+    monkeypatch.setattr("seatool.kinds.fields.read_plate_treatment", read_plate_treatment)
     s = model(PLATE + 'treatment = { layer = "x" }\n').subsystem("floor")
     assert seen["value"] == {"layer": "x"} and seen["path"] == "subsystems.floor.treatment"
     assert seen["plate"]["mass_per_area"] == pytest.approx(RHO * 0.002)  # bare plate
-    assert s.properties["mass_per_area"] == pytest.approx(RHO * 0.002 + 5.0)
+    assert s.props.mass_per_area == pytest.approx(RHO * 0.002 + 5.0)
     assert s.mass == pytest.approx((RHO * 0.002 + 5.0) * 1.76)
     np.testing.assert_allclose(s.damping, 0.05)
-    assert isinstance(s.properties["treatment"], _FakeTreatment)
+    assert isinstance(s.props.treatment, _FakeTreatment)
     # added mass lowers the plate's bending stiffness-to-mass ratio: n ~ sqrt(m'')
     bare = model(PLATE).subsystem("floor")
     ratio = math.sqrt((RHO * 0.002 + 5.0) / (RHO * 0.002))
@@ -511,7 +508,7 @@ BAD = [
     ("unknown-fluid", "ly = 1.1\n", 'ly = 1.1\nfluid = "helium"\n',
      ["subsystems.floor.fluid", "unknown fluid 'helium'"]),
     ("force-on-cavity", 'subsystem = "floor"', 'subsystem = "air"',
-     ["excitations.shaker.force", "'air' is of kind acoustic_cavity"]),
+     ["excitations.shaker.force", "'air' is of kind cavity"]),
     ("force-position", "force = 1.0", 'force = 1.0\nposition = "end"',
      ["excitations.shaker.position", "beams only"]),
     ("cavity-dims", "dimensions = [2.0, 1.5, 1.0]", "dimensions = [2.0, 1.5]",
@@ -528,7 +525,7 @@ BAD_GOOD = (
     + PLATE
     + """
 [subsystems.air]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [2.0, 1.5, 1.0]
 damping = 0.05
 [connections.c]

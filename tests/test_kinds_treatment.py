@@ -15,7 +15,7 @@ from scipy import integrate
 
 import seatool
 from seatool.cli import main
-from seatool.kinds.treatment import PlateTreatment
+from seatool.kinds.plate_treatment import PlateTreatment
 
 RHO, C = 1.204, 343.2  # the model file's default air (docs/model-format.md)
 P0 = 20e-6  # reference sound pressure [Pa] (ISO 1683)
@@ -215,8 +215,8 @@ def test_lining_absorption_against_independent_paris_integral(tmp_path):
 def test_lining_by_name_uses_rigid_backed_tmm_absorption(tmp_path):
     # Consistency: a built-in lining passed through Eyring (auto switch) equals the TMM
     # diffuse absorption of the build-up (exposed face first) put into Eyring's formula.
+    from seatool.catalogue import buildup_layers
     from seatool.physics import tmm
-    from seatool.treatments import buildup_layers
 
     text = _room(
         '{ surfaces = [ { area = 50, lining = "spring_mass_5kg" }, { area = 40, absorption = 0.05 } ] }'
@@ -288,8 +288,8 @@ def test_free_layer_lowers_point_force_velocity(tmp_path):
     m_bare, m_treat = 7850 * h1, 7850 * h1 + 1500 * h2
     sub = m1.subsystem("floor")
     np.testing.assert_allclose(sub.damping, eta, rtol=1e-9)
-    assert sub.properties["mass_per_area"] == pytest.approx(m_treat)
-    tr = sub.properties["treatment"]
+    assert sub.props.mass_per_area == pytest.approx(m_treat)
+    tr = sub.props.treatment
     assert isinstance(tr, PlateTreatment)
     assert tr.added_mass_per_area == pytest.approx(1500 * h2)
     drop = 10 * np.log10(eta1 / eta) + 15 * np.log10(m_bare / m_treat)
@@ -331,7 +331,7 @@ def test_constrained_layer_below_ungar_maximum(tmp_path):
     eta_max = beta * y / (2 + y + 2 * math.sqrt((1 + y) * (1 + beta**2)))
     assert np.all(sub.damping > 0.01)
     assert np.all(sub.damping <= eta_max * (1 + 1e-9))
-    t = sub.properties["treatment"]
+    t = sub.props.treatment
     assert t.added_mass_per_area == pytest.approx(1000 * h2 + 7850 * h3)
     assert t.constrained
 
@@ -346,7 +346,7 @@ def test_trim_insertion_loss_applied_to_radiation(tmp_path):
             _PLATE.format(eta1=1e-3, h1=0.001, treatment=treatment)
             + """
 [subsystems.cabin]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [2.0, 1.5, 1.2]
 damping = { absorption_area = 2.0 }
 [connections.rad]
@@ -361,7 +361,7 @@ between = ["floor", "cabin"]
         text('treatment = { trim = [{ base = "heavy_layer_5kg" }], face = "cabin" }'),
         "trim.toml",
     )
-    t = m1.subsystem("floor").properties["treatment"]
+    t = m1.subsystem("floor").props.treatment
     assert t.trim_mass_per_area == pytest.approx(0.003 * 1667)
     assert t.added_mass_per_area == 0.0  # a trim acts through its insertion loss only
     il_mass_law = 20 * np.log10((7.85 + 5.001) / 7.85)
@@ -539,7 +539,7 @@ BAD = [
         "surfaces-exceed-cavity-area",
         _GOOD_ROOM.replace(
             'kind = "cavity"\nvolume = 60.0\nmodal_density = 1.0',
-            'kind = "acoustic_cavity"\ndimensions = [2.0, 2.0, 2.0]',
+            'kind = "cavity"\ndimensions = [2.0, 2.0, 2.0]',
         ),
         "area = 20,",
         "area = 30,",

@@ -25,7 +25,7 @@ lowest = 100
 highest = 8000
 
 [subsystems.room]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [3.0, 2.5, 2.0]
 damping = 0.05
 
@@ -80,8 +80,8 @@ edges = "clamped"
     ss, cc = connection(m, "ss"), connection(m, "cc")
     # eta = rho c sigma/(omega m'') is linear in sigma, so the factor 2 of sigma below
     # coincidence must reach the CLF; f_c = c^2/(2 pi) sqrt(m''/D) (steel 2 mm: ~6 kHz)
-    air = m.subsystem("room").properties
-    c0 = float(air["sound_speed"])
+    air = m.subsystem("room").props
+    c0 = float(air.sound_speed)
     h, e, rho, nu = 0.002, 210e9, 7850.0, 0.3
     fc = c0**2 / (2 * math.pi) * math.sqrt(rho * h / (e * h**3 / (12 * (1 - nu**2))))
     b = m.bands

@@ -2,7 +2,7 @@
 connection kinds, against published single-panel transmission-loss predictions.
 
 The model is built from materials and dimensions (subsystem kinds ``plate`` and
-``acoustic_cavity``; connections ``radiation`` on each face and ``nonresonant`` through the
+``cavity``; connections ``radiation`` on each face and ``nonresonant`` through the
 panel). The transmission loss follows from the solved levels as in a laboratory test
 (ISO 10140-2 definition, PHYSICS.md 6.7): TL = L1 - L2 + 10 lg(S/A2), with the receiving
 room's equivalent absorption area A2 = 8 pi f eta_2 V_2 / c (Sabine: A = 24 ln(10) V/(c T)
@@ -42,7 +42,7 @@ def two_rooms(
     data = {
         "bands": {"lowest": lowest, "highest": highest},
         "subsystems": {
-            "r1": {"kind": "acoustic_cavity", "dimensions": [5.0, 4.0, 3.0], "damping": 0.005},
+            "r1": {"kind": "cavity", "dimensions": [5.0, 4.0, 3.0], "damping": 0.005},
             "p": {
                 "kind": "plate",
                 "material": material,
@@ -51,7 +51,7 @@ def two_rooms(
                 "ly": ly,
                 "damping": eta,
             },
-            "r2": {"kind": "acoustic_cavity", "dimensions": [5.5, 4.5, 3.0], "damping": 0.005},
+            "r2": {"kind": "cavity", "dimensions": [5.5, 4.5, 3.0], "damping": 0.005},
         },
         "connections": {
             "a": {"kind": "radiation", "between": ["p", "r1"]},
@@ -68,7 +68,7 @@ def transmission_loss(model: Model, source: str = "r1", receiver: str = "r2", pa
     # `seatool panel` uses too (seatool.analysis.panel.room_transmission_loss)
     p = model.subsystem(panel)
     tl = room_transmission_loss(
-        model, solve(model).energy, source, receiver, p.properties["area"]
+        model, solve(model).energy, source, receiver, p.props.area
     )
     return tl, p, model.bands.centre
 
@@ -81,7 +81,7 @@ def test_mass_law_well_below_coincidence():
     # bands (small k0 sqrt(S)), and the resonant path through the panel lowers TL by up to
     # ~1.5 dB towards f_c/6; the field-incidence angle 78 deg is itself a convention.
     tl, p, f = transmission_loss(two_rooms("steel", 0.001, 3.0, 2.5, 125, 2000))
-    r_vigran = 20 * np.log10(f * p.properties["mass_per_area"]) - 47.0
+    r_vigran = 20 * np.log10(f * p.props.mass_per_area) - 47.0
     assert np.all(np.abs(tl - r_vigran) < 3.0), np.round(tl - r_vigran, 2)
 
 
@@ -93,9 +93,9 @@ def test_cremer_well_above_coincidence():
     # exactly with sigma = 1; the band-averaged sigma = (1 - f_c/f)^(-1/2) > 1 lowers TL
     # by 10 lg(sigma^2) = 1.2 dB at 4 f_c and 0.6 dB at 8 f_c. Tolerance 1.5 dB.
     tl, p, f = transmission_loss(two_rooms("steel", 0.006, 2.0, 1.5, 8000, 16000))
-    m = p.properties["mass_per_area"]
+    m = p.props.mass_per_area
     w = 2 * np.pi * f
-    f_c = C**2 / (2 * np.pi) * np.sqrt(m / p.properties["bending_stiffness"])
+    f_c = C**2 / (2 * np.pi) * np.sqrt(m / p.props.bending_stiffness)
     eta_tot = 0.01 + 2 * RHO * C / (w * m)
     cremer = 20 * np.log10(w * m / (2 * RHO * C)) + 10 * np.log10(2 * eta_tot * f / (np.pi * f_c))
     dev = tl - cremer
@@ -115,8 +115,8 @@ def test_sharp_over_the_whole_range():
     # band-averaged sigma near coincidence is several times 1 (-5.6 and -6.3 dB at 2 and
     # 2.5 kHz); the dip of the SEA model is the deeper one.
     tl, p, f = transmission_loss(two_rooms("glass", 0.006, 1.5, 1.25, 100, 10000))
-    m = p.properties["mass_per_area"]
-    f_c = C**2 / (2 * np.pi) * np.sqrt(m / p.properties["bending_stiffness"])
+    m = p.props.mass_per_area
+    f_c = C**2 / (2 * np.pi) * np.sqrt(m / p.props.bending_stiffness)
     eta_tot = 0.01 + 2 * RHO * C / (2 * np.pi * f * m)
     r0 = 20 * np.log10(np.pi * f * m / (RHO * C))
     low = r0 - 5.5

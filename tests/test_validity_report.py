@@ -20,7 +20,7 @@ title = "small cavity"
 lowest = 50
 highest = 2000
 [subsystems.box]
-kind = "acoustic_cavity"
+kind = "cavity"
 dimensions = [1.0, 0.8, 0.6]
 damping = 0.02
 [subsystems.panel]
@@ -91,7 +91,7 @@ def test_check_shows_table_and_solve_shows_notes(tmp_path, capsys):
 
 def test_duct_above_cut_on_flagged():
     text = SMALL.replace(
-        'kind = "acoustic_cavity"\ndimensions = [1.0, 0.8, 0.6]',
+        'kind = "cavity"\ndimensions = [1.0, 0.8, 0.6]',
         'kind = "duct"\nlength = 10.0\nwidth = 0.4\nheight = 0.2',
     )
     m = seatool.loads(text)

@@ -15,7 +15,10 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import InputError, Problem, closest
+from ..errors import InputError, Problem
+from ..kinds.spreads import resolve
+
+__all__ = ["numbers", "read_data", "resolve", "with_value"]
 
 
 def read_data(path: str | Path) -> tuple[dict[str, Any], str, Path]:
@@ -32,37 +35,6 @@ def read_data(path: str | Path) -> tuple[dict[str, Any], str, Path]:
     except tomllib.TOMLDecodeError as exc:
         raise InputError([Problem(str(p), "", f"not valid TOML: {exc}")]) from None
     return data, str(p), p.parent
-
-
-def resolve(data: Mapping[str, Any], path: str) -> tuple[Any, str | None]:
-    """The value at ``path``, or (None, message) naming the closest key where it fails."""
-    parts = path.split(".")
-    node: Any = data
-    for k, part in enumerate(parts):
-        if not isinstance(node, Mapping):
-            where = ".".join(parts[:k])
-            return None, f"{where} is not a table, so it has no key {part!r}"
-        if part not in node:
-            where = ".".join(parts[:k]) or "the top level"
-            return None, f"no key {part!r} in {where}" + closest(part, [str(x) for x in node])
-        node = node[part]
-    if isinstance(node, bool):
-        return None, "is a boolean, not a number or spectrum"
-    if isinstance(node, int | float):
-        return node, None
-    if isinstance(node, list) and node and all(
-        isinstance(v, int | float) and not isinstance(v, bool) for v in node
-    ):
-        return node, None
-    if isinstance(node, Mapping):
-        if "csv" in node:
-            return None, "is a CSV spectrum; give the values inline ({ band_hz, values }) to vary it"
-        vals = node.get("values")
-        if isinstance(vals, list) and vals and all(
-            isinstance(v, int | float) and not isinstance(v, bool) for v in vals
-        ):
-            return node, None
-    return None, "is not a number, an array of numbers or a { band_hz, values } spectrum"
 
 
 def numbers(value: Any) -> np.ndarray:

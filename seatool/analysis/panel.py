@@ -7,8 +7,8 @@ For a material, a thickness and a size ``lx`` x ``ly``, :func:`panel_table` give
 * with a treatment (``damping_layer``, ``cover``, ``trim`` of :class:`PanelSpec`): the
   composite loss factor and bonded mass of a damping layer, the absorption, insertion loss
   and mass of a trim, read by the model file's own reader
-  (:func:`seatool.kinds.treatment.read_plate_treatment`,
-  :func:`seatool.kinds.treatment.lining_absorption`);
+  (:func:`seatool.kinds.plate_treatment.read_plate_treatment`,
+  :func:`seatool.kinds.layers.lining_absorption`);
 * the band-averaged radiation efficiency and the transmission loss of the two-room SEA
   model of the panel (:func:`two_room_model`, :func:`room_transmission_loss`).
 
@@ -28,7 +28,8 @@ import pandas as pd
 
 from ..bands import BandAxis
 from ..errors import InputError, Problem
-from ..kinds.treatment import lining_absorption, read_plate_treatment
+from ..kinds.layers import lining_absorption
+from ..kinds.plate_treatment import read_plate_treatment
 from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
@@ -216,7 +217,7 @@ def two_room_model(spec: PanelSpec, bands: BandAxis) -> Model:
     for name, v in zip(("source_room", "receiving_room"), spec.room_volumes, strict=True):
         side = v ** (1.0 / 3.0)
         rooms[name] = {
-            "kind": "acoustic_cavity",
+            "kind": "cavity",
             "fluid": "panel_fluid",
             "dimensions": [side * r for r in _ROOM_RATIOS],
             "damping": {"reverberation_time": spec.room_reverberation_time},

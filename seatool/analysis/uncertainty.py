@@ -45,13 +45,15 @@ import scipy.sparse as sp
 
 from .. import levels
 from ..errors import InputError, Problem
-from ..model import Model
-from ..modelfile import Reader, build
+from ..kinds.spreads import read_uncertainty
+from ..levels import db, db_to_ratio
+from ..model import Model, Uncertain
+from ..modelfile import build
 from ..results import Result
 from ..solve import SolveError, assemble
 from ..solve import solve as core_solve
-from ._keypath import read_data, resolve, with_value
-from ._system import db, level_offset, validity_columns
+from ._keypath import read_data, with_value
+from ._system import level_offset, validity_columns
 
 __all__ = [
     "DENSE_LIMIT",
@@ -66,166 +68,6 @@ Array = npt.NDArray[np.float64]
 
 #: Largest number of unknowns solved with dense batched solves.
 DENSE_LIMIT = 400
-
-_KEYS = ("parameter", "distribution", "factor", "tolerance", "low", "high", "sd", "description")
-_DISTRIBUTIONS = {
-    "lognormal": ("factor",),
-    "uniform": ("tolerance", "low", "high"),
-    "normal": ("sd",),
-}
-
-
-@dataclass(frozen=True)
-class Uncertain:
-    """One uncertain parameter: where it is in the file and how it is drawn."""
-
-    name: str
-    parameter: str  # key path
-    distribution: str
-    factor: float | None = None
-    tolerance: float | None = None
-    low: float | None = None
-    high: float | None = None
-    sd: float | None = None
-
-    def draw(self, rng: np.random.Generator, n: int) -> Array:
-        """Standard variates of this parameter for n samples."""
-        if self.distribution == "uniform":
-            return rng.uniform(-1.0, 1.0, n) if self.low is None else rng.uniform(0.0, 1.0, n)
-        return rng.standard_normal(n)
-
-    def apply(self, value: Array, d: Array) -> Array:
-        """Sampled values from the file value(s) ``value`` and the variates ``d``."""
-        if self.distribution == "lognormal":
-            assert self.factor is not None
-            return value * self.factor**d
-        if self.distribution == "normal":
-            assert self.sd is not None
-            return value + self.sd * d
-        if self.low is not None:
-            assert self.high is not None
-            return np.broadcast_to(self.low + (self.high - self.low) * d, np.broadcast(value, d).shape)
-        assert self.tolerance is not None
-        return value * (1.0 + self.tolerance * d)
-
-
-def read_uncertainty(
-    data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path = "."
-) -> list[Uncertain]:
-    """Validate the ``[uncertainty.NAME]`` tables of parsed model data.
-
-    Raises :class:`~seatool.errors.InputError` with one line per problem (key path,
-    what is wrong, closest valid name).
-    """
-    rd = Reader(file=file, base_dir=Path(base_dir))
-    out: list[Uncertain] = []
-    section = data.get("uncertainty")
-    if section is None:
-        return out
-    t = rd.table(section, "uncertainty")
-    if t is None:
-        raise InputError(rd.problems)
-    seen: dict[str, str] = {}
-    for name, spec in t.items():
-        path = f"uncertainty.{name}"
-        s = rd.table(spec, path)
-        if s is None:
-            continue
-        before = len(rd.problems)
-        if not rd.keys(s, path, _KEYS, ("parameter", "distribution")):
-            continue
-        if len(rd.problems) > before:
-            continue  # a misspelt key: its line already names the right one
-        if "description" in s:
-            rd.string(s["description"], f"{path}.description")
-        par = rd.string(s["parameter"], f"{path}.parameter")
-        dist = s["distribution"]
-        if not isinstance(dist, str) or dist not in _DISTRIBUTIONS:
-            rd.error(
-                f"{path}.distribution",
-                f"unknown distribution {dist!r}"
-                + (_closest(dist, _DISTRIBUTIONS) if isinstance(dist, str) else "")
-                + f"; known: {', '.join(_DISTRIBUTIONS)}",
-            )
-            continue
-        if par is None:
-            continue
-        value: Any = None
-        if par.split(".")[0] in ("uncertainty", "bands", "title", "description"):
-            rd.error(f"{path}.parameter", f"{par!r} cannot be varied (choose a physical value)")
-            continue
-        value, msg = resolve(data, par)
-        if msg is not None:
-            rd.error(f"{path}.parameter", f"{par!r}: {msg}")
-            continue
-        if par in seen:
-            rd.error(f"{path}.parameter", f"{par!r} already has the spread {seen[par]!r}")
-            continue
-        seen[par] = name
-        own = _DISTRIBUTIONS[dist]
-        for k in s:
-            if k in ("factor", "tolerance", "low", "high", "sd") and k not in own:
-                rd.error(f"{path}.{k}", f"not used by distribution {dist!r} (it takes {', '.join(own)})")
-        kw: dict[str, float | None] = {}
-        ok = True
-        if dist == "lognormal":
-            if "factor" not in s:
-                rd.error(f"{path}.factor", "missing required key (1-sigma multiplicative factor >= 1)")
-                continue
-            kw["factor"] = rd.number(s["factor"], f"{path}.factor", minimum=1.0, strict=False)
-            ok = kw["factor"] is not None
-        elif dist == "normal":
-            if "sd" not in s:
-                rd.error(f"{path}.sd", "missing required key (standard deviation >= 0)")
-                continue
-            kw["sd"] = rd.number(s["sd"], f"{path}.sd", minimum=0.0, strict=False)
-            ok = kw["sd"] is not None
-        else:
-            has_t = "tolerance" in s
-            has_lh = "low" in s or "high" in s
-            if has_t == has_lh:
-                rd.error(path, "uniform needs either tolerance or both low and high")
-                continue
-            if has_t:
-                tol = rd.number(s["tolerance"], f"{path}.tolerance", minimum=0.0, strict=False)
-                if tol is not None and tol >= 1.0:
-                    rd.error(f"{path}.tolerance", f"must be < 1 (a relative +-), got {tol}")
-                    tol = None
-                kw["tolerance"] = tol
-                ok = tol is not None
-            else:
-                if "low" not in s or "high" not in s:
-                    missing = "low" if "low" not in s else "high"
-                    rd.error(f"{path}.{missing}", "missing required key (uniform takes low and high)")
-                    continue
-                lo = rd.number(s["low"], f"{path}.low", minimum=None)
-                hi = rd.number(s["high"], f"{path}.high", minimum=None)
-                if lo is None or hi is None:
-                    continue
-                if not lo < hi:
-                    rd.error(f"{path}.high", f"must be > low ({lo:g}), got {hi:g}")
-                    continue
-                if not isinstance(value, int | float):
-                    rd.error(
-                        f"{path}.low",
-                        f"low/high need a single-number parameter; {par!r} has several values "
-                        "(use tolerance)",
-                    )
-                    continue
-                kw["low"], kw["high"] = lo, hi
-        if not ok:
-            continue
-        out.append(Uncertain(name=name, parameter=par, distribution=dist, **kw))
-    if rd.problems:
-        raise InputError(rd.problems)
-    return out
-
-
-def _closest(name: str, choices: Mapping[str, Any]) -> str:
-    from ..errors import closest
-
-    return closest(name, list(choices))
-
 
 # -- direct sampling of the assembled arrays ----------------------------------------------
 
@@ -481,7 +323,7 @@ def spread(
     if samples < 1:
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
     model = build(data, file=file, base_dir=base_dir)
-    unc = read_uncertainty(data, file=file, base_dir=base_dir) if uncertain is None else uncertain
+    unc = list(model.uncertainty) if uncertain is None else uncertain
     if not unc:
         raise InputError(
             [Problem(file, "uncertainty", "no [uncertainty.NAME] tables: nothing to vary")]
@@ -505,7 +347,7 @@ def spread(
         else:
             q = _run_sparse(model, unc, targets, draws, bar)
             method = "direct (sparse per sample)"
-        q = q * 10.0 ** (offsets[None, :, None] / 10.0)
+        q = q * db_to_ratio(offsets[None, :, None])
     else:
         q = _run_rebuild(data, model, unc, draws, file, base_dir, bar)
         method = "rebuild per sample"
@@ -685,7 +527,7 @@ def _run_rebuild(
             )
         e = core_solve(m).energy
         off = np.array([level_offset(m, i) for i in range(n)])
-        out[k] = e * 10.0 ** (off[:, None] / 10.0)
+        out[k] = e * db_to_ratio(off[:, None])
         bar.update(k + 1)
     return out
 

@@ -1,4 +1,5 @@
-"""Readers that derive subsystems and couplings from materials and dimensions.
+"""The kinds of the model file: each declares its parameters next to one derive function.
 
-Importing this package registers its readers into :mod:`seatool.modelfile`'s registries.
+:mod:`seatool.kinds.registry` lists them all; :mod:`seatool.kinds.params` holds the
+declaration types and :mod:`seatool.kinds.validate` the generic checks.
 """

@@ -1,4 +1,4 @@
-"""Tests for the built-in treatment library seatool.treatments (data integrity, loader,
+"""Tests for the built-in treatment library seatool.catalogue (data integrity, loader,
 overrides, conversion to transfer-matrix layers)."""
 
 from __future__ import annotations
@@ -9,7 +9,7 @@ import math
 import numpy as np
 import pytest
 
-from seatool import treatments as trt
+from seatool import catalogue as trt
 from seatool.physics import damping_layers, tmm
 
 

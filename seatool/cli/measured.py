@@ -16,18 +16,16 @@ from __future__ import annotations
 
 import argparse
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 import numpy as np
 import pandas as pd
 
+from ..analysis.measured import estimate_toml, power_injection
 from ..errors import InputError, Problem
 from ..results import write_text_atomic
-from .commands import _csv_target, write_csv
-from .measured import estimate_toml, power_injection
+from ._common import Command
+from ._common import output_target as _csv_target
 
-if TYPE_CHECKING:
-    from ..cli import Command
 
 COLUMNS = ("band_hz", "driven", "input_W", "subsystem", "energy_J")
 
@@ -147,7 +145,7 @@ def _cmd(args: argparse.Namespace) -> int:
             print(f"wrote {path}")
     if csv_path is not None:
         try:
-            write_csv(table, csv_path)
+            write_text_atomic(csv_path, table.to_csv(index=False, float_format="%.10g"))
         except OSError as exc:
             raise InputError(
                 [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]
@@ -156,13 +154,10 @@ def _cmd(args: argparse.Namespace) -> int:
     return 0
 
 
-def add_commands(registry: dict[str, Command]) -> None:
-    """Register ``loss-factors`` with the command line."""
-    from ..cli import Command
-
-    registry["loss-factors"] = Command(
-        help="damping and coupling loss factors from power injection measurements "
-        "(condition number and sensitivity of every estimate)",
-        arguments=_args,
-        handler=_cmd,
-    )
+LOSS_FACTORS = Command(
+    name="loss-factors",
+    help="damping and coupling loss factors from power injection measurements "
+    "(condition number and sensitivity of every estimate)",
+    arguments=_args,
+    handler=_cmd,
+)

@@ -1,0 +1,304 @@
+"""The validation context of the model-file readers.
+
+:class:`Reader` collects every problem (file, key path, message) instead of stopping at
+the first, and reads the value forms shared by every section: numbers, strings, names of
+other entries, and *spectra* (per-band values written as a number, a
+``{ band_hz, values }`` table or a ``{ csv, column }`` reference; see
+``docs/model-format.md``). The declarations of :mod:`seatool.kinds.params` are checked
+through it.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import numpy.typing as npt
+
+from ..bands import BandAxis, BandError, band_index
+from ..errors import Problem, closest
+from ..physics.air import AIR_DENSITY, AIR_SOUND_SPEED
+
+__all__ = ["DEFAULT_FLUID", "Reader", "join", "type_name", "unit_text"]
+
+Array = npt.NDArray[np.float64]
+
+#: Fluid used by a cavity that names none: the default air of
+#: :mod:`seatool.physics.air` (20 C, 101.325 kPa; its source is cited there).
+DEFAULT_FLUID = {"density": AIR_DENSITY, "sound_speed": AIR_SOUND_SPEED}
+
+
+@dataclass
+class Reader:
+    """Validation context: collects problems instead of stopping at the first."""
+
+    file: str
+    base_dir: Path
+    problems: list[Problem] = field(default_factory=list)
+    bands: BandAxis | None = None
+    fluids: dict[str, dict[str, float]] = field(default_factory=dict)
+    materials: dict[str, Any] = field(default_factory=dict)
+    #: Names of every subsystem declared in the file (for readers that refer to another
+    #: subsystem, e.g. the cavity a trimmed face looks into), with their raw tables.
+    declared: Mapping[str, Any] = field(default_factory=dict)
+    #: Descriptive lines readers add for ``seatool check`` (e.g. treatment masses); they
+    #: become :attr:`seatool.model.Model.reports`.
+    reports: list[str] = field(default_factory=list)
+    #: Warnings readers add (e.g. a porous model used outside its fitted range); they
+    #: become :attr:`seatool.model.Model.notes`.
+    notes: list[str] = field(default_factory=list)
+    #: Names of materials and fluids defined in the file whose definition had problems
+    #: (already reported): references to them are not reported again.
+    invalid: set[str] = field(default_factory=set)
+
+    # -- reporting -----------------------------------------------------------------------
+    def error(self, path: str, message: str) -> None:
+        self.problems.append(Problem(self.file, path, message))
+
+    # -- structure -----------------------------------------------------------------------
+    def table(self, value: Any, path: str) -> dict[str, Any] | None:
+        if not isinstance(value, dict):
+            self.error(path, f"must be a table, got {_type_name(value)}")
+            return None
+        return value
+
+    def keys(
+        self,
+        table: Mapping[str, Any],
+        path: str,
+        allowed: tuple[str, ...],
+        required: tuple[str, ...] = (),
+    ) -> bool:
+        """Report unknown and missing keys; True if nothing is missing."""
+        ok = True
+        suggested: set[str] = set()
+        for k in table:
+            if k not in allowed:
+                hint = closest(k, allowed)
+                self.error(_join(path, k), "unknown key" + hint)
+                suggested.add(hint)
+        for k in required:
+            if k not in table:
+                ok = False
+                if closest(k, allowed) and f" (did you mean {k!r}?)" in suggested:
+                    continue  # the misspelt key's line already names it
+                self.error(_join(path, k), "missing required key")
+        return ok
+
+    def name_ref(
+        self, value: Any, path: str, choices: Mapping[str, Any] | list[str], what: str
+    ) -> str | None:
+        if not isinstance(value, str):
+            self.error(path, f"must be the name of a {what} (a string), got {_type_name(value)}")
+            return None
+        if value not in choices:
+            valid = list(choices)
+            hint = closest(value, valid)
+            if not hint and valid:
+                hint = f" (known: {', '.join(sorted(valid)[:8])})"
+            self.error(path, f"unknown {what} {value!r}" + hint)
+            return None
+        return value
+
+    def string(self, value: Any, path: str) -> str | None:
+        if not isinstance(value, str):
+            self.error(path, f"must be a string, got {_type_name(value)}")
+            return None
+        return value
+
+    # -- numbers -------------------------------------------------------------------------
+    def number(
+        self,
+        value: Any,
+        path: str,
+        *,
+        unit: str = "",
+        minimum: float | None = 0.0,
+        strict: bool = True,
+    ) -> float | None:
+        """A finite real number; by default strictly positive (a physical quantity)."""
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            self.error(path, f"must be a number{_unit(unit)}, got {_type_name(value)}")
+            return None
+        x = float(value)
+        if not math.isfinite(x):
+            self.error(path, f"must be finite, got {value}")
+            return None
+        if minimum is not None:
+            if strict and x <= minimum:
+                self.error(path, f"must be > {minimum:g}{_unit(unit)}, got {value}")
+                return None
+            if not strict and x < minimum:
+                self.error(path, f"must be >= {minimum:g}{_unit(unit)}, got {value}")
+                return None
+        return x
+
+    def spectrum(
+        self,
+        value: Any,
+        path: str,
+        *,
+        unit: str = "",
+        minimum: float | None = 0.0,
+        strict: bool = True,
+    ) -> Array | None:
+        """A per-band value: number, ``{band_hz, values}`` table or ``{csv, column}``."""
+        bands = self.bands
+        if bands is None:
+            return None
+        nb = len(bands)
+        if isinstance(value, dict):
+            if "csv" in value:
+                return self._csv_spectrum(value, path, unit=unit, minimum=minimum, strict=strict)
+            if not self.keys(value, path, ("band_hz", "values"), ("band_hz", "values")):
+                return None
+            fb, vals = value["band_hz"], value["values"]
+            if not isinstance(fb, list) or not isinstance(vals, list):
+                self.error(path, "band_hz and values must be arrays of numbers")
+                return None
+            if len(fb) != len(vals):
+                self.error(path, f"band_hz has {len(fb)} entries but values has {len(vals)}")
+                return None
+            return self._per_band(fb, vals, path, unit=unit, minimum=minimum, strict=strict)
+        x = self.number(value, path, unit=unit, minimum=minimum, strict=strict)
+        if x is None:
+            return None
+        return np.full(nb, x)
+
+    def _per_band(
+        self,
+        fb: list[Any],
+        vals: list[Any],
+        path: str,
+        *,
+        unit: str,
+        minimum: float | None,
+        strict: bool,
+        source: str = "",
+    ) -> Array | None:
+        assert self.bands is not None
+        bands = self.bands
+        out = np.full(len(bands), np.nan)
+        ok = True
+        seen: set[int] = set()
+        for k, (f, v) in enumerate(zip(fb, vals, strict=True)):
+            where = f"{path}.band_hz[{k}]" if not source else f"{path} ({source} row {k + 2})"
+            if isinstance(f, bool) or not isinstance(f, int | float):
+                self.error(where, f"band centre must be a number in Hz, got {_type_name(f)}")
+                ok = False
+                continue
+            try:
+                x = band_index(float(f), bands.kind)
+            except BandError as exc:
+                self.error(where, str(exc))
+                ok = False
+                continue
+            if x in seen:
+                self.error(where, f"band {f:g} Hz given twice")
+                ok = False
+                continue
+            seen.add(x)
+            j = x - int(bands.indices[0])
+            vpath = f"{path}.values[{k}]" if not source else where
+            val = self.number(v, vpath, unit=unit, minimum=minimum, strict=strict)
+            if val is None:
+                ok = False
+                continue
+            if 0 <= j < len(bands):
+                out[j] = val
+        missing = [bands.label(int(j)) for j in np.flatnonzero(np.isnan(out))]
+        if ok and missing:
+            shown = ", ".join(missing[:6]) + (" ..." if len(missing) > 6 else "")
+            self.error(path, f"no value for band(s) {shown}; give every band of the model")
+            ok = False
+        return out if ok else None
+
+    def _csv_spectrum(
+        self, value: dict[str, Any], path: str, *, unit: str, minimum: float | None, strict: bool
+    ) -> Array | None:
+        if not self.keys(value, path, ("csv", "column"), ("csv", "column")):
+            return None
+        fname = self.string(value["csv"], _join(path, "csv"))
+        column = self.string(value["column"], _join(path, "column"))
+        if fname is None or column is None:
+            return None
+        fpath = (self.base_dir / fname).resolve()
+        try:
+            text = fpath.read_text(encoding="utf-8-sig")
+        except FileNotFoundError:
+            self.error(_join(path, "csv"), f"file {fname!r} not found (looked in {self.base_dir})")
+            return None
+        except (OSError, UnicodeDecodeError) as exc:
+            self.error(_join(path, "csv"), f"cannot read {fname!r}: {exc}")
+            return None
+        rows = [r for r in csv.reader(text.splitlines()) if any(c.strip() for c in r)]
+        if not rows:
+            self.error(_join(path, "csv"), f"{fname!r} is empty; expected a header 'band_hz,...'")
+            return None
+        header = [h.strip() for h in rows[0]]
+        if not header or header[0] != "band_hz":
+            self.error(
+                _join(path, "csv"), f"{fname!r}: first column of the header must be 'band_hz'"
+            )
+            return None
+        if column not in header:
+            self.error(
+                _join(path, "column"),
+                f"no column {column!r} in {fname!r}" + closest(column, header[1:]),
+            )
+            return None
+        ci = header.index(column)
+        fb: list[Any] = []
+        vals: list[Any] = []
+        for r, row in enumerate(rows[1:], start=2):
+            if len(row) != len(header):
+                self.error(
+                    _join(path, "csv"),
+                    f"{fname!r} row {r}: {len(row)} cells, header has {len(header)}",
+                )
+                return None
+            try:
+                fb.append(float(row[0]))
+                vals.append(float(row[ci]))
+            except ValueError:
+                self.error(_join(path, "csv"), f"{fname!r} row {r}: not a number in {row!r}")
+                return None
+        return self._per_band(
+            fb, vals, path, unit=unit, minimum=minimum, strict=strict, source=fname
+        )
+
+
+def join(path: str, key: str) -> str:
+    """``path.key`` (or ``key`` at the top level)."""
+    return f"{path}.{key}" if path else key
+
+
+def unit_text(unit: str) -> str:
+    """`` [unit]`` for messages, or '' without a unit."""
+    return f" [{unit}]" if unit else ""
+
+
+def type_name(value: Any) -> str:
+    """What a TOML value is, for messages (``a string ('x')``, ``a table`` ...)."""
+    names = {
+        bool: "a boolean",
+        str: "a string",
+        int: "an integer",
+        float: "a number",
+        list: "an array",
+        dict: "a table",
+    }
+    for t, n in names.items():
+        if type(value) is t:
+            return f"{n} ({value!r})" if t in (str, int, float, bool) else n
+    return type(value).__name__
+
+
+_join = join
+_unit = unit_text
+_type_name = type_name
