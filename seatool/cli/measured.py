@@ -26,7 +26,6 @@ from ..results import write_text_atomic
 from ._common import Command
 from ._common import output_target as _csv_target
 
-
 COLUMNS = ("band_hz", "driven", "input_W", "subsystem", "energy_J")
 
 
