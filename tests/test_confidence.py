@@ -147,7 +147,7 @@ def test_confidence_table_of_a_model() -> None:
     # the receiving room is driven through the pane: wider bands than the source room
     wide = df.groupby("subsystem")["relative_variance"].median()
     assert wide["receiving_room"] > wide["source_room"]
-    assert "Verify by measurement" in df.attrs["caution"]
+    assert "verify by measurement" in df.attrs["caution"]
     assert column_name(0.05) == "level_p05_dB" and column_name(0.975) == "level_p97_5_dB"
 
 
