@@ -24,9 +24,9 @@ from dataclasses import dataclass
 import numpy as np
 import numpy.typing as npt
 import scipy.sparse as sp
-import scipy.sparse.linalg as spla
 from scipy.sparse.csgraph import connected_components
 
+from .bandsolve import BandMatrices, SingularBandError, spd_solve
 from .model import Model
 
 __all__ = ["Assembly", "SolveError", "assemble", "solve"]
@@ -151,6 +151,7 @@ class Solution:
     residual: Array  # (B,) relative conservation residual
     condition: Array  # (B,) 1-norm condition number of the solved block
     notes: tuple[str, ...]
+    method: str = "lu"  # how the bands were solved (see seatool.bandsolve.spd_solve)
 
 
 def _check_singular(model: Model, asm: Assembly) -> None:
@@ -180,50 +181,22 @@ def _check_singular(model: Model, asm: Assembly) -> None:
             )
 
 
-#: Above this many unknowns a band is solved by preconditioned conjugate gradients.
+#: Above this many unknowns the bands are solved by the batched iterative method first
+#: (conjugate gradients and Jacobi sweeps, :mod:`seatool.bandsolve`); bands it cannot
+#: solve to :data:`ENERGY_TOLERANCE` fall back to sparse LU.
 ITERATIVE_ABOVE = 1000
-_CG_RTOL = 1e-14
+#: Relative accuracy asked of every energy and checked by each subsystem's balance.
+ENERGY_TOLERANCE = 1e-9
 
 
-def _spd_solve(
-    cmat: sp.csc_matrix,
-    rhs: Array,
-    n: Array,
-    model: Model,
-    free: npt.NDArray[np.int64],
-    j: int,
-    asm: Assembly,
-) -> tuple[Array, Array]:
-    """Solve C x = rhs and C y = n for the symmetric positive definite C of one band.
-
-    Direct sparse LU (symmetric-structure ordering) for small systems; for large ones
-    conjugate gradients with a Jacobi preconditioner (Saad 2003, Iterative Methods for
-    Sparse Linear Systems, 2nd ed., alg. 9.1), falling back to LU if it does not converge.
-    """
-    nf = cmat.shape[0]
-    if nf > ITERATIVE_ABOVE:
-        d = cmat.diagonal()
-        if np.all(d > 0):
-            prec = spla.LinearOperator(cmat.shape, matvec=lambda v: v / d, dtype=float)
-            out = []
-            for b in (rhs, n):
-                x, info = spla.cg(cmat, b, rtol=_CG_RTOL, atol=0.0, M=prec, maxiter=20 * nf)
-                if info != 0:
-                    break
-                out.append(x)
-            if len(out) == 2:
-                return out[0], out[1]
-    try:
-        lu = spla.splu(cmat, permc_spec="MMD_AT_PLUS_A")
-    except RuntimeError:  # singular to working precision
-        ratio = asm.damping[free, j] / np.maximum(asm.diag[free, j], np.finfo(float).tiny)
-        names = ", ".join(model.subsystems[free[i]].name for i in np.argsort(ratio)[:3])
-        raise SolveError(
-            f"band {model.bands.label(j)}: the power balance is singular to working "
-            f"precision; the least damped relative to their coupling are {names} - "
-            "check their damping and coupling loss factors"
-        ) from None
-    return lu.solve(rhs), lu.solve(n)
+def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) -> SolveError:
+    ratio = asm.damping[free, j] / np.maximum(asm.diag[free, j], np.finfo(float).tiny)
+    names = ", ".join(model.subsystems[free[i]].name for i in np.argsort(ratio)[:3])
+    return SolveError(
+        f"band {model.bands.label(j)}: the power balance is singular to working "
+        f"precision; the least damped relative to their coupling are {names} - "
+        "check their damping and coupling loss factors"
+    )
 
 
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
@@ -254,44 +227,41 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     energy = asm.held_energy.copy()
     condition = np.ones(nb)
     notes: list[str] = []
+    method = "none (every subsystem is held)"
     if nf:
         vals_all = np.concatenate(
             [asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0
         )  # (nnz, B)
-        # One sparsity pattern for all bands: build the CSC structure once, refill values.
-        pattern = sp.csc_matrix(
-            sp.coo_matrix((np.arange(1, rows.size + 1, dtype=float), (rows, cols)), shape=(nf, nf))
-        )
-        # Map each CSC slot back to its COO entries (duplicates are summed).
-        order = np.lexsort((rows, cols))
-        rs, cs = rows[order], cols[order]
-        start = np.ones(rs.size, dtype=bool)
-        start[1:] = (rs[1:] != rs[:-1]) | (cs[1:] != cs[:-1])
-        slot = np.cumsum(start) - 1
-        summed = np.zeros((int(slot[-1]) + 1, nb))
-        np.add.at(summed, slot, vals_all[order])
-        # Symmetric form C = L_UU diag(n_U) (reciprocity), symmetric positive definite.
-        slot_col = np.repeat(np.arange(nf), np.diff(pattern.indptr))
         n_free = np.vstack([model.subsystems[i].modal_density for i in free])  # (nf, B)
-        for j in range(nb):
-            lvals = summed[:, j]
-            norm_l = float(np.bincount(slot_col, np.abs(lvals), minlength=nf).max())
-            cmat = sp.csc_matrix(
-                (lvals * n_free[slot_col, j], pattern.indices, pattern.indptr), shape=(nf, nf)
+        # Symmetric form C = L_UU diag(n_U) (reciprocity), one pattern for all bands.
+        mats = BandMatrices.from_entries(nf, rows, cols, vals_all * n_free[cols])
+        col = mats.column_of_entry()
+        norm_l = np.zeros((nf, nb))
+        np.add.at(norm_l, col, np.abs(mats.values) / n_free[col])
+        # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
+        try:
+            xy, method = spd_solve(
+                mats,
+                np.stack([rhs, n_free], axis=2),
+                ENERGY_TOLERANCE,
+                iterative_above=ITERATIVE_ABOVE,
             )
-            x, col_sums = _spd_solve(cmat, rhs[:, j], n_free[:, j], model, free, j, asm)
-            # M-matrix: ||L^-1||_1 = max(L^-T 1) exactly, and L^-T 1 = C^-1 n.
-            cond = norm_l * float(np.max(col_sums))
-            condition[j] = cond
-            if not np.isfinite(cond) or cond > CONDITION_LIMIT or np.any(col_sums < 0):
-                worst = np.argsort(col_sums)[::-1][:3]
-                names = ", ".join(model.subsystems[free[i]].name for i in worst)
-                raise SolveError(
-                    f"band {model.bands.label(j)}: the power balance is ill-conditioned "
-                    f"(condition number {cond:.2g}); energy piles up in {names} - check their "
-                    "damping and coupling loss factors"
-                )
-            energy[free, j] = n_free[:, j] * x
+        except SingularBandError as exc:
+            raise _singular(model, asm, free, exc.band) from None
+        col_sums = xy[:, :, 1]
+        condition = norm_l.max(axis=0) * col_sums.max(axis=0)
+        bad = ~np.isfinite(condition) | (condition > CONDITION_LIMIT) | np.any(col_sums < 0, axis=0)
+        if bad.any():
+            j = int(np.flatnonzero(bad)[0])
+            cond = condition[j]
+            worst = np.argsort(col_sums[:, j])[::-1][:3]
+            names = ", ".join(model.subsystems[free[i]].name for i in worst)
+            raise SolveError(
+                f"band {model.bands.label(j)}: the power balance is ill-conditioned "
+                f"(condition number {cond:.2g}); energy piles up in {names} - check their "
+                "damping and coupling loss factors"
+            )
+        energy[free] = n_free * xy[:, :, 0]
         worst_band = int(np.argmax(condition))
         if condition[worst_band] > CONDITION_NOTE:
             notes.append(
@@ -339,4 +309,5 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
         residual=residual,
         condition=condition,
         notes=tuple(notes),
+        method=method,
     )
