@@ -34,9 +34,10 @@ passing through the subsystem. It is computed without cancellation (all terms of
 are at most ``C_ii x_i``). For such a diagonal perturbation the error ``e`` obeys
 ``d^T |e| <= max(rho) sum_i C_ii x_i`` with ``d = C 1`` (the dissipation weights), so the
 dissipation-weighted mean relative error is at most ``max(rho) * G`` with the gain
-``G = sum C_ii x_i / sum d_i x_i >= 1`` (throughput over dissipation). A column passes
-when ``max(rho) <= tol / G``; the tests compare the result entry by entry with dense
-solves.
+``G = sum C_ii x_i / sum d_i x_i >= 1`` (throughput over dissipation). This bounds a
+mean, not every entry, so a column passes when ``max(rho) <= tol / (10 G)`` (a margin of
+10); the tests compare the result entry by entry with dense solves, including
+ill-conditioned systems and energies spanning hundreds of decibels.
 """
 
 from __future__ import annotations
@@ -61,6 +62,8 @@ CG_MAXITER = 2000
 #: Largest number of Jacobi sweeps after the conjugate gradients.
 MAX_SWEEPS = 400
 _CHECK_EVERY = 4
+#: Safety factor between the gauge ``max(rho) * G`` and the accuracy asked.
+_MARGIN = 10.0
 _Check = Callable[[Array, Array], npt.NDArray[np.bool_]]
 
 
@@ -230,7 +233,7 @@ def _iterative(
         t = float(tol[c])
 
         def accurate(y: Array, res: Array, t: float = t) -> npt.NDArray[np.bool_]:
-            return _rho(y, res) <= t / _gain(y, thr_w, dis_w)
+            return _rho(y, res) <= t / (_MARGIN * _gain(y, thr_w, dis_w))
 
         b = (rhs[:, :, c] * scale).T.copy()  # (B, nf)
         y = _cg(op, b, CG_RTOL, CG_MAXITER, accurate)

@@ -184,7 +184,7 @@ def _check_singular(model: Model, asm: Assembly) -> None:
 #: Above this many unknowns the bands are solved by the batched iterative method first
 #: (conjugate gradients and Jacobi sweeps, :mod:`seatool.bandsolve`); bands it cannot
 #: solve to :data:`ENERGY_TOLERANCE` fall back to sparse LU.
-ITERATIVE_ABOVE = 1000
+ITERATIVE_ABOVE = 60
 #: Relative accuracy asked of every energy and checked by each subsystem's balance.
 ENERGY_TOLERANCE = 1e-9
 
@@ -197,6 +197,25 @@ def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) 
         f"precision; the least damped relative to their coupling are {names} - "
         "check their damping and coupling loss factors"
     )
+
+
+def free_block_matrices(
+    asm: Assembly, pos: npt.NDArray[np.int64], n_free: Array
+) -> BandMatrices:
+    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns."""
+    nf = n_free.shape[0]
+    a, b = asm.a, asm.b
+    ff = (pos[a] >= 0) & (pos[b] >= 0)
+    free = np.flatnonzero(pos >= 0)
+    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
+    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
+    vals = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
+    return BandMatrices.from_entries(nf, rows, cols, vals * n_free[cols])
+
+
+def solve_free(mats: BandMatrices, rhs: Array) -> tuple[Array, str]:
+    """:func:`seatool.bandsolve.spd_solve` with the solver's settings (read at call time)."""
+    return spd_solve(mats, rhs, ENERGY_TOLERANCE, iterative_above=ITERATIVE_ABOVE)
 
 
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
@@ -213,10 +232,6 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     pos[free] = np.arange(free.size)
     nf = free.size
     a, b = asm.a, asm.b
-    # Entries of L_UU (both ends free) and of L_UK (row free, column held).
-    ff = (pos[a] >= 0) & (pos[b] >= 0)
-    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
     # RHS = P_U / omega - L_UK E_K ; L_ab = -eta_ba, L_ba = -eta_ab.
     rhs = asm.power[free] / asm.omega
     fa = (pos[a] >= 0) & asm.held[b]
@@ -229,23 +244,15 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     notes: list[str] = []
     method = "none (every subsystem is held)"
     if nf:
-        vals_all = np.concatenate(
-            [asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0
-        )  # (nnz, B)
         n_free = np.vstack([model.subsystems[i].modal_density for i in free])  # (nf, B)
         # Symmetric form C = L_UU diag(n_U) (reciprocity), one pattern for all bands.
-        mats = BandMatrices.from_entries(nf, rows, cols, vals_all * n_free[cols])
+        mats = free_block_matrices(asm, pos, n_free)
         col = mats.column_of_entry()
         norm_l = np.zeros((nf, nb))
         np.add.at(norm_l, col, np.abs(mats.values) / n_free[col])
         # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
         try:
-            xy, method = spd_solve(
-                mats,
-                np.stack([rhs, n_free], axis=2),
-                ENERGY_TOLERANCE,
-                iterative_above=ITERATIVE_ABOVE,
-            )
+            xy, method = solve_free(mats, np.stack([rhs, n_free], axis=2))
         except SingularBandError as exc:
             raise _singular(model, asm, free, exc.band) from None
         col_sums = xy[:, :, 1]
