@@ -26,7 +26,7 @@ import numpy.typing as npt
 import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components
 
-from .bandsolve import BandMatrices, SingularBandError, spd_solve
+from .bandsolve import BandMatrices, SingularBandError, add_rows, spd_solve
 from .model import Model
 
 __all__ = ["Assembly", "SolveError", "assemble", "solve"]
@@ -98,13 +98,13 @@ def assemble(model: Model) -> Assembly:
     idx = model.index()
     nb = len(model.bands)
     n = len(model.subsystems)
-    modal = np.vstack([s.modal_density for s in model.subsystems])
-    damping = np.vstack([s.damping for s in model.subsystems])
+    modal = np.array([s.modal_density for s in model.subsystems], dtype=float)
+    damping = np.array([s.damping for s in model.subsystems], dtype=float)
     sink = np.array([s.sink for s in model.subsystems], dtype=bool)
     if model.connections:
         a = np.array([idx[c.a] for c in model.connections], dtype=np.int64)
         b = np.array([idx[c.b] for c in model.connections], dtype=np.int64)
-        eta_ab = np.vstack([c.coupling_loss_factor for c in model.connections])
+        eta_ab = np.array([c.coupling_loss_factor for c in model.connections], dtype=float)
         # Reciprocity n_a eta_ab = n_b eta_ba; a sink (n = inf) returns nothing.
         with np.errstate(divide="ignore", invalid="ignore"):
             eta_ba = np.where(sink[b][:, None], 0.0, eta_ab * modal[a] / modal[b])
@@ -112,8 +112,8 @@ def assemble(model: Model) -> Assembly:
         a = b = np.zeros(0, dtype=np.int64)
         eta_ab = eta_ba = np.zeros((0, nb))
     diag = np.where(sink[:, None], 0.0, damping).copy()
-    np.add.at(diag, a, eta_ab)
-    np.add.at(diag, b, eta_ba)
+    add_rows(diag, a, eta_ab)
+    add_rows(diag, b, eta_ba)
     held = sink.copy()
     held_energy = np.zeros((n, nb))
     power = np.zeros((n, nb))
@@ -187,6 +187,8 @@ def _check_singular(model: Model, asm: Assembly) -> None:
 ITERATIVE_ABOVE = 60
 #: Relative accuracy asked of every energy and checked by each subsystem's balance.
 ENERGY_TOLERANCE = 1e-9
+#: Relative accuracy asked of the vector whose largest entry is ||L^-1||_1.
+CONDITION_VECTOR_TOLERANCE = 1e-8
 
 
 def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) -> SolveError:
@@ -213,9 +215,12 @@ def free_block_matrices(
     return BandMatrices.from_entries(nf, rows, cols, vals * n_free[cols])
 
 
-def solve_free(mats: BandMatrices, rhs: Array) -> tuple[Array, str]:
+def solve_free(
+    mats: BandMatrices, rhs: Array, tol: npt.ArrayLike | None = None
+) -> tuple[Array, str]:
     """:func:`seatool.bandsolve.spd_solve` with the solver's settings (read at call time)."""
-    return spd_solve(mats, rhs, ENERGY_TOLERANCE, iterative_above=ITERATIVE_ABOVE)
+    tol = ENERGY_TOLERANCE if tol is None else tol
+    return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
 
 
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
@@ -244,15 +249,19 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     notes: list[str] = []
     method = "none (every subsystem is held)"
     if nf:
-        n_free = np.vstack([model.subsystems[i].modal_density for i in free])  # (nf, B)
+        n_free = np.array([model.subsystems[i].modal_density for i in free], dtype=float)
         # Symmetric form C = L_UU diag(n_U) (reciprocity), one pattern for all bands.
         mats = free_block_matrices(asm, pos, n_free)
         col = mats.column_of_entry()
         norm_l = np.zeros((nf, nb))
-        np.add.at(norm_l, col, np.abs(mats.values) / n_free[col])
+        add_rows(norm_l, col, np.abs(mats.values) / n_free[col])
         # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
         try:
-            xy, method = solve_free(mats, np.stack([rhs, n_free], axis=2))
+            xy, method = solve_free(
+                mats,
+                np.stack([rhs, n_free], axis=2),
+                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE],
+            )
         except SingularBandError as exc:
             raise _singular(model, asm, free, exc.band) from None
         col_sums = xy[:, :, 1]
@@ -286,8 +295,8 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     damping_power = omega * asm.damping * energy
     connection_power = omega * (asm.eta_ab * energy[a] - asm.eta_ba * energy[b])
     net_out = np.zeros_like(energy)
-    np.add.at(net_out, a, connection_power)
-    np.add.at(net_out, b, -connection_power)
+    add_rows(net_out, a, connection_power)
+    add_rows(net_out, b, -connection_power)
     input_power = asm.power.copy()
     dissipated = damping_power.copy()
     sinks = np.array([s.sink for s in model.subsystems], dtype=bool)
