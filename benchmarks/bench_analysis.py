@@ -1,37 +1,50 @@
-"""Benchmark: cost of the analyses against one solve, on synthetic models.
+"""Benchmark: cost of the analyses against one solve of the same model, in the same run.
 
 * Sensitivities: all adjoint sensitivities of one receiver (every damping and coupling
-  loss factor, modal density and input power, all bands) of a 1,000-subsystem model,
-  against one :func:`seatool.solve.solve` of the same model, measured in the same run.
+  loss factor, modal density and input power, all bands) against one
+  :func:`seatool.solve.solve` of the same model, on the 3-D lattice of plates and cavities
+  of ``bench_solve.py`` (10,000 subsystems by default) and on its random model.
   Target: no more than 3x one solve.
-* Monte Carlo: 10,000 samples of a 100-subsystem model with loss-factor spreads (the
+* Monte Carlo: samples of a 100-subsystem random model with loss-factor spreads (the
   damping of every subsystem and 20 coupling loss factors, lognormal), direct batched
-  route. Target: under a minute on 2 cores.
+  route; the cost per sample against one standalone solve, measured on a quiet machine
+  and again while a background process keeps every core busy with multithreaded BLAS.
+  Target: under 0.5x a solve per sample in both.
 
-Models from ``benchmarks/bench_solve.py``'s ``model_text(n)`` (synthetic values: a
-benchmark, not physics). Run: ``python benchmarks/bench_analysis.py [--repeat 3]``.
+Synthetic values (a benchmark, not physics). Run:
+``python benchmarks/bench_analysis.py [--repeat 3] [--samples 10000] [--size 10000]``.
 """
 
 from __future__ import annotations
 
 import argparse
 import os
+import subprocess
 import sys
 import time
 import tomllib
+from collections.abc import Callable
 from pathlib import Path
+from typing import Any
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
-from bench_solve import model_text
+from bench_solve import lattice_model, model_text
 
 from seatool.analysis.sensitivity import sensitivities
 from seatool.analysis.uncertainty import spread
 from seatool.modelfile import build
 from seatool.solve import solve
 
+BUSY = (
+    "import numpy as np, time\n"
+    "a = np.random.default_rng(0).random((1500, 1500))\n"
+    "t = time.time()\n"
+    "while time.time() - t < 600: a @ a\n"
+)
 
-def best(fn, repeat: int) -> float:  # type: ignore[no-untyped-def]
+
+def best(fn: Callable[[], Any], repeat: int) -> float:
     times = []
     for _ in range(repeat):
         t0 = time.perf_counter()
@@ -40,26 +53,21 @@ def best(fn, repeat: int) -> float:  # type: ignore[no-untyped-def]
     return min(times)
 
 
-def main() -> None:
-    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--repeat", type=int, default=3)
-    ap.add_argument("--samples", type=int, default=10000)
-    args = ap.parse_args()
-    print(f"cores available: {os.cpu_count()}")
-
-    data = tomllib.loads(model_text(1000))
-    model = build(data)
-    t_solve = best(lambda: solve(model), args.repeat)
-    t_sens = best(lambda: sensitivities(model, "s500"), args.repeat)
-    t = sensitivities(model, "s500")
+def bench_sensitivities(name: str, model: Any, receiver: str, repeat: int) -> None:
+    t_solve = best(lambda: solve(model), repeat)
+    t_sens = best(lambda: sensitivities(model, receiver), repeat)
+    t = sensitivities(model, receiver)
     print(
-        f"sensitivities, 1000 subsystems x {len(model.bands)} bands: {t['parameter'].nunique()} "
-        f"parameters; solve {t_solve:.3f} s, all sensitivities {t_sens:.3f} s, "
+        f"sensitivities, {name}, {len(model.subsystems)} subsystems x {len(model.bands)} bands: "
+        f"{t['parameter'].nunique()} parameters; solve {t_solve:.3f} s "
+        f"({solve(model).method}), all sensitivities of {receiver} {t_sens:.3f} s, "
         f"ratio {t_sens / t_solve:.2f} (target <= 3)"
     )
 
+
+def bench_monte_carlo(samples: int, repeat: int, busy: bool) -> None:
     data = tomllib.loads(model_text(100))
-    unc = {}
+    unc: dict[str, Any] = {}
     for i in range(100):
         unc[f"d{i}"] = {
             "parameter": f"subsystems.s{i}.damping", "distribution": "lognormal", "factor": 1.5
@@ -71,13 +79,43 @@ def main() -> None:
             "factor": 1.3,
         }
     data["uncertainty"] = unc
-    t0 = time.perf_counter()
-    sp = spread(data, samples=args.samples, seed=0, progress=True)
-    t_mc = time.perf_counter() - t0
+    model = build(data)
+    proc = None
+    if busy:
+        proc = subprocess.Popen([sys.executable, "-c", BUSY])
+        time.sleep(1.0)
+    try:
+        t_solve = best(lambda: solve(model), repeat)
+        t0 = time.perf_counter()
+        sp = spread(data, samples=samples, seed=0, progress=False)
+        t_mc = time.perf_counter() - t0
+    finally:
+        if proc is not None:
+            proc.kill()
+            proc.wait()
+    per = t_mc / samples
     print(
-        f"Monte Carlo, 100 subsystems x {len(sp.model.bands)} bands, {len(unc)} loss-factor "
-        f"spreads: {sp.samples} samples in {t_mc:.1f} s ({sp.method}; target < 60 s)"
+        f"Monte Carlo ({'busy: a multithreaded BLAS process on every core' if busy else 'quiet'}),"
+        f" 100 subsystems x {len(sp.model.bands)} bands, {len(unc)} loss-factor spreads: "
+        f"{samples} samples in {t_mc:.2f} s ({sp.method}); {per * 1e3:.2f} ms per sample, "
+        f"one solve {t_solve * 1e3:.2f} ms ({solve(model).method}): "
+        f"{per / t_solve:.2f}x a solve per sample (target < 0.5)"
     )
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser(description=(__doc__ or "").splitlines()[0])
+    ap.add_argument("--repeat", type=int, default=3)
+    ap.add_argument("--samples", type=int, default=10000)
+    ap.add_argument("--size", type=int, default=10000)
+    args = ap.parse_args()
+    print(f"cores available: {os.cpu_count()}")
+    bench_sensitivities("3-D lattice", lattice_model(args.size), f"s{args.size // 2 + 1}",
+                        args.repeat)
+    random_model = build(tomllib.loads(model_text(args.size)))
+    bench_sensitivities("random", random_model, f"s{args.size // 2}", args.repeat)
+    bench_monte_carlo(args.samples, args.repeat, busy=False)
+    bench_monte_carlo(args.samples, args.repeat, busy=True)
 
 
 if __name__ == "__main__":

@@ -20,20 +20,26 @@ lets the exact 1-norm of the inverse be read from one transposed solve
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
 
 import numpy as np
 import numpy.typing as npt
 import scipy.sparse as sp
-import scipy.sparse.linalg as spla
 from scipy.sparse.csgraph import connected_components
 
+from .bandsolve import BandMatrices, SingularBandError, add_rows, spd_solve
 from .model import Model
 
-__all__ = ["Assembly", "FreeBlock", "SolveError", "assemble", "solve"]
+__all__ = [
+    "Assembly",
+    "FreeBlock",
+    "SolveError",
+    "assemble",
+    "free_block_matrices",
+    "solve",
+    "solve_free",
+]
 
 Array = npt.NDArray[np.float64]
-IntArray = npt.NDArray[np.int64]
 
 #: Relative residual allowed for conservation (input = dissipated) in every band.
 CONSERVATION_TOLERANCE = 1e-9
@@ -100,13 +106,13 @@ def assemble(model: Model) -> Assembly:
     idx = model.index()
     nb = len(model.bands)
     n = len(model.subsystems)
-    modal = np.vstack([s.modal_density for s in model.subsystems])
-    damping = np.vstack([s.damping for s in model.subsystems])
+    modal = np.array([s.modal_density for s in model.subsystems], dtype=float)
+    damping = np.array([s.damping for s in model.subsystems], dtype=float)
     sink = np.array([s.sink for s in model.subsystems], dtype=bool)
     if model.connections:
         a = np.array([idx[c.a] for c in model.connections], dtype=np.int64)
         b = np.array([idx[c.b] for c in model.connections], dtype=np.int64)
-        eta_ab = np.vstack([c.coupling_loss_factor for c in model.connections])
+        eta_ab = np.array([c.coupling_loss_factor for c in model.connections], dtype=float)
         # Reciprocity n_a eta_ab = n_b eta_ba; a sink (n = inf) returns nothing.
         with np.errstate(divide="ignore", invalid="ignore"):
             eta_ba = np.where(sink[b][:, None], 0.0, eta_ab * modal[a] / modal[b])
@@ -114,8 +120,8 @@ def assemble(model: Model) -> Assembly:
         a = b = np.zeros(0, dtype=np.int64)
         eta_ab = eta_ba = np.zeros((0, nb))
     diag = np.where(sink[:, None], 0.0, damping).copy()
-    np.add.at(diag, a, eta_ab)
-    np.add.at(diag, b, eta_ba)
+    add_rows(diag, a, eta_ab)
+    add_rows(diag, b, eta_ba)
     held = sink.copy()
     held_energy = np.zeros((n, nb))
     power = np.zeros((n, nb))
@@ -143,124 +149,6 @@ def assemble(model: Model) -> Assembly:
 
 
 @dataclass(frozen=True)
-class FreeBlock:
-    """The free block of the power balance: the one construction used by the solver and
-    by the analyses (:mod:`seatool.analysis`).
-
-    For the free (not held) subsystems U of one band, ``L_UU E_U = P_U / omega + L_UK E_K``
-    with the held energies E_K moved to the right (:meth:`rhs`). With modal energies
-    ``x = E_U / n_U`` the matrix ``C = L_UU diag(n_U)`` is symmetric positive definite
-    (reciprocity; :meth:`matrix`). The sparsity pattern is the same in every band: it is
-    built once (CSC), and :attr:`values` holds L_UU's entries per band in that slot order
-    (duplicate connections between one pair summed).
-
-    Attributes
-    ----------
-    asm : Assembly
-    free : ndarray of int (nf,)
-        Subsystem index of each unknown.
-    pos : ndarray of int (N,)
-        Position of each subsystem among the unknowns, -1 if held.
-    n_free : ndarray (nf, B)
-        Modal densities of the unknowns [1/Hz].
-    indptr, indices : ndarray of int
-        CSC structure of L_UU and C.
-    values : ndarray (nnz, B)
-        Entries of L_UU per band, in CSC slot order.
-    slot_col : ndarray of int (nnz,)
-        Column of each slot.
-    """
-
-    asm: Assembly
-    free: IntArray
-    pos: IntArray
-    n_free: Array
-    indptr: npt.NDArray[np.integer[Any]]
-    indices: npt.NDArray[np.integer[Any]]
-    values: Array
-    slot_col: npt.NDArray[np.integer[Any]]
-
-    @classmethod
-    def of(cls, model: Model, asm: Assembly) -> FreeBlock:
-        """The free block of ``asm`` (assembled from ``model``)."""
-        n, nb = asm.shape
-        free = np.flatnonzero(~asm.held).astype(np.int64)
-        pos = np.full(n, -1, dtype=np.int64)
-        pos[free] = np.arange(free.size)
-        nf = free.size
-        if not nf:
-            empty = np.zeros(0, dtype=np.int64)
-            return cls(
-                asm, free, pos, np.zeros((0, nb)), np.zeros(1, np.int64), empty,
-                np.zeros((0, nb)), empty,
-            )  # fmt: skip
-        a, b = asm.a, asm.b
-        # Entries of L_UU (both ends free): L_ab = -eta_ba, L_ba = -eta_ab.
-        ff = (pos[a] >= 0) & (pos[b] >= 0)
-        rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-        cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-        vals_all = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
-        # One sparsity pattern for all bands: build the CSC structure once, refill values.
-        pattern = sp.csc_matrix(
-            sp.coo_matrix((np.arange(1, rows.size + 1, dtype=float), (rows, cols)), shape=(nf, nf))
-        )
-        # Map each CSC slot back to its COO entries (duplicates are summed).
-        order = np.lexsort((rows, cols))
-        rs, cs = rows[order], cols[order]
-        start = np.ones(rs.size, dtype=bool)
-        start[1:] = (rs[1:] != rs[:-1]) | (cs[1:] != cs[:-1])
-        slot = np.cumsum(start) - 1
-        summed = np.zeros((int(slot[-1]) + 1, nb))
-        np.add.at(summed, slot, vals_all[order])
-        slot_col = np.repeat(np.arange(nf), np.diff(pattern.indptr))
-        n_free = np.vstack([model.subsystems[i].modal_density for i in free])
-        return cls(
-            asm=asm,
-            free=free,
-            pos=pos,
-            n_free=n_free,
-            indptr=pattern.indptr,
-            indices=pattern.indices,
-            values=summed,
-            slot_col=slot_col,
-        )
-
-    @property
-    def nf(self) -> int:
-        """Number of unknowns."""
-        return int(self.free.size)
-
-    def norm1(self, j: int) -> float:
-        """1-norm (largest absolute column sum) of L_UU in band ``j``."""
-        return float(np.bincount(self.slot_col, np.abs(self.values[:, j]), minlength=self.nf).max())
-
-    def matrix(self, j: int) -> sp.csc_matrix:
-        """The symmetric form C = L_UU diag(n_U) of band ``j`` (sparse CSC)."""
-        data = self.values[:, j] * self.n_free[self.slot_col, j]
-        return sp.csc_matrix((data, self.indices, self.indptr), shape=(self.nf, self.nf))
-
-    def rhs(self, power: Array, held_energy: Array, band: int | None = None) -> Array:
-        """Right-hand side ``P_U / omega + L_UK E_K``.
-
-        ``power`` and ``held_energy`` are (N, B) for every band (``band`` None), or (N, S)
-        for S right-hand sides of band ``band``; the result is (nf, B) or (nf, S).
-        """
-        asm, pos = self.asm, self.pos
-        a, b = asm.a, asm.b
-        if band is None:
-            omega, eta_ab, eta_ba = asm.omega, asm.eta_ab, asm.eta_ba
-        else:
-            omega = asm.omega[band]
-            eta_ab, eta_ba = asm.eta_ab[:, band, None], asm.eta_ba[:, band, None]
-        out = np.asarray(power[self.free] / omega, dtype=np.float64)
-        fa = (pos[a] >= 0) & asm.held[b]
-        np.add.at(out, pos[a[fa]], eta_ba[fa] * held_energy[b[fa]])
-        fb = (pos[b] >= 0) & asm.held[a]
-        np.add.at(out, pos[b[fb]], eta_ab[fb] * held_energy[a[fb]])
-        return out
-
-
-@dataclass(frozen=True)
 class Solution:
     """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people."""
 
@@ -271,6 +159,7 @@ class Solution:
     residual: Array  # (B,) relative conservation residual
     condition: Array  # (B,) 1-norm condition number of the solved block
     notes: tuple[str, ...]
+    method: str = "lu"  # how the bands were solved (see seatool.bandsolve.spd_solve)
 
 
 def _check_singular(model: Model, asm: Assembly) -> None:
@@ -300,50 +189,119 @@ def _check_singular(model: Model, asm: Assembly) -> None:
             )
 
 
-#: Above this many unknowns a band is solved by preconditioned conjugate gradients.
-ITERATIVE_ABOVE = 1000
-_CG_RTOL = 1e-14
+#: Above this many unknowns the bands are solved by the batched iterative method first
+#: (conjugate gradients and Jacobi sweeps, :mod:`seatool.bandsolve`); bands it cannot
+#: solve to :data:`ENERGY_TOLERANCE` fall back to sparse LU.
+ITERATIVE_ABOVE = 60
+#: Relative accuracy asked of every energy and checked by each subsystem's balance.
+ENERGY_TOLERANCE = 1e-9
+#: Relative accuracy asked of the vector whose largest entry is ||L^-1||_1.
+CONDITION_VECTOR_TOLERANCE = 1e-8
 
 
-def _spd_solve(
-    cmat: sp.csc_matrix,
-    rhs: Array,
-    n: Array,
-    model: Model,
-    free: npt.NDArray[np.int64],
-    j: int,
-    asm: Assembly,
-) -> tuple[Array, Array]:
-    """Solve C x = rhs and C y = n for the symmetric positive definite C of one band.
+def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) -> SolveError:
+    ratio = asm.damping[free, j] / np.maximum(asm.diag[free, j], np.finfo(float).tiny)
+    names = ", ".join(model.subsystems[free[i]].name for i in np.argsort(ratio)[:3])
+    return SolveError(
+        f"band {model.bands.label(j)}: the power balance is singular to working "
+        f"precision; the least damped relative to their coupling are {names} - "
+        "check their damping and coupling loss factors"
+    )
 
-    Direct sparse LU (symmetric-structure ordering) for small systems; for large ones
-    conjugate gradients with a Jacobi preconditioner (Saad 2003, Iterative Methods for
-    Sparse Linear Systems, 2nd ed., alg. 9.1), falling back to LU if it does not converge.
+
+def free_block_matrices(
+    asm: Assembly, pos: npt.NDArray[np.int64], n_free: Array
+) -> BandMatrices:
+    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns."""
+    nf = n_free.shape[0]
+    a, b = asm.a, asm.b
+    ff = (pos[a] >= 0) & (pos[b] >= 0)
+    free = np.flatnonzero(pos >= 0)
+    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
+    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
+    vals = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
+    return BandMatrices.from_entries(nf, rows, cols, vals * n_free[cols])
+
+
+@dataclass(frozen=True)
+class FreeBlock:
+    """The free block of the power balance: the one construction used by the solver and
+    by the analyses (:mod:`seatool.analysis`).
+
+    For the free (not held) subsystems U of one band, ``L_UU E_U = P_U / omega + L_UK E_K``
+    with the held energies E_K moved to the right (:meth:`rhs`). With modal energies
+    ``x = E_U / n_U`` the matrix ``C = L_UU diag(n_U)`` is symmetric positive definite
+    (reciprocity); :attr:`mats` holds it for every band on one sparsity pattern
+    (:func:`free_block_matrices`).
+
+    Attributes
+    ----------
+    asm : Assembly
+    free : ndarray of int (nf,)
+        Subsystem index of each unknown.
+    pos : ndarray of int (N,)
+        Position of each subsystem among the unknowns, -1 if held.
+    n_free : ndarray (nf, B)
+        Modal densities of the unknowns [1/Hz].
+    mats : BandMatrices
+        C of every band.
     """
-    nf = cmat.shape[0]
-    if nf > ITERATIVE_ABOVE:
-        d = cmat.diagonal()
-        if np.all(d > 0):
-            prec = spla.LinearOperator(cmat.shape, matvec=lambda v: v / d, dtype=float)
-            out = []
-            for b in (rhs, n):
-                x, info = spla.cg(cmat, b, rtol=_CG_RTOL, atol=0.0, M=prec, maxiter=20 * nf)
-                if info != 0:
-                    break
-                out.append(x)
-            if len(out) == 2:
-                return out[0], out[1]
-    try:
-        lu = spla.splu(cmat, permc_spec="MMD_AT_PLUS_A")
-    except RuntimeError:  # singular to working precision
-        ratio = asm.damping[free, j] / np.maximum(asm.diag[free, j], np.finfo(float).tiny)
-        names = ", ".join(model.subsystems[free[i]].name for i in np.argsort(ratio)[:3])
-        raise SolveError(
-            f"band {model.bands.label(j)}: the power balance is singular to working "
-            f"precision; the least damped relative to their coupling are {names} - "
-            "check their damping and coupling loss factors"
-        ) from None
-    return lu.solve(rhs), lu.solve(n)
+
+    asm: Assembly
+    free: npt.NDArray[np.int64]
+    pos: npt.NDArray[np.int64]
+    n_free: Array
+    mats: BandMatrices
+
+    @classmethod
+    def of(cls, model: Model, asm: Assembly) -> FreeBlock:
+        """The free block of ``asm`` (assembled from ``model``)."""
+        n, nb = asm.shape
+        free = np.flatnonzero(~asm.held).astype(np.int64)
+        pos = np.full(n, -1, dtype=np.int64)
+        pos[free] = np.arange(free.size)
+        if free.size:
+            n_free = np.array([model.subsystems[i].modal_density for i in free], dtype=float)
+        else:
+            n_free = np.zeros((0, nb))
+        return cls(asm, free, pos, n_free, free_block_matrices(asm, pos, n_free))
+
+    @property
+    def nf(self) -> int:
+        """Number of unknowns."""
+        return int(self.free.size)
+
+    def matrix(self, j: int) -> sp.csc_matrix:
+        """The symmetric form C = L_UU diag(n_U) of band ``j`` (sparse CSC)."""
+        return self.mats.band(j)
+
+    def rhs(self, power: Array, held_energy: Array, band: int | None = None) -> Array:
+        """Right-hand side ``P_U / omega + L_UK E_K``.
+
+        ``power`` and ``held_energy`` are (N, B) for every band (``band`` None), or (N, S)
+        for S right-hand sides of band ``band``; the result is (nf, B) or (nf, S).
+        """
+        asm, pos = self.asm, self.pos
+        a, b = asm.a, asm.b
+        if band is None:
+            omega, eta_ab, eta_ba = asm.omega, asm.eta_ab, asm.eta_ba
+        else:
+            omega = asm.omega[band]
+            eta_ab, eta_ba = asm.eta_ab[:, band, None], asm.eta_ba[:, band, None]
+        out = np.asarray(power[self.free] / omega, dtype=np.float64)
+        fa = (pos[a] >= 0) & asm.held[b]
+        np.add.at(out, pos[a[fa]], eta_ba[fa] * held_energy[b[fa]])
+        fb = (pos[b] >= 0) & asm.held[a]
+        np.add.at(out, pos[b[fb]], eta_ab[fb] * held_energy[a[fb]])
+        return out
+
+
+def solve_free(
+    mats: BandMatrices, rhs: Array, tol: npt.ArrayLike | None = None
+) -> tuple[Array, str]:
+    """:func:`seatool.bandsolve.spd_solve` with the solver's settings (read at call time)."""
+    tol = ENERGY_TOLERANCE if tol is None else tol
+    return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
 
 
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
@@ -363,24 +321,35 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     energy = asm.held_energy.copy()
     condition = np.ones(nb)
     notes: list[str] = []
+    method = "none (every subsystem is held)"
     if nf:
-        n_free = blk.n_free
-        for j in range(nb):
-            norm_l = blk.norm1(j)
-            cmat = blk.matrix(j)
-            x, col_sums = _spd_solve(cmat, rhs[:, j], n_free[:, j], model, free, j, asm)
-            # M-matrix: ||L^-1||_1 = max(L^-T 1) exactly, and L^-T 1 = C^-1 n.
-            cond = norm_l * float(np.max(col_sums))
-            condition[j] = cond
-            if not np.isfinite(cond) or cond > CONDITION_LIMIT or np.any(col_sums < 0):
-                worst = np.argsort(col_sums)[::-1][:3]
-                names = ", ".join(model.subsystems[free[i]].name for i in worst)
-                raise SolveError(
-                    f"band {model.bands.label(j)}: the power balance is ill-conditioned "
-                    f"(condition number {cond:.2g}); energy piles up in {names} - check their "
-                    "damping and coupling loss factors"
-                )
-            energy[free, j] = n_free[:, j] * x
+        n_free, mats = blk.n_free, blk.mats  # C = L_UU diag(n_U), one pattern for all bands
+        col = mats.column_of_entry()
+        norm_l = np.zeros((nf, nb))
+        add_rows(norm_l, col, np.abs(mats.values) / n_free[col])
+        # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
+        try:
+            xy, method = solve_free(
+                mats,
+                np.stack([rhs, n_free], axis=2),
+                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE],
+            )
+        except SingularBandError as exc:
+            raise _singular(model, asm, free, exc.band) from None
+        col_sums = xy[:, :, 1]
+        condition = norm_l.max(axis=0) * col_sums.max(axis=0)
+        bad = ~np.isfinite(condition) | (condition > CONDITION_LIMIT) | np.any(col_sums < 0, axis=0)
+        if bad.any():
+            j = int(np.flatnonzero(bad)[0])
+            cond = condition[j]
+            worst = np.argsort(col_sums[:, j])[::-1][:3]
+            names = ", ".join(model.subsystems[free[i]].name for i in worst)
+            raise SolveError(
+                f"band {model.bands.label(j)}: the power balance is ill-conditioned "
+                f"(condition number {cond:.2g}); energy piles up in {names} - check their "
+                "damping and coupling loss factors"
+            )
+        energy[free] = n_free * xy[:, :, 0]
         worst_band = int(np.argmax(condition))
         if condition[worst_band] > CONDITION_NOTE:
             notes.append(
@@ -398,8 +367,8 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     damping_power = omega * asm.damping * energy
     connection_power = omega * (asm.eta_ab * energy[a] - asm.eta_ba * energy[b])
     net_out = np.zeros_like(energy)
-    np.add.at(net_out, a, connection_power)
-    np.add.at(net_out, b, -connection_power)
+    add_rows(net_out, a, connection_power)
+    add_rows(net_out, b, -connection_power)
     input_power = asm.power.copy()
     dissipated = damping_power.copy()
     sinks = np.array([s.sink for s in model.subsystems], dtype=bool)
@@ -428,4 +397,5 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
         residual=residual,
         condition=condition,
         notes=tuple(notes),
+        method=method,
     )

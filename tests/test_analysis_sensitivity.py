@@ -256,3 +256,54 @@ def test_bad_receiver_and_parameter(mixed):
         parameter_sensitivities(data, "workshop_air", ["subsystems.workshop_air.volum"])
     with pytest.raises(InputError, match="boolean|not a number"):
         parameter_sensitivities(data, "workshop_air", ["subsystems.walls.kind"])
+
+
+def test_iterative_route_matches_fd(mixed, monkeypatch):
+    # The adjoint solved by the batched iterative route (as the forward solve of large
+    # models) against central differences of full solves by sparse LU.
+    import importlib
+
+    solve_mod = importlib.import_module("seatool.solve")
+    fd = finite_differences(mixed)
+    monkeypatch.setattr(solve_mod, "ITERATIVE_ABOVE", 0)
+    assert solve_mod.solve(mixed).method == "iterative"
+    for r, s in enumerate(mixed.subsystems):
+        if s.sink:
+            continue
+        t = sensitivities(mixed, s.name)
+        for name, d in fd.items():
+            got = t[t["parameter"] == name]["dL_dlnx_dB"].to_numpy()
+            ok = np.isfinite(d[r])
+            np.testing.assert_allclose(got[ok], d[r][ok], rtol=0, atol=TOL_DB, err_msg=f"{s.name} {name}")
+
+
+def test_iterative_route_matches_fd_on_a_lattice(monkeypatch):
+    # 5 x 5 x 4 lattice of subsystems (more unknowns than ITERATIVE_ABOVE, so the solver
+    # and the adjoint take the iterative route); finite differences by sparse LU solves.
+    import importlib
+
+    solve_mod = importlib.import_module("seatool.solve")
+    rng = np.random.default_rng(2)
+    bands = BandAxis.from_range(250, 1000)
+    nb = len(bands)
+    shape = (5, 5, 4)
+    idx = np.arange(100).reshape(shape)
+    subs = tuple(
+        Subsystem(f"s{i}", "structure", rng.uniform(0.1, 10, nb), rng.uniform(1e-3, 2e-2, nb), quantity="velocity", mass=1.0)
+        for i in range(100)
+    )
+    pairs = [(int(a), int(b)) for ax in range(3) for a, b in zip(np.take(idx, range(shape[ax] - 1), axis=ax).ravel(), np.take(idx, range(1, shape[ax]), axis=ax).ravel(), strict=True)]
+    cons = tuple(Connection(f"c{k}", f"s{a}", f"s{b}", rng.uniform(1e-4, 3e-3, nb)) for k, (a, b) in enumerate(pairs))
+    m = Model(bands, subs, cons, (Excitation("p", "s0", "power", power=np.full(nb, 1e-3)),))
+    assert solve_mod.solve(m).method == "iterative"
+    t = sensitivities(m, "s37")
+    monkeypatch.setattr(solve_mod, "ITERATIVE_ABOVE", 10**9)
+    ep, em = np.exp(H), np.exp(-H)
+    r = 37
+    checks = [(f"damping:s{i}", lambda f, i=i: _scale_sub(m, i, "damping", f)) for i in (0, 1, 36, 37, 99)]
+    checks += [(f"coupling:c{k}", lambda f, k=k: _scale_con(m, k, f)) for k in (0, 5, 50, 100, 200)]
+    checks += [("modal_density:s12", lambda f: _scale_sub(m, 12, "modal_density", f))]
+    for name, vary in checks:
+        d = (levels(vary(ep))[r] - levels(vary(em))[r]) / (2 * H)
+        got = t[t["parameter"] == name]["dL_dlnx_dB"].to_numpy()
+        np.testing.assert_allclose(got, d, rtol=0, atol=TOL_DB, err_msg=name)

@@ -46,6 +46,7 @@ MODULES = {
     "seatool.kinds": "readers",
     "seatool.modelfile": "readers",
     "seatool.catalogue": "readers",
+    "seatool.bandsolve": "solve",
     "seatool.solve": "solve",
     "seatool.results": "results",
     # per-band SEA validity of a model: Result.notes and Result.validity show it

@@ -46,15 +46,16 @@ import numpy as np
 import numpy.typing as npt
 import pandas as pd
 
+from ..bandsolve import SingularBandError
 from ..errors import InputError, Problem
 from ..levels import db_to_ratio
 from ..model import Model
 from ..modelfile import build
 from ..results import Result
-from ..solve import Assembly, FreeBlock, assemble
+from ..solve import Assembly, FreeBlock, SolveError, assemble, solve_free
 from ..solve import solve as core_solve
 from ._keypath import read_data, resolve, with_value
-from ._system import factors, level_offset, receiver_index, validity_columns
+from ._system import level_offset, receiver_index, validity_columns
 
 __all__ = [
     "Gradients",
@@ -118,19 +119,32 @@ def gradients(
     else:
         energy = np.array(asm.held_energy, dtype=float)
     held_r = bool(asm.held[r])
-    if not held_r:
+    if not held_r and blk.nf:
+        # Forward and adjoint (C lam = n_r e_r) on the forward solve's path: one batched
+        # solve of all bands (iterative or sparse LU, as chosen by the solver).
         pr = int(blk.pos[r])
-        for j, lu in factors(blk, model):
-            assert lu is not None
-            e_r = np.zeros(blk.nf)
-            e_r[pr] = blk.n_free[pr, j]
-            if result is None:
-                rhs = blk.rhs(asm.power[:, j : j + 1], asm.held_energy[:, j : j + 1], j)
-                both = lu.solve(np.column_stack([rhs[:, 0], e_r]))
-                energy[blk.free, j] = blk.n_free[:, j] * both[:, 0]
-                lam[blk.free, j] = both[:, 1]
-            else:
-                lam[blk.free, j] = lu.solve(e_r)
+        cols = []
+        if result is None:
+            cols.append(
+                np.column_stack(
+                    [blk.rhs(asm.power[:, j : j + 1], asm.held_energy[:, j : j + 1], j)[:, 0]
+                     for j in range(nb)]
+                )
+            )
+        e_r = np.zeros((blk.nf, nb))
+        e_r[pr] = blk.n_free[pr]
+        cols.append(e_r)
+        mats = blk.mats
+        try:
+            sol, _ = solve_free(mats, np.stack(cols, axis=2))
+        except SingularBandError as exc:
+            raise SolveError(
+                f"band {model.bands.label(exc.band)}: the power balance is singular to "
+                "working precision"
+            ) from None
+        if result is None:
+            energy[blk.free] = blk.n_free * sol[:, :, 0]
+        lam[blk.free] = sol[:, :, -1]
     a, b = asm.a, asm.b
     g_damp = np.where(asm.held[:, None], 0.0, -lam * energy)
     g_ab = -(lam[a] - lam[b]) * energy[a] if nc else np.zeros((0, nb))

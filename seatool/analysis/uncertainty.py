@@ -42,6 +42,7 @@ import numpy as np
 import numpy.typing as npt
 import pandas as pd
 import scipy.sparse as sp
+from threadpoolctl import threadpool_limits
 
 from .. import levels
 from ..errors import InputError, Problem
@@ -184,7 +185,10 @@ def _batched_dense(
         np.add.at(rhs_t, pos[a[fa]], (eta_ba[:, fa, j] * held_energy[b[fa], j]).T)
         np.add.at(rhs_t, pos[b[fb]], (eta_ab[:, fb, j] * held_energy[a[fb], j]).T)
         try:
-            x = np.linalg.solve(mats, rhs[:, :, None])[:, :, 0]
+            # One BLAS thread: a stack of small solves gains nothing from threads inside
+            # each one, and extra threads on a busy machine multiply the time.
+            with threadpool_limits(limits=1, user_api="blas"):
+                x = np.linalg.solve(mats, rhs[:, :, None])[:, :, 0]
         except np.linalg.LinAlgError:
             raise SolveError(
                 f"band {model.bands.label(j)}: a sampled power balance is singular"
