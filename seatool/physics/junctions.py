@@ -49,6 +49,7 @@ __all__ = [
     "bending_junction_transmission_diffuse",
     "clf_point_resilient",
     "clf_point_rigid",
+    "clear_memo",
     "clf_resonator_point",
     "line_junction_transmission",
     "line_junction_transmission_diffuse",
@@ -386,6 +387,11 @@ def line_junction_transmission_diffuse_per_band(
             raise ValueError(msg)
     out = _diffuse_memo(tuple(f_arr.tolist()), key_plates, source, col_in, n_points)
     return out.copy()
+
+
+def clear_memo() -> None:
+    """Forget the remembered diffuse-field results (for timing a first load)."""
+    _diffuse_memo.cache_clear()
 
 
 @lru_cache(maxsize=512)
