@@ -4,7 +4,7 @@
   validation and the derivation of every subsystem and coupling from materials and
   dimensions) against :func:`tomllib.load` of the same file. The line-junction results
   are remembered per process, so each timed load starts with an empty memo
-  (:func:`seatool.physics.junctions.clear_memo`) -- a first load; a repeated load of the
+  (:func:`seatool.physics.memo.clear`) -- a first load; a repeated load of the
   same file ("warm") is shown too.
 * A generated 10,000-subsystem file (``benchmarks/bench_solve.py``'s ``model_text``:
   subsystems given by mass, modal density and damping, 20,000 given coupling loss
@@ -38,7 +38,7 @@ from bench_solve import model_text
 from seatool import modelfile
 from seatool.analysis._keypath import with_value
 from seatool.analysis.uncertainty import Uncertain, spread
-from seatool.physics import junctions
+from seatool.physics import memo
 
 MODELS = Path(__file__).resolve().parent.parent / "models"
 
@@ -80,7 +80,7 @@ def shipped_models(repeat: int) -> None:
                 tomllib.load(fh)
 
         t_toml = best(parse, repeat)
-        t_load = best(lambda p=path: modelfile.load(p), repeat, before=junctions.clear_memo)
+        t_load = best(lambda p=path: modelfile.load(p), repeat, before=memo.clear)
         t_warm = best(lambda p=path: modelfile.load(p), repeat)
         print(
             f"{path.name:<24} {1e3 * t_toml:>10.2f} {1e3 * t_load:>9.2f} "
@@ -113,8 +113,8 @@ def monte_carlo(repeat: int, s1: int = 2, s2: int = 22) -> None:
             )
             assert sp.method == "rebuild per sample", sp.method
 
-        t1 = best(lambda: run(s1), repeat, before=junctions.clear_memo)
-        t2 = best(lambda: run(s2), repeat, before=junctions.clear_memo)
+        t1 = best(lambda: run(s1), repeat, before=memo.clear)
+        t2 = best(lambda: run(s2), repeat, before=memo.clear)
         per_sample = (t2 - t1) / (s2 - s1)
 
         def rebuild(u: list[Uncertain] = unc) -> None:

@@ -32,7 +32,6 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from typing import Literal
 
 import numpy as np
@@ -40,6 +39,7 @@ import numpy.typing as npt
 
 from . import junction_waves as jw
 from . import structural
+from .memo import memoised
 
 __all__ = [
     "WAVE_TYPES",
@@ -49,7 +49,6 @@ __all__ = [
     "bending_junction_transmission_diffuse",
     "clf_point_resilient",
     "clf_point_rigid",
-    "clear_memo",
     "clf_resonator_point",
     "line_junction_transmission",
     "line_junction_transmission_diffuse",
@@ -385,16 +384,10 @@ def line_junction_transmission_diffuse_per_band(
         if any(pb.angle != pp[0].angle for pb in pp):
             msg = f"plates[{idx}] changes its angle between bands"
             raise ValueError(msg)
-    out = _diffuse_memo(tuple(f_arr.tolist()), key_plates, source, col_in, n_points)
-    return out.copy()
+    return _diffuse_memo(tuple(f_arr.tolist()), key_plates, source, col_in, n_points)
 
 
-def clear_memo() -> None:
-    """Forget the remembered diffuse-field results (for timing a first load)."""
-    _diffuse_memo.cache_clear()
-
-
-@lru_cache(maxsize=512)
+@memoised(maxsize=512)
 def _diffuse_memo(
     f: tuple[float, ...],
     plates: tuple[tuple[JunctionPlate, ...], ...],
@@ -402,12 +395,10 @@ def _diffuse_memo(
     incident: int,
     n_points: int,
 ) -> FloatArray:
-    """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission` (read-only)."""
-    out = jw.diffuse_transmission(
+    """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission`."""
+    return jw.diffuse_transmission(
         np.array(f), _stack(plates), source=source, incident=incident, n_points=n_points
     )
-    out.flags.writeable = False
-    return out
 
 
 # --------------------------------------------------------------------------------------------
