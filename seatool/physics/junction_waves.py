@@ -437,7 +437,7 @@ def plate_arrays(
     """Stack plate data (each ``(N, B)``; ``angle`` ``(N,)``) into :class:`PlateArrays`.
 
     ``bending`` is ``D`` computed by the caller with
-    :func:`seatool.physics.structural.bending_stiffness` (one formula, one place).
+    :func:`seatool.physics.plates.bending_stiffness` (one formula, one place).
     """
     h = np.asarray(thickness, dtype=np.float64)
     e = np.asarray(youngs_modulus, dtype=np.float64)

@@ -38,7 +38,7 @@ import numpy as np
 import numpy.typing as npt
 
 from . import junction_waves as jw
-from . import structural
+from . import plates
 from .memo import memoised
 
 __all__ = [
@@ -109,8 +109,8 @@ class JunctionPlate:
 
 
 def _bending_stiffness(p: JunctionPlate) -> float:
-    """D = E h^3 / (12 (1 - nu^2)) [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
-    return float(structural.bending_stiffness(p.youngs_modulus, p.thickness, p.poisson))
+    """D = E h^3 / (12 (1 - nu^2)) [N m] (:func:`seatool.physics.plates.bending_stiffness`)."""
+    return float(plates.bending_stiffness(p.youngs_modulus, p.thickness, p.poisson))
 
 
 def _membrane_stiffness(p: JunctionPlate) -> float:
@@ -185,15 +185,15 @@ def _frequencies(f: npt.ArrayLike) -> FloatArray:
     return f_arr
 
 
-def _stack(plates: Sequence[Sequence[JunctionPlate]]) -> jw.PlateArrays:
-    """Plate data of ``plates[p][b]`` (plate ``p`` in band ``b``) as arrays ``(N, B)``."""
+def _stack(per_plate: Sequence[Sequence[JunctionPlate]]) -> jw.PlateArrays:
+    """Plate data of ``per_plate[p][b]`` (plate ``p`` in band ``b``) as arrays ``(N, B)``."""
     rows = [
-        [(pb.thickness, pb.youngs_modulus, pb.density, pb.poisson) for pb in pp] for pp in plates
+        [(pb.thickness, pb.youngs_modulus, pb.density, pb.poisson) for pb in pp] for pp in per_plate
     ]
     arr = np.array(rows, dtype=np.float64)  # (N, B, 4)
     h, e, rho, nu = arr[..., 0], arr[..., 1], arr[..., 2], arr[..., 3]
     return jw.plate_arrays(
-        h, e, rho, nu, [pp[0].angle for pp in plates], structural.bending_stiffness(e, h, nu)
+        h, e, rho, nu, [pp[0].angle for pp in per_plate], plates.bending_stiffness(e, h, nu)
     )
 
 
