@@ -30,6 +30,8 @@ from typing import Any
 import numpy as np
 import numpy.typing as npt
 
+from .quadrature import gauss_legendre
+
 __all__ = [
     "INCIDENT_COLUMNS",
     "PlateArrays",
@@ -335,7 +337,7 @@ def _gauss_map(n_points: int) -> tuple[FloatArray, FloatArray, FloatArray]:
     Returns ``w``, ``1 - cos(u)`` and ``sin(u)`` at ``u = pi (x + 1)/2`` for the
     Gauss-Legendre nodes ``x`` on [-1, 1] (read-only arrays).
     """
-    x, w = np.polynomial.legendre.leggauss(n_points)
+    x, w = gauss_legendre(n_points)
     u = 0.5 * np.pi * (x + 1.0)
     out = (w, 1.0 - np.cos(u), np.sin(u))
     for a in out:

@@ -168,7 +168,7 @@ def _wave_index(incident: str) -> int:
     return WAVE_TYPES.index(incident)
 
 
-def _check_plates(plates: Sequence[JunctionPlate], source: int) -> None:
+def _check_plates(plates: Sequence[object], source: int) -> None:
     if len(plates) < 2:
         msg = f"a line junction needs at least 2 plates, got {len(plates)}"
         raise ValueError(msg)
@@ -185,16 +185,19 @@ def _frequencies(f: npt.ArrayLike) -> FloatArray:
     return f_arr
 
 
-def _stack(per_plate: Sequence[Sequence[JunctionPlate]]) -> jw.PlateArrays:
-    """Plate data of ``per_plate[p][b]`` (plate ``p`` in band ``b``) as arrays ``(N, B)``."""
+def _table(per_plate: Sequence[Sequence[JunctionPlate]]) -> FloatArray:
+    """``(thickness, E, density, nu, angle)`` of ``per_plate[p][b]`` as an array ``(N, B, 5)``."""
     rows = [
-        [(pb.thickness, pb.youngs_modulus, pb.density, pb.poisson) for pb in pp] for pp in per_plate
+        [(pb.thickness, pb.youngs_modulus, pb.density, pb.poisson, pb.angle) for pb in pp]
+        for pp in per_plate
     ]
-    arr = np.array(rows, dtype=np.float64)  # (N, B, 4)
-    h, e, rho, nu = arr[..., 0], arr[..., 1], arr[..., 2], arr[..., 3]
-    return jw.plate_arrays(
-        h, e, rho, nu, [pp[0].angle for pp in per_plate], plates.bending_stiffness(e, h, nu)
-    )
+    return np.array(rows, dtype=np.float64)
+
+
+def _stack(table: FloatArray) -> jw.PlateArrays:
+    """:class:`~seatool.physics.junction_waves.PlateArrays` of a :func:`_table`."""
+    h, e, rho, nu = table[..., 0], table[..., 1], table[..., 2], table[..., 3]
+    return jw.plate_arrays(h, e, rho, nu, table[:, 0, 4], plates.bending_stiffness(e, h, nu))
 
 
 # --------------------------------------------------------------------------------------------
@@ -267,7 +270,7 @@ def line_junction_transmission(
         msg = f"theta must lie in [0, pi/2], got {theta!r}"
         raise ValueError(msg)
     f_arr = _frequencies(f).reshape(1)
-    pl = _stack([[p] for p in plates])
+    pl = _stack(_table([[p] for p in plates]))
     k_in = pl.wavenumbers(f_arr)[col_in][source]  # (1,)
     # exactly grazing incidence carries no power; use the limit just below it
     q = k_in[:, None] * np.sin(np.minimum(th, jw.THETA_MAX)).reshape(1, -1)
@@ -371,33 +374,35 @@ def line_junction_transmission_diffuse_per_band(
     if f_arr.ndim != 1:
         msg = f"f must be one-dimensional (one value per band), got shape {f_arr.shape}"
         raise ValueError(msg)
-    _check_plates([pp[0] if len(pp) else None for pp in plates], source)  # type: ignore[misc]
+    _check_plates(plates, source)
     col_in = _wave_index(incident)
     if n_points < 2:
         msg = f"n_points must be >= 2, got {n_points!r}"
         raise ValueError(msg)
-    key_plates = tuple(tuple(pp) for pp in plates)
-    for idx, pp in enumerate(key_plates):
+    if f_arr.size == 0:
+        return np.empty((0, len(plates), 3))
+    for idx, pp in enumerate(plates):
         if len(pp) != f_arr.size:
             msg = f"plates[{idx}] has {len(pp)} entries for {f_arr.size} bands"
             raise ValueError(msg)
-        if any(pb.angle != pp[0].angle for pb in pp):
-            msg = f"plates[{idx}] changes its angle between bands"
-            raise ValueError(msg)
-    return _diffuse_memo(tuple(f_arr.tolist()), key_plates, source, col_in, n_points)
+    table = _table(plates)
+    if np.any(table[..., 4] != table[:, :1, 4]):
+        msg = "a plate changes its angle between bands"
+        raise ValueError(msg)
+    return _diffuse_memo(f_arr, table, source, col_in, n_points)
 
 
 @memoised(maxsize=512)
 def _diffuse_memo(
-    f: tuple[float, ...],
-    plates: tuple[tuple[JunctionPlate, ...], ...],
+    f: FloatArray,
+    table: FloatArray,
     source: int,
     incident: int,
     n_points: int,
 ) -> FloatArray:
     """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission`."""
     return jw.diffuse_transmission(
-        np.array(f), _stack(plates), source=source, incident=incident, n_points=n_points
+        f, _stack(table), source=source, incident=incident, n_points=n_points
     )
 
 
