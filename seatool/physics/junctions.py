@@ -1,4 +1,4 @@
-"""Structural junctions: wave transmission through line junctions of plates, point connections.
+"""Structural junctions: wave transmission through line junctions of plates.
 
 Line junctions
 --------------
@@ -16,10 +16,8 @@ power. :func:`line_junction_transmission_diffuse` averages over a diffuse incide
 :func:`bending_junction_transmission` is Cremer's bending-only closed form (junction line held
 fixed in translation, common rotation, moments in balance), kept separate for checking.
 
-Point connections
------------------
-:func:`clf_point_rigid` and :func:`clf_point_resilient` give the CLF of ``N`` incoherent point
-connections from the drive-point mobilities of the two uncoupled subsystems.
+Point connections (rigid, resilient mounts, a resonator's spring) are in
+:mod:`seatool.physics.point_connections`; their functions are also reachable from here.
 
 Conventions: time dependence exp(+j omega t); plate ``p`` lies in the half-plane at angle
 ``angle_p`` [rad] around the junction line, measured in the cross-section plane; its local
@@ -37,7 +35,10 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
+from . import junction_waves as jw
 from . import plates
+from .memo import memoised
+from .point_connections import clf_point_resilient, clf_point_rigid, clf_resonator_point
 
 __all__ = [
     "WAVE_TYPES",
@@ -50,6 +51,7 @@ __all__ = [
     "clf_resonator_point",
     "line_junction_transmission",
     "line_junction_transmission_diffuse",
+    "line_junction_transmission_diffuse_per_band",
     "wavenumbers",
 ]
 
@@ -157,88 +159,44 @@ def wavenumbers(f: float, plate: JunctionPlate) -> tuple[float, float, float]:
     return k_b, k_l, k_s
 
 
-def _kx(k: float, q: FloatArray) -> ComplexArray:
-    """x-wavenumber of an outgoing wave: real >= 0 if propagating, -j|.| if evanescent."""
-    d = k**2 - q**2
-    out: ComplexArray = np.where(d >= 0.0, np.sqrt(np.abs(d)) + 0j, -1j * np.sqrt(np.abs(d)))
-    return out
-
-
-def _edge_matrices(
-    plate: JunctionPlate, f: float, q: FloatArray, sign: float
-) -> tuple[ComplexArray, ComplexArray, ComplexArray, FloatArray]:
-    """Edge displacement and force matrices of the four waves of a plate.
-
-    Rows: local edge dofs (u, v, w, theta); columns: wave amplitudes (bending, bending near
-    field, longitudinal, shear). ``sign = +1``: outgoing waves exp(-j kx x); ``sign = -1``:
-    incoming waves exp(+j kx x) (only the propagating columns are meaningful then).
-    Forces are the generalised forces the junction applies to the plate edge, work-conjugate
-    to (u, v, w, theta). Also returns the x-wavenumbers (T, 4) and the power per unit
-    junction length per |amplitude|^2 (T, 4) (zero for evanescent waves).
-    """
-    k_b, k_l, k_s = wavenumbers(f, plate)
-    d = _bending_stiffness(plate)
-    c = _membrane_stiffness(plate)
-    gh = _shear_stiffness(plate)
-    nu = plate.poisson
-    w = 2.0 * math.pi * f
-    kxb = sign * _kx(k_b, q)
-    kxn = -1j * np.sqrt(k_b**2 + q**2) + 0j  # bending near field, always decaying
-    kxl = sign * _kx(k_l, q)
-    kxs = sign * _kx(k_s, q)
-    shape = (*q.shape, 4, 4)
-    phi = np.zeros(shape, dtype=np.complex128)
-    frc = np.zeros(shape, dtype=np.complex128)
-    for col, kx in ((0, kxb), (1, kxn)):
-        phi[..., 2, col] = 1.0
-        phi[..., 3, col] = -1j * kx
-        frc[..., 2, col] = 1j * d * kx * (kx**2 + (2.0 - nu) * q**2)
-        frc[..., 3, col] = d * (kx**2 + nu * q**2)
-    # longitudinal: displacement along the wavevector (kx, q)/k_L
-    phi[..., 0, 2] = kxl / k_l
-    phi[..., 1, 2] = q / k_l
-    frc[..., 0, 2] = 1j * c * (kxl**2 + nu * q**2) / k_l
-    frc[..., 1, 2] = 1j * gh * 2.0 * q * kxl / k_l
-    # shear: displacement perpendicular to the wavevector (-q, kx)/k_S
-    phi[..., 0, 3] = -q / k_s
-    phi[..., 1, 3] = kxs / k_s
-    frc[..., 0, 3] = -1j * 2.0 * gh * kxs * q / k_s
-    frc[..., 1, 3] = 1j * gh * (kxs**2 - q**2) / k_s
-    kx_all = np.stack([kxb, kxn, kxl, kxs], axis=-1)
-    prop = np.abs(kx_all.imag) < 1e-12 * max(k_b, k_l, k_s)
-    kr = np.abs(kx_all.real)
-    flux_coef = np.array([w * d * k_b**2, 0.0, 0.5 * w * c, 0.5 * w * gh])
-    flux = np.where(prop, kr * flux_coef, 0.0)
-    flux[..., 1] = 0.0
-    return phi, frc, kx_all, flux
-
-
-_THETA_MAX = 0.5 * math.pi - 1e-7
-
-
-def _rotation(angle: float) -> FloatArray:
-    """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta)."""
-    ca, sa = math.cos(angle), math.sin(angle)
-    out: FloatArray = np.array(
-        [[ca, sa, 0.0, 0.0], [0.0, 0.0, 1.0, 0.0], [-sa, ca, 0.0, 0.0], [0.0, 0.0, 0.0, 1.0]]
-    )
-    return out
-
-
 def _wave_index(incident: str) -> int:
+    """Index of an incident wave type in :data:`WAVE_TYPES`."""
     if incident not in WAVE_TYPES:
         msg = f"incident must be one of {WAVE_TYPES}, got {incident!r}"
         raise ValueError(msg)
-    return {"bending": 0, "longitudinal": 2, "shear": 3}[incident]
+    return WAVE_TYPES.index(incident)
 
 
-def _check_plates(plates: Sequence[JunctionPlate], source: int) -> None:
+def _check_plates(plates: Sequence[object], source: int) -> None:
     if len(plates) < 2:
         msg = f"a line junction needs at least 2 plates, got {len(plates)}"
         raise ValueError(msg)
     if not 0 <= source < len(plates):
         msg = f"source must index one of the {len(plates)} plates, got {source!r}"
         raise ValueError(msg)
+
+
+def _frequencies(f: npt.ArrayLike) -> FloatArray:
+    f_arr = np.asarray(f, dtype=np.float64)
+    if not np.all(np.isfinite(f_arr)) or np.any(f_arr <= 0.0):
+        msg = f"f must be finite and > 0, got {f!r}"
+        raise ValueError(msg)
+    return f_arr
+
+
+def _table(per_plate: Sequence[Sequence[JunctionPlate]]) -> FloatArray:
+    """``(thickness, E, density, nu, angle)`` of ``per_plate[p][b]`` as an array ``(N, B, 5)``."""
+    rows = [
+        [(pb.thickness, pb.youngs_modulus, pb.density, pb.poisson, pb.angle) for pb in pp]
+        for pp in per_plate
+    ]
+    return np.array(rows, dtype=np.float64)
+
+
+def _stack(table: FloatArray) -> jw.PlateArrays:
+    """:class:`~seatool.physics.junction_waves.PlateArrays` of a :func:`_table`."""
+    h, e, rho, nu = table[..., 0], table[..., 1], table[..., 2], table[..., 3]
+    return jw.plate_arrays(h, e, rho, nu, table[:, 0, 4], plates.bending_stiffness(e, h, nu))
 
 
 # --------------------------------------------------------------------------------------------
@@ -310,65 +268,13 @@ def line_junction_transmission(
     if np.any(th < 0.0) or np.any(th > 0.5 * np.pi + 1e-12):
         msg = f"theta must lie in [0, pi/2], got {theta!r}"
         raise ValueError(msg)
-    k_in = wavenumbers(f, plates[source])[{0: 0, 2: 1, 3: 2}[col_in]]
+    f_arr = _frequencies(f).reshape(1)
+    pl = _stack(_table([[p] for p in plates]))
+    k_in = pl.wavenumbers(f_arr)[col_in][source]  # (1,)
     # exactly grazing incidence carries no power; use the limit just below it
-    q = k_in * np.sin(np.minimum(th, _THETA_MAX))
-    n_p = len(plates)
-
-    k_glob = np.zeros((*q.shape, 4, 4), dtype=np.complex128)
-    stiff: list[ComplexArray] = []
-    phi_inv: list[ComplexArray] = []
-    fluxes: list[FloatArray] = []
-    rots = [_rotation(p.angle) for p in plates]
-    for p, rot in zip(plates, rots, strict=True):
-        phi, frc, _, flux = _edge_matrices(p, f, q, +1.0)
-        pinv = np.asarray(np.linalg.inv(phi), dtype=np.complex128)
-        kp = np.asarray(frc @ pinv, dtype=np.complex128)
-        stiff.append(kp)
-        phi_inv.append(pinv)
-        fluxes.append(flux)
-        k_glob = k_glob + rot.T @ kp @ rot
-
-    phi_in, frc_in, _, flux_in = _edge_matrices(plates[source], f, q, -1.0)
-    d_inc = phi_in[..., :, col_in]
-    f_inc = frc_in[..., :, col_in]
-    p_inc = flux_in[..., col_in]
-    rhs_local = np.einsum("...ij,...j->...i", stiff[source], d_inc) - f_inc
-    rhs = np.einsum("ji,...j->...i", rots[source], rhs_local)
-    disp = np.linalg.solve(k_glob, rhs[..., None])[..., 0]
-
-    tau = np.zeros((*q.shape, n_p, 3), dtype=np.float64)
-    for idx in range(n_p):
-        d_p = np.einsum("ij,...j->...i", rots[idx], disp)
-        if idx == source:
-            d_p = d_p - d_inc
-        amp = np.einsum("...ij,...j->...i", phi_inv[idx], d_p)
-        power = fluxes[idx] * np.abs(amp) ** 2
-        tau[..., idx, 0] = power[..., 0] / p_inc
-        tau[..., idx, 1] = power[..., 2] / p_inc
-        tau[..., idx, 2] = power[..., 3] / p_inc
-    return tau
-
-
-def _diffuse_nodes(breaks: Sequence[float], n_points: int) -> tuple[FloatArray, FloatArray]:
-    """Quadrature nodes/weights on [0, 1] in s = sin(theta), split at the break points.
-
-    In each sub-interval Gauss-Legendre nodes are mapped by s = a + (b - a)(1 - cos u)/2,
-    which clusters them at both ends, where the integrand has square-root behaviour at the
-    cut-off of a wave type.
-    """
-    pts = sorted({0.0, 1.0, *[b for b in breaks if 0.0 < b < 1.0]})
-    x, w = np.polynomial.legendre.leggauss(n_points)
-    nodes: list[FloatArray] = []
-    weights: list[FloatArray] = []
-    for a, b in zip(pts[:-1], pts[1:], strict=True):
-        # s = a + (b - a) (1 - cos(pi (t + 1)/2)) / 2, t in [-1, 1]
-        u = 0.5 * np.pi * (x + 1.0)
-        s = a + (b - a) * 0.5 * (1.0 - np.cos(u))
-        ds = (b - a) * 0.5 * np.sin(u) * 0.5 * np.pi
-        nodes.append(s)
-        weights.append(w * ds)
-    return np.concatenate(nodes), np.concatenate(weights)
+    q = k_in[:, None] * np.sin(np.minimum(th, jw.THETA_MAX)).reshape(1, -1)
+    tau = jw.scatter(f_arr, q, pl, source=source, incident=col_in)
+    return tau.reshape(*th.shape, len(plates), 3)
 
 
 def line_junction_transmission_diffuse(
@@ -414,23 +320,89 @@ def line_junction_transmission_diffuse(
     .. [2] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of SEA, 2nd ed.
        (diffuse-field average and CLF, from memory).
     """
+    f_arr = _frequencies(f)
+    return line_junction_transmission_diffuse_per_band(
+        f_arr.reshape(-1),
+        [[p] * f_arr.size for p in plates],
+        source=source,
+        incident=incident,
+        n_points=n_points,
+    ).reshape(*f_arr.shape, len(plates), 3)
+
+
+def line_junction_transmission_diffuse_per_band(
+    f: npt.ArrayLike,
+    plates: Sequence[Sequence[JunctionPlate]],
+    *,
+    source: int = 0,
+    incident: WaveType = "bending",
+    n_points: int = 48,
+) -> FloatArray:
+    """Diffuse-field transmission coefficients with plates that may differ per band.
+
+    Parameters
+    ----------
+    f : array_like
+        Band frequencies [Hz], shape ``(B,)``.
+    plates : sequence of sequences of JunctionPlate
+        ``plates[p][b]``: plate ``p`` in band ``b`` (e.g. an equivalent plate with a
+        frequency-dependent bending stiffness); each plate keeps one angle in all bands.
+    source, incident, n_points : optional
+        As in :func:`line_junction_transmission_diffuse`.
+
+    Returns
+    -------
+    numpy.ndarray
+        ``tau_bar[b, p, t]`` of shape ``(B, N, 3)``; band ``b`` equals
+        :func:`line_junction_transmission_diffuse` of the plates ``plates[:][b]``.
+
+    Notes
+    -----
+    All bands and quadrature nodes are solved as one stack (see
+    :func:`seatool.physics.junction_waves.diffuse_transmission`). Results are remembered
+    for the last few hundred distinct inputs (plates, frequencies, source, incident wave,
+    nodes): identical junctions of a model, and junctions that a parameter study leaves
+    unchanged, are computed once.
+
+    References
+    ----------
+    .. [1] Langley, R.S., Heron, K.H. (1990). "Elastic wave transmission through plate/beam
+       junctions." J. Sound Vib. 143(2), 241-253. doi:10.1016/0022-460X(90)90953-W
+    """
+    f_arr = _frequencies(f)
+    if f_arr.ndim != 1:
+        msg = f"f must be one-dimensional (one value per band), got shape {f_arr.shape}"
+        raise ValueError(msg)
     _check_plates(plates, source)
     col_in = _wave_index(incident)
     if n_points < 2:
         msg = f"n_points must be >= 2, got {n_points!r}"
         raise ValueError(msg)
-    f_arr = np.asarray(f, dtype=np.float64)
-    out = np.empty((*f_arr.shape, len(plates), 3), dtype=np.float64)
-    for idx in np.ndindex(f_arr.shape):
-        fi = float(f_arr[idx])
-        k_in = wavenumbers(fi, plates[source])[{0: 0, 2: 1, 3: 2}[col_in]]
-        breaks = [k / k_in for p in plates for k in wavenumbers(fi, p)]
-        s, w = _diffuse_nodes(breaks, n_points)
-        tau = line_junction_transmission(
-            fi, np.arcsin(np.clip(s, 0.0, 1.0)), plates, source=source, incident=incident
-        )
-        out[idx] = np.einsum("t,tpw->pw", w, tau)
-    return out
+    if f_arr.size == 0:
+        return np.empty((0, len(plates), 3))
+    for idx, pp in enumerate(plates):
+        if len(pp) != f_arr.size:
+            msg = f"plates[{idx}] has {len(pp)} entries for {f_arr.size} bands"
+            raise ValueError(msg)
+    table = _table(plates)
+    if np.any(table[..., 4] != table[:, :1, 4]):
+        msg = "a plate changes its angle between bands"
+        raise ValueError(msg)
+    return _diffuse_memo(f_arr, table, source, col_in, n_points)
+
+
+@memoised(maxsize=512)
+def _diffuse_memo(
+    f: FloatArray,
+    table: FloatArray,
+    source: int,
+    incident: int,
+    n_points: int,
+) -> FloatArray:
+    """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission`."""
+    return jw.diffuse_transmission(
+        f, _stack(table), source=source, incident=incident, n_points=n_points
+    )
 
 
 # --------------------------------------------------------------------------------------------
@@ -494,7 +466,7 @@ def bending_junction_transmission(
     stiff_sum = np.zeros(q.shape, dtype=np.complex128)
     for p in plates:
         k = wavenumbers(f, p)[0]
-        kx = _kx(k, q)
+        kx = jw.outgoing_kx(k, q)
         kappa = np.sqrt(k**2 + q**2)
         stiff_sum = stiff_sum + 2.0 * _bending_stiffness(p) * k**2 / (kappa - 1j * kx)
         kx_list.append(kx)
@@ -550,215 +522,8 @@ def bending_junction_transmission_diffuse(
     _check_plates(plates, source)
     k_src = wavenumbers(f, plates[source])[0]
     breaks = [wavenumbers(f, p)[0] / k_src for p in plates]
-    s, w = _diffuse_nodes(breaks, n_points)
+    s2, w2 = jw.diffuse_nodes(np.array([breaks]), n_points)
+    s, w = s2[0], w2[0]
     tau = bending_junction_transmission(f, np.arcsin(np.clip(s, 0.0, 1.0)), plates, source=source)
     out: FloatArray = np.einsum("t,tp->p", w, tau)
-    return out
-
-
-# --------------------------------------------------------------------------------------------
-# point connections
-# --------------------------------------------------------------------------------------------
-
-
-def _check_points(
-    f: npt.ArrayLike, mass_1: npt.ArrayLike, n_points: int
-) -> tuple[FloatArray, FloatArray]:
-    f_a = np.asarray(f, dtype=np.float64)
-    if np.any(~np.isfinite(f_a)) or np.any(f_a <= 0.0):
-        msg = f"f must be finite and > 0, got {f!r}"
-        raise ValueError(msg)
-    m_a = np.asarray(mass_1, dtype=np.float64)
-    if np.any(~np.isfinite(m_a)) or np.any(m_a <= 0.0):
-        msg = f"mass_1 must be finite and > 0, got {mass_1!r}"
-        raise ValueError(msg)
-    if n_points < 1:
-        msg = f"n_points must be >= 1, got {n_points!r}"
-        raise ValueError(msg)
-    return f_a, m_a
-
-
-def clf_point_rigid(
-    f: npt.ArrayLike,
-    mobility_1: npt.ArrayLike,
-    mobility_2: npt.ArrayLike,
-    mass_1: npt.ArrayLike,
-    *,
-    n_points: int = 1,
-) -> FloatArray:
-    """CLF of rigid point connections between two structural subsystems.
-
-    Parameters
-    ----------
-    f : float or array_like
-        Band centre frequency [Hz].
-    mobility_1, mobility_2 : complex or array_like
-        Drive-point mobilities ``Y_1, Y_2`` of the uncoupled subsystems at the connection
-        [m/(N s)], exp(+j omega t); the infinite-system values are the usual SEA estimate.
-    mass_1 : float or array_like
-        Mass of the source subsystem ``M_1`` [kg].
-    n_points : int, optional
-        Number of connection points ``N``; the points are treated as incoherent.
-
-    Returns
-    -------
-    numpy.ndarray
-        ``eta_12 = N Re(Y_2) / (omega M_1 |Y_1 + Y_2|^2)`` [-].
-
-    Notes
-    -----
-    The reverberant field of subsystem 1 gives the free velocity ``v_f`` at the point with
-    ``<|v_f|^2> = <v_1^2> = E_1/M_1``; the connection force is ``v_f/(Y_1 + Y_2)`` and the
-    power into 2 is ``|F|^2 Re(Y_2)``. For ``N`` points the powers add when the points are
-    more than about half a bending wavelength apart (incoherent); closer points interact
-    and the sum over-estimates the coupling.
-
-    References
-    ----------
-    .. [1] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of Statistical Energy
-       Analysis, 2nd ed. Butterworth-Heinemann (point connection CLF, from memory).
-    .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-borne Sound, 3rd ed.
-       Springer (mobilities, power through a point). ISBN 978-3-540-22696-3
-    """
-    f_a, m_a = _check_points(f, mass_1, n_points)
-    y1 = np.asarray(mobility_1, dtype=np.complex128)
-    y2 = np.asarray(mobility_2, dtype=np.complex128)
-    out: FloatArray = n_points * y2.real / (2.0 * np.pi * f_a * m_a * np.abs(y1 + y2) ** 2)
-    return out
-
-
-def clf_point_resilient(
-    f: npt.ArrayLike,
-    mobility_1: npt.ArrayLike,
-    mobility_2: npt.ArrayLike,
-    mass_1: npt.ArrayLike,
-    stiffness: npt.ArrayLike,
-    *,
-    loss_factor: npt.ArrayLike = 0.0,
-    n_points: int = 1,
-) -> FloatArray:
-    """CLF of resilient mounts (massless springs) at points between two subsystems.
-
-    Parameters
-    ----------
-    f : float or array_like
-        Band centre frequency [Hz].
-    mobility_1, mobility_2 : complex or array_like
-        Drive-point mobilities of the uncoupled subsystems [m/(N s)], exp(+j omega t).
-    mass_1 : float or array_like
-        Mass of the source subsystem [kg].
-    stiffness : float or array_like
-        Dynamic stiffness of one mount ``k`` [N/m], > 0.
-    loss_factor : float or array_like, optional
-        Loss factor of the mount material ``eta_m`` [-] (complex stiffness ``k (1 + j eta_m)``).
-    n_points : int, optional
-        Number of incoherent mounts.
-
-    Returns
-    -------
-    numpy.ndarray
-        ``eta_12 = N Re(Y_2) / (omega M_1 |Y_1 + Y_m + Y_2|^2)``,
-        ``Y_m = j omega / (k (1 + j eta_m))`` [-].
-
-    Notes
-    -----
-    The mount is in series with the two drive points. Power dissipated in the mount is lost
-    from both subsystems (it is not part of ``eta_12``). A stiff mount (``k -> inf``) gives
-    :func:`clf_point_rigid`. Same incoherence condition as :func:`clf_point_rigid`.
-
-    References
-    ----------
-    .. [1] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of SEA, 2nd ed.
-       (from memory).
-    .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-borne Sound, 3rd ed.,
-       ch. on vibration isolation (mobility of a spring).
-    """
-    f_a, m_a = _check_points(f, mass_1, n_points)
-    k = np.asarray(stiffness, dtype=np.float64)
-    if np.any(~np.isfinite(k)) or np.any(k <= 0.0):
-        msg = f"stiffness must be finite and > 0, got {stiffness!r}"
-        raise ValueError(msg)
-    eta_m = np.asarray(loss_factor, dtype=np.float64)
-    if np.any(~np.isfinite(eta_m)) or np.any(eta_m < 0.0):
-        msg = f"loss_factor must be finite and >= 0, got {loss_factor!r}"
-        raise ValueError(msg)
-    w = 2.0 * np.pi * f_a
-    y_m = 1j * w / (k * (1.0 + 1j * eta_m))
-    y1 = np.asarray(mobility_1, dtype=np.complex128)
-    y2 = np.asarray(mobility_2, dtype=np.complex128)
-    out: FloatArray = n_points * y2.real / (w * m_a * np.abs(y1 + y_m + y2) ** 2)
-    return out
-
-
-def clf_resonator_point(
-    f: npt.ArrayLike,
-    natural_frequency: npt.ArrayLike,
-    stiffness: npt.ArrayLike,
-    mobility_at_f0: npt.ArrayLike,
-) -> FloatArray:
-    r"""CLF from a spring-mass resonator to the structure its spring is attached to.
-
-    Parameters
-    ----------
-    f : float or array_like
-        Band centre frequency [Hz] at which the SEA power balance is written.
-    natural_frequency : float or array_like
-        Natural frequency of the resonator on a rigid base, f0 = sqrt(k/m)/(2 pi) [Hz].
-    stiffness : float or array_like
-        Spring stiffness k [N/m].
-    mobility_at_f0 : complex or array_like
-        Drive-point mobility Y of the (reverberant, infinite-system) structure at the
-        attachment, evaluated at f0 [m/(N s)], exp(+j omega t).
-
-    Returns
-    -------
-    numpy.ndarray
-        eta_rs [-], stated for the band centre: ``omega eta_rs E_r`` is the power the
-        resonator of energy E_r gives to the structure.
-
-    Notes
-    -----
-    With the base free to move with mobility Y, the spring in series with the structure
-    acts on the mass as the complex stiffness (force-displacement ratio, exp(+j omega t))
-
-    .. math:: k_{eff} = \frac{k}{1 - j a}, \qquad a = \frac{k Y}{\omega_0},
-
-    so the resonator's loss factor through the attachment is
-    :math:`\eta_0 = \mathrm{Im}\,k_{eff} / \mathrm{Re}\,k_{eff} = \mathrm{Re}(a) /
-    (1 + \mathrm{Im}(a))`, which for a real mobility is :math:`k\,\mathrm{Re}(Y)/\omega_0
-    = m\,\omega_0\,\mathrm{Re}(Y)` (the structure acts as a dashpot of impedance 1/Y at the
-    base). The resonator only holds energy near f0, so the power is
-    :math:`\omega_0 \eta_0 E_r`; written at the band centre omega the coupling loss factor
-    is :math:`\eta_{rs} = (\omega_0/\omega)\,\eta_0`. Valid for weak coupling
-    (eta_0 << 1; the shift of the natural frequency by the base mobility is neglected) and
-    for a structure whose response at the attachment is reverberant (infinite-system
-    mobility, the usual SEA estimate). The derivation is the series combination of a spring
-    and a structural mobility (Cremer, Heckl & Petersson 2005, ch. on mobilities and
-    isolation; from memory) applied to the SEA description of an oscillator coupled to a
-    multimodal system (Lyon & DeJong 1995, ch. 3, "oscillator-to-oscillator" and
-    "oscillator-to-multimodal" coupling; from memory).
-
-    References
-    ----------
-    .. [1] Lyon, R.H., DeJong, R.G. (1995). Theory and Application of Statistical Energy
-       Analysis, 2nd ed. Butterworth-Heinemann. ISBN 0-7506-9111-5
-    .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-borne Sound, 3rd ed.
-       Springer. ISBN 978-3-540-22696-3
-    """
-    f_a = np.asarray(f, dtype=np.float64)
-    f0 = np.asarray(natural_frequency, dtype=np.float64)
-    k = np.asarray(stiffness, dtype=np.float64)
-    if np.any(~np.isfinite(f_a) | (f_a <= 0)):
-        raise ValueError("f must be positive and finite")
-    if np.any(~np.isfinite(f0) | (f0 <= 0)):
-        raise ValueError("natural_frequency must be positive and finite")
-    if np.any(~np.isfinite(k) | (k <= 0)):
-        raise ValueError("stiffness must be positive and finite")
-    y = np.asarray(mobility_at_f0, dtype=np.complex128)
-    if np.any(y.real < 0):
-        raise ValueError("mobility_at_f0 must have a non-negative real part (a passive structure)")
-    w0 = 2.0 * np.pi * f0
-    a = k * y / w0
-    eta0 = a.real / (1.0 + a.imag)
-    out: FloatArray = np.asarray(eta0 * f0 / f_a, dtype=np.float64)
     return out

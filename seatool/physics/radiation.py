@@ -35,6 +35,8 @@ import numpy.typing as npt
 
 from ._checks import positive as _positive
 from .air import AIR_SOUND_SPEED
+from .memo import memoised
+from .quadrature import gauss_legendre
 
 __all__ = [
     "EdgeCondition",
@@ -502,6 +504,7 @@ def radiation_efficiency(
 # --------------------------------------------------------------------------------------------
 
 
+@memoised(maxsize=256)
 def radiation_efficiency_band(
     f: npt.ArrayLike,
     l1: npt.ArrayLike,
@@ -599,7 +602,7 @@ def radiation_efficiency_band(
         msg = "f_upper must be greater than f_lower"
         raise ValueError(msg)
 
-    x, w = np.polynomial.legendre.leggauss(n_points)
+    x, w = gauss_legendre(n_points)
     if weighting == "linear":
         to_var, from_var = (lambda v: v), (lambda v: v)
     else:

@@ -15,6 +15,8 @@ import numpy.typing as npt
 
 from ._checks import positive as _positive
 from .air import AIR_SOUND_SPEED
+from .memo import memoised
+from .quadrature import gauss_legendre
 from .shells import ring_frequency
 
 __all__ = [
@@ -90,6 +92,7 @@ def _mode_class_sigma(
     return out
 
 
+@memoised(maxsize=64)
 def radiation_efficiency_curved_panel(
     f: npt.ArrayLike,
     l1: npt.ArrayLike,
@@ -272,13 +275,13 @@ def radiation_efficiency_curved_panel(
         np.stack([p_start, *(np.clip(c, p_start, half_pi) for c in cands), half_pi], axis=-1),
         axis=-1,
     )
-    xt, wt = np.polynomial.legendre.leggauss(n_angle)
+    xt, wt = gauss_legendre(n_angle)
     t = 0.5 * (xt + 1.0)
     # phi = start + width (1 - cos(pi t))/2: clusters the nodes at both ends (square-root
     # onset of the band region and of the class sub-regions)
     tau = 0.5 * (1.0 - np.cos(np.pi * t))
     dtau = 0.25 * np.pi * np.sin(np.pi * t) * wt
-    xs, ws = np.polynomial.legendre.leggauss(n_wavenumber)
+    xs, ws = gauss_legendre(n_wavenumber)
     us, ws = 0.5 * (xs + 1.0), 0.5 * ws
 
     col = (slice(None), None)
@@ -306,14 +309,18 @@ def radiation_efficiency_curved_panel(
             axis=-1,
         )
         sa, sb = pts[..., :-1, None], pts[..., 1:, None]
-        s = sa + (sb - sa) * us  # (B, n_angle, 7, n_wavenumber)
-        weight = jac[..., None, None] * (sb - sa) * ws
-        c2e, c4e = c2[..., None, None], c4[..., None, None]
-        e3 = (slice(None), None, None, None)
-        k = np.sqrt((s / kc[e3]) ** 2 + (wm[e3] / c0) ** 2 * c4e)
-        cap = (0.5 - 0.15 * short[e3] / long_[e3]) * np.sqrt(k * short[e3])
-        sigma = _mode_class_sigma(s, c2e, k, l1_b[e3], l2_b[e3], cap, closed)
-        num += np.sum(weight * sigma, axis=(1, 2, 3))
+        weight = jac[..., None, None] * (sb - sa) * ws  # (B, n_angle, 7, n_wavenumber)
         den += np.sum(weight, axis=(1, 2, 3))
+        # empty sub-intervals (weight exactly 0) are common; evaluate only the others
+        band, ia, iseg, iw = np.nonzero(weight)
+        if band.size == 0:
+            continue
+        sa_n, sb_n = sa[band, ia, iseg, 0], sb[band, ia, iseg, 0]
+        s = sa_n + (sb_n - sa_n) * us[iw]
+        c4n = c4[band, ia]
+        k = np.sqrt((s / kc[band]) ** 2 + (wm[band] / c0) ** 2 * c4n)
+        cap = (0.5 - 0.15 * short[band] / long_[band]) * np.sqrt(k * short[band])
+        sigma = _mode_class_sigma(s, c2[band, ia], k, l1_b[band], l2_b[band], cap, closed)
+        num += np.bincount(band, weights=weight[band, ia, iseg, iw] * sigma, minlength=num.size)
     out: FloatArray = (num / den).reshape(shape)
     return out

@@ -17,6 +17,7 @@ import numpy.typing as npt
 from ._checks import nonnegative as _nonnegative
 from ._checks import poisson as _poisson
 from ._checks import positive as _positive
+from .memo import memoised
 
 __all__ = [
     "SandwichSection",
@@ -153,6 +154,7 @@ def _sandwich_k2(omega: FloatArray, sec: SandwichSection) -> FloatArray:
     return np.asarray(x, dtype=np.float64)
 
 
+@memoised(maxsize=256)
 def sandwich_wavenumber(f: npt.ArrayLike, section: SandwichSection) -> FloatArray:
     """Free bending wavenumber of a sandwich panel with a shear-flexible core.
 
