@@ -238,6 +238,8 @@ def collect(
     progress : bool, optional
         Progress bar on stderr (default: when stderr is a terminal).
     """
+    if samples < 1:
+        raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
     if progress is None:
         progress = sys.stderr.isatty()
     steps = ["model", "solve", "paths", "sensitivity", "spread", "figures", "references"]
