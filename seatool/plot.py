@@ -306,7 +306,7 @@ def plot_energy_flow(
 ) -> None:
     """The subsystem graph with arrows along the net power flow of each connection.
 
-    Arrow width grows with the net power (log scale over four decades) in band ``band``
+    Arrow width and opacity grow with the square root of the net power in band ``band``
     (index) or, by default, summed over the bands; ``highlight`` is a path (subsystem
     names in order) drawn in a strong colour, e.g. the dominant path into the receiver.
     Node colour says what a subsystem is (cavity, structure, exterior); nodes fed by an
@@ -332,14 +332,16 @@ def plot_energy_flow(
     on_path = {(a, b) for a, b in zip(highlight, highlight[1:], strict=False)}
     for c, pc in zip(model.connections, p, strict=True):
         a, b = (c.a, c.b) if pc >= 0 else (c.b, c.a)
-        rel = abs(pc) / pmax
-        width = 0.4 + 5.6 * max(0.0, 1.0 + np.log10(max(rel, 1e-4)) / 4.0)
+        rel = float(np.sqrt(abs(pc) / pmax))  # width by the square root: big flows stand out
+        width = 0.3 + 7.0 * rel
         hot = (a, b) in on_path
+        width = max(width, 3.0) if hot else width
         ax.annotate(
             "", xy=pos[b], xytext=pos[a],
             arrowprops={"arrowstyle": "-|>", "lw": width, "shrinkA": 9, "shrinkB": 9,
-                        "color": PALETTE[3] if hot else "#7d8c96",
-                        "alpha": 1.0 if hot else 0.75, "mutation_scale": 8 + 1.5 * width},
+                        "color": PALETTE[3] if hot else "#6f7f8a",
+                        "alpha": 1.0 if hot else 0.2 + 0.7 * rel,
+                        "mutation_scale": 8 + 1.5 * width},
             zorder=3 if hot else 2,
         )  # fmt: skip
     fed = {e.subsystem for e in model.excitations}
@@ -359,7 +361,7 @@ def plot_energy_flow(
         plt.Line2D([], [], marker="o", linestyle="", color="#e9e4d8", label="exterior"),
         plt.Line2D([], [], marker="o", linestyle="", color="white", markeredgecolor=PALETTE[2],
                    markeredgewidth=2.5, label="excited"),  # fmt: skip
-        plt.Line2D([], [], color="#7d8c96", linewidth=3, label="net power (width: log scale)"),
+        plt.Line2D([], [], color="#7d8c96", linewidth=3, label="net power (width grows as its square root)"),
     ]
     if highlight:
         handles.append(plt.Line2D([], [], color=PALETTE[3], linewidth=3, label="dominant path"))

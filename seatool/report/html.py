@@ -40,6 +40,10 @@ SECTIONS = (
 )
 
 
+#: Columns of running text (set narrower and smaller than names and numbers).
+_TEXT_COLUMNS = ("description", "derived from", "modal density from", "damping from", "message")
+
+
 def _cell(column: str, value: Any) -> tuple[str, str]:
     if isinstance(value, bool | np.bool_):
         return ("yes" if value else "no"), ""
@@ -55,7 +59,7 @@ def _cell(column: str, value: Any) -> tuple[str, str]:
         if column in ("share", "source_share"):
             return f"{100 * x:.1f} %", "num"
         return f"{x:.3g}", "num"
-    return str(value), ""
+    return str(value), ("text" if column in _TEXT_COLUMNS else "")
 
 
 def _table(df: pd.DataFrame) -> dict[str, Any]:
