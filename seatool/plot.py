@@ -2,7 +2,8 @@
 
 Band levels are drawn as steps over the band edges (one flat segment per band), on a
 logarithmic frequency axis labelled with the nominal band centres; every axis names its
-reference. Bands where SEA validity is weak for a subsystem are drawn dashed.
+reference. Bands where SEA validity is weak are hatched grey spans with their own legend
+entry; every figure carries the caution in its footer.
 """
 
 from __future__ import annotations
@@ -96,15 +97,16 @@ def plot_levels(
     )
     edges = np.append(bands.lower, bands.upper[-1])
     for ax, (q, members) in zip(axes[:, 0], groups.items(), strict=True):
-        for n in members:
+        weak_any = np.zeros(len(bands), dtype=bool)
+        for k, n in enumerate(members):
             i = idx[n]
             y = np.append(lv[i], lv[i][-1])
-            (line,) = ax.step(edges, y, where="post", label=n, linewidth=1.6)
+            ax.step(edges, y, where="post", label=n, linewidth=1.6,
+                    color=PALETTE[k % len(PALETTE)])  # fmt: skip
             bad = weak.get(n)
-            if bad is not None and bad.any():
-                yb = np.where(np.append(bad, bad[-1]), y, np.nan)
-                ax.step(edges, yb, where="post", color=line.get_color(), linewidth=3.0,
-                        alpha=0.35)  # fmt: skip
+            if bad is not None:
+                weak_any |= bad
+        _shade_weak(ax, bands, weak_any)
         ax.set_xscale("log")
         ax.set_ylabel(f"{_QUANTITY_LABEL.get(q, q)} [dB {refs[idx[members[0]]]}]")
         ax.grid(True, which="both", alpha=0.3)
@@ -118,9 +120,9 @@ def plot_levels(
     ax_last.minorticks_off()
     ax_last.set_xlabel(f"{bands.kind} band")
     title = model.title or "band levels"
-    axes[0, 0].set_title(title + "\n(wide pale segments: bands where SEA validity is weak)",
-                         fontsize=10)  # fmt: skip
-    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    axes[0, 0].set_title(title + "\n(hatched: bands where SEA validity is weak for a subsystem "
+                         "of that panel)", fontsize=10)  # fmt: skip
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
     fig.savefig(out, dpi=130)
@@ -189,7 +191,7 @@ def plot_contributions(
                   "(hatched: bands where the receiver's SEA validity is weak)", fontsize=10)  # fmt: skip
     if (~valid).any():
         ax1.legend(fontsize=8, loc="upper right", framealpha=0.9)
-    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
     fig.savefig(out, dpi=130)

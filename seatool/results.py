@@ -7,6 +7,7 @@ their units.
 
 from __future__ import annotations
 
+import html
 import os
 import tempfile
 from dataclasses import dataclass
@@ -284,5 +285,5 @@ class Result:
 
     def _repr_html_(self) -> str:
         w = self.wide().round(1)
-        title = f"<b>{self.model.title}</b>" if self.model.title else ""
-        return title + w.to_html() + f"<p><small>{CAUTION}</small></p>"
+        title = f"<b>{html.escape(self.model.title)}</b>" if self.model.title else ""
+        return title + w.to_html(escape=True) + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"

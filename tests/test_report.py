@@ -165,3 +165,32 @@ def test_docstring_references_parses_numpydoc():
         "Author, A. (1999). A title, continued on a second line.",
         "ISO 1683:2015, Acoustics.",
     ]
+
+
+def test_notebook_views_escape_and_carry_the_caution(tmp_path):
+    import seatool
+    from seatool.report import views
+
+    text = (ROOT / "models" / "two_rooms.toml").read_text(encoding="utf-8")
+    text = text.replace("Two rooms separated by a glass pane (invented demo)", "<script>x</script>")
+    text = text.replace("[subsystems.receiving_room]", '[subsystems."<i>room</i>"]')
+    text = text.replace('"receiving_room"]', '"<i>room</i>"]')
+    model_file = tmp_path / "m.toml"
+    model_file.write_text(text, encoding="utf-8")
+    model = seatool.load(model_file)
+    shown = [
+        seatool.run(model)._repr_html_(),
+        views.source_paths(model, "<i>room</i>")._repr_html_(),
+        views.sensitivity(model, "<i>room</i>")._repr_html_(),
+        views.level_spread(model_file, samples=20, progress=False)._repr_html_(),
+    ]
+    for page in shown:
+        assert "<script>" not in page and "<i>room" not in page
+        assert "&lt;i&gt;room&lt;/i&gt;" in page
+        assert "Caution: " + html_escape(CAUTION) in page
+
+
+def html_escape(text: str) -> str:
+    import html
+
+    return html.escape(text)
