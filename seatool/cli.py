@@ -15,7 +15,7 @@ import numpy as np
 
 from .errors import InputError, Problem, closest
 from .model import Model
-from .results import CAUTION, write_text_atomic
+from .results import CAUTION, write_csv
 
 __all__ = ["main"]
 
@@ -188,7 +188,7 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         print(f"wrote {csv_path}")
     if metrics_path is not None:
         try:
-            write_text_atomic(metrics_path, comfort_table.to_csv(index=False, float_format="%.10g"))
+            write_csv(comfort_table, metrics_path)
         except OSError as exc:
             raise InputError(
                 [

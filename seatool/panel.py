@@ -283,7 +283,7 @@ def render(spec: PanelSpec, table: pd.DataFrame, bands: BandAxis) -> str:
 
 
 def _handler(args: argparse.Namespace) -> int:
-    from .results import CAUTION
+    from .results import CAUTION, write_csv
 
     spec, bands = spec_from_args(args)
     try:
@@ -292,7 +292,7 @@ def _handler(args: argparse.Namespace) -> int:
         raise _as_options(exc) from None
     print(render(spec, table, bands))
     if args.csv:
-        table.to_csv(args.csv, index=False, float_format="%.10g")
+        write_csv(table, args.csv)
         print(f"wrote {args.csv}")
     print()
     print("Caution: " + CAUTION)

@@ -22,7 +22,7 @@ from .bands import a_weighting
 from .model import Model, Subsystem
 from .solve import Solution
 
-__all__ = ["CAUTION", "Result", "subsystem_level", "write_text_atomic"]
+__all__ = ["CAUTION", "Result", "csv_text", "subsystem_level", "write_csv", "write_text_atomic"]
 
 CAUTION = (
     "Estimates guide design; they do not certify. Verify by measurement to the applicable "
@@ -61,6 +61,20 @@ def write_text_atomic(path: str | os.PathLike[str], text: str) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+
+
+def csv_text(table: pd.DataFrame) -> str:
+    """A table as CSV text whose first line is the caution, as a ``#`` comment.
+
+    The caution travels with the numbers: a spreadsheet shows it as the first row, and
+    ``pandas.read_csv(path, comment="#")`` (or ``skiprows=1``) skips it.
+    """
+    return "# Caution: " + CAUTION + "\n" + table.to_csv(index=False, float_format="%.10g")
+
+
+def write_csv(table: pd.DataFrame, path: str | os.PathLike[str]) -> None:
+    """Write :func:`csv_text` of ``table`` to ``path`` atomically."""
+    write_text_atomic(path, csv_text(table))
 
 
 @dataclass(frozen=True)
@@ -230,8 +244,8 @@ class Result:
 
     # -- output ------------------------------------------------------------------------
     def to_csv(self, path: str | os.PathLike[str]) -> None:
-        """Write :meth:`table` to ``path`` atomically (no half-written file on failure)."""
-        write_text_atomic(path, self.table().to_csv(index=False, float_format="%.10g"))
+        """Write :meth:`table` to ``path`` atomically, the caution first (:func:`csv_text`)."""
+        write_csv(self.table(), path)
 
     def render(self, names: list[str] | None = None, *, digits: int = 1) -> str:
         """Compact text table of band levels with overall totals and notes."""

@@ -194,3 +194,26 @@ def html_escape(text: str) -> str:
     import html
 
     return html.escape(text)
+
+
+def test_every_csv_starts_with_the_caution(tmp_path, capsys):
+    two = str(ROOT / "models" / "two_rooms.toml")
+    runs = {
+        "levels.csv": ["solve", RAIL, "--csv"],
+        "comfort.csv": ["solve", RAIL, "--metrics-csv"],
+        "paths.csv": ["paths", RAIL, "--to", "cab_air", "--csv"],
+        "sens.csv": ["sensitivity", RAIL, "--to", "cab_air", "--csv"],
+        "spread.csv": ["spread", two, "--samples", "20", "--csv"],
+        "panel.csv": ["panel", "--material", "glass", "--thickness", "0.006", "--lx", "1.2",
+                      "--ly", "0.9", "--csv"],
+    }  # fmt: skip
+    for name, argv in runs.items():
+        out = tmp_path / name
+        assert main([*argv, str(out)]) == 0, name
+        first = out.read_text(encoding="utf-8").splitlines()[0]
+        assert first == "# Caution: " + CAUTION, name
+        table = pd.read_csv(out, comment="#")
+        assert len(table) > 0 and not str(table.columns[0]).startswith("#"), name
+    capsys.readouterr()
+    assert main(["--help"]) == 0
+    assert "Caution" in capsys.readouterr().out

@@ -12,7 +12,8 @@ import pandas as pd
 from ..errors import InputError, Problem
 from ..modelfile import build
 from ..plot import plot_target
-from ..results import CAUTION, Result, write_text_atomic
+from ..results import CAUTION, Result
+from ..results import write_csv as write_table_csv
 from ..solve import solve
 from ._keypath import read_data
 from ._system import receiver_index
@@ -36,8 +37,8 @@ def _csv_target(value: str | None, option: str) -> Path | None:
 
 
 def write_csv(table: pd.DataFrame, path: Path) -> None:
-    """Write a tidy table atomically (no half-written file on failure)."""
-    write_text_atomic(path, table.to_csv(index=False, float_format="%.10g"))
+    """Write a tidy table atomically, the caution on its first line."""
+    write_table_csv(table, path)
 
 
 def _fmt_table(head: list[str], rows: list[list[str]]) -> list[str]:
