@@ -15,6 +15,7 @@ import numpy as np
 
 from .errors import InputError, Problem, closest
 from .model import Model
+from .progress import set_quiet
 from .results import CAUTION, write_csv
 
 __all__ = ["main"]
@@ -60,6 +61,9 @@ def _parser() -> argparse.ArgumentParser:
         epilog="Caution: " + CAUTION,
     )
     p.add_argument("--debug", action="store_true", help="show a traceback on internal errors")
+    p.add_argument(
+        "--quiet", action="store_true", help="no progress bars (they show only on a terminal)"
+    )
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
     sp = sub.add_parser(
         "solve",
@@ -296,6 +300,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return EXIT_INPUT
+    set_quiet(args.quiet)
     try:
         handler = HANDLERS.get(args.command) or args.handler
         return int(handler(args))

@@ -30,7 +30,7 @@ from typing import Any
 import numpy as np
 import numpy.typing as npt
 
-from . import levels
+from . import levels, progress
 from .bands import BandAxis, BandError, band_index
 from .errors import InputError, Problem, closest
 from .model import Connection, Excitation, Model, ModelError, Subsystem
@@ -627,7 +627,7 @@ def _read_connections(
     t = rd.table(data, "connections")
     if t is None:
         return out
-    for name, spec in t.items():
+    for name, spec in progress.bar(t.items(), desc="deriving connections", total=len(t)):
         path = f"connections.{name}"
         s = rd.table(spec, path)
         if s is None:

@@ -9,6 +9,7 @@ import argparse
 import sys
 from typing import TYPE_CHECKING
 
+from .progress import set_quiet
 from .report import write_report
 from .results import CAUTION
 
@@ -40,9 +41,11 @@ def _args(p: argparse.ArgumentParser) -> None:
 
 
 def _cmd(args: argparse.Namespace) -> int:
+    if args.quiet:
+        set_quiet(True)
     files = write_report(
         args.model, args.output, receiver=args.to, band=args.band, samples=args.samples,
-        seed=args.seed, progress=False if args.quiet else None,
+        seed=args.seed,
     )  # fmt: skip
     print(f"wrote {files.html}")
     print(f"wrote {files.json}")

@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 import pandas as pd
 
+from .. import progress
 from ..errors import InputError, Problem
 from ..modelfile import build
 from ..plot import plot_target
@@ -244,7 +245,10 @@ def _cmd_spread(args: argparse.Namespace) -> int:
         names = [x.strip() for x in args.show.split(",") if x.strip()]
         for n in names:
             receiver_index(model, n, option="--show")
-    sp = spread(data, file=file, base_dir=base, samples=args.samples, seed=args.seed)
+    sp = spread(
+        data, file=file, base_dir=base, samples=args.samples, seed=args.seed,
+        progress=progress.enabled(),
+    )  # fmt: skip
     t = sp.table()
     print(model.title or model.source)
     print(

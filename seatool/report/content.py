@@ -21,6 +21,7 @@ import pandas as pd
 from tqdm import tqdm
 
 from .. import plot
+from .. import progress as progress_bars
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
 from ..analysis import uncertainty
@@ -236,12 +237,13 @@ def collect(
     targets : TargetHook, optional
         Limits to show with margins.
     progress : bool, optional
-        Progress bar on stderr (default: when stderr is a terminal).
+        Progress bar on stderr (default: :func:`seatool.progress.enabled`, i.e. on a
+        terminal unless ``--quiet``).
     """
     if samples < 1:
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
     if progress is None:
-        progress = sys.stderr.isatty()
+        progress = progress_bars.enabled()
     steps = ["model", "solve", "paths", "sensitivity", "spread", "figures", "references"]
     bar = tqdm(total=len(steps), desc="report", disable=not progress, file=sys.stderr,
                leave=False)  # fmt: skip
