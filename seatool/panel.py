@@ -62,6 +62,10 @@ def _arguments(p: argparse.ArgumentParser) -> None:
     p.add_argument("--octave", action="store_true", help="octave bands (default third-octave)")
     p.add_argument("--csv", metavar="FILE", help="write the table to FILE")
     p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw transmission loss and radiation efficiency to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
+    p.add_argument(
         "--room-volumes",
         nargs=2,
         metavar=("V1", "V2"),
@@ -283,8 +287,10 @@ def render(spec: PanelSpec, table: pd.DataFrame, bands: BandAxis) -> str:
 
 
 def _handler(args: argparse.Namespace) -> int:
+    from .plot import plot_target
     from .results import CAUTION, write_csv
 
+    plot_path = plot_target(args.plot)
     spec, bands = spec_from_args(args)
     try:
         table = panel_table(spec, bands)
@@ -294,6 +300,11 @@ def _handler(args: argparse.Namespace) -> int:
     if args.csv:
         write_csv(table, args.csv)
         print(f"wrote {args.csv}")
+    if plot_path is not None:
+        from .plot import plot_panel
+
+        plot_panel(table, bands, plot_path, title=render(spec, table, bands).splitlines()[0])
+        print(f"wrote {plot_path}")
     print()
     print("Caution: " + CAUTION)
     return 0

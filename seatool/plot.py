@@ -24,6 +24,7 @@ __all__ = [
     "plot_contributions",
     "plot_energy_flow",
     "plot_levels",
+    "plot_panel",
     "plot_receiver_levels",
     "plot_sensitivity",
     "plot_spread",
@@ -247,11 +248,13 @@ def _band_axis(ax: Any, bands: Any) -> None:
     ax.set_xlabel(f"{bands.kind} band")
 
 
-def _shade_weak(ax: Any, bands: Any, weak: np.ndarray, *, label: bool = True) -> None:
+def _shade_weak(
+    ax: Any, bands: Any, weak: np.ndarray, *, label: bool = True, text: str = _WEAK_LABEL
+) -> None:
     first = label
     for j in np.flatnonzero(weak):
         ax.axvspan(bands.lower[j], bands.upper[j], linewidth=0,
-                   label=_WEAK_LABEL if first else None, **_WEAK)  # fmt: skip
+                   label=text if first else None, **_WEAK)  # fmt: skip
         first = False
 
 
@@ -420,4 +423,44 @@ def plot_spread(
     ax.set_title(f"Spread of {receiver} (Monte Carlo, {int(t['samples'].iloc[0])} samples)",
                  loc="left", fontsize=11)  # fmt: skip
     ax.legend(fontsize=8, loc="best", framealpha=0.9)
+    _save(fig, out, fmt)
+
+
+def plot_panel(table: Any, bands: Any, out: Output, *, title: str = "panel",
+               fmt: str | None = None) -> None:  # fmt: skip
+    """The quick look at one panel: transmission loss and radiation efficiency per band.
+
+    ``table`` is :func:`seatool.analysis.panel.panel_table`'s. Upper panel: the SEA
+    two-room transmission loss (and the trim's insertion loss where the table has it);
+    lower panel: the radiation efficiency (log scale). Hatched: bands with fewer than one
+    mode of the panel (SEA weak whatever the damping; the modal overlap of a panel alone,
+    with its material damping only, says little about the panel once it is built in);
+    dotted line: the coincidence frequency.
+    """
+    t = table.set_index("band_hz").reindex(bands.nominal)
+    fig, (ax1, ax2) = _new((8.0, 6.0), rows=2)
+    weak = (t["modes_in_band"] < 1.0).to_numpy(dtype=bool)
+    if "transmission_loss_sea_dB" in t:
+        ax1.step(*_steps(bands, t["transmission_loss_sea_dB"].to_numpy(dtype=float)),
+                 where="post", color=PALETTE[0], linewidth=1.8,
+                 label="transmission loss (SEA, two rooms)")  # fmt: skip
+    if "trim_insertion_loss_dB" in t:
+        ax1.step(*_steps(bands, t["trim_insertion_loss_dB"].to_numpy(dtype=float)),
+                 where="post", color=PALETTE[2], linewidth=1.5, label="trim insertion loss")  # fmt: skip
+    ax1.set_ylabel("[dB]")
+    ax2.step(*_steps(bands, t["radiation_efficiency"].to_numpy(dtype=float)), where="post",
+             color=PALETTE[1], linewidth=1.8, label="radiation efficiency")  # fmt: skip
+    ax2.set_yscale("log")
+    ax2.set_ylabel("radiation efficiency [-]")
+    fc = float(t["critical_frequency_hz"].iloc[0])
+    for ax in (ax1, ax2):
+        _shade_weak(ax, bands, weak, label=ax is ax1,
+                    text="fewer than one panel mode per band (SEA weak)")  # fmt: skip
+        if bands.lower[0] <= fc <= bands.upper[-1]:
+            ax.axvline(fc, color="#444444", linestyle=":", linewidth=1.0,
+                       label=f"coincidence {fc:.0f} Hz" if ax is ax1 else None)  # fmt: skip
+        _band_axis(ax, bands)
+    ax1.set_xlabel("")
+    ax1.legend(fontsize=8, loc="best", framealpha=0.9)
+    ax1.set_title(title, loc="left", fontsize=11)
     _save(fig, out, fmt)

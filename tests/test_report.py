@@ -217,3 +217,21 @@ def test_every_csv_starts_with_the_caution(tmp_path, capsys):
     capsys.readouterr()
     assert main(["--help"]) == 0
     assert "Caution" in capsys.readouterr().out
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["sensitivity", RAIL, "--to", "cab_air"],
+        ["spread", str(ROOT / "models" / "two_rooms.toml"), "--samples", "20", "--show",
+         "receiving_room"],
+        ["panel", "--material", "glass", "--thickness", "0.006", "--lx", "1.2", "--ly", "0.9",
+         "--trim", "spring_mass_2kg"],
+    ],
+)  # fmt: skip
+def test_figures_of_the_commands(tmp_path, capsys, argv):
+    out = tmp_path / "figure.png"
+    assert main([*argv, "--plot", str(out)]) == 0
+    assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert main([*argv, "--plot", str(tmp_path / "figure.gif")]) == 2
+    assert "use a .png, .pdf or .svg" in capsys.readouterr().err

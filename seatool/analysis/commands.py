@@ -12,7 +12,7 @@ import pandas as pd
 from .. import progress
 from ..errors import InputError, Problem
 from ..modelfile import build
-from ..plot import plot_target
+from ..plot import plot_sensitivity, plot_spread, plot_target
 from ..results import CAUTION, Result
 from ..results import write_csv as write_table_csv
 from ..solve import solve
@@ -183,12 +183,17 @@ def _sens_args(p: argparse.ArgumentParser) -> None:
     )
     p.add_argument("--csv", metavar="FILE", help="write the per-band sensitivity table to FILE")
     p.add_argument("--top", type=int, default=15, help="parameters listed (default 15)")
+    p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw the largest overall sensitivities to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
 
 
 def _cmd_sensitivity(args: argparse.Namespace) -> int:
     from .sensitivity import add_levels, parameter_sensitivities, ranking, sensitivities
 
     out = _csv_target(args.csv, "--csv")
+    plot_path = plot_target(args.plot)
     data, file, base, model = _load(args.model)
     r = receiver_index(model, args.to)
     result = Result(model, solve(model))
@@ -219,6 +224,9 @@ def _cmd_sensitivity(args: argparse.Namespace) -> int:
     if out is not None:
         write_csv(table, out)
         print(f"wrote {out}")
+    if plot_path is not None:
+        plot_sensitivity(rk, model.names[r], plot_path, top=args.top)
+        print(f"wrote {plot_path}")
     print()
     print("Caution: " + CAUTION)
     return 0
@@ -233,12 +241,17 @@ def _spread_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--seed", type=int, default=0, help="random seed (default 0)")
     p.add_argument("--csv", metavar="FILE", help="write the per-band percentile table to FILE")
     p.add_argument("--show", metavar="NAMES", help="comma-separated subsystems to print")
+    p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw the 5-95 %% band of the first shown subsystem to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
 
 
 def _cmd_spread(args: argparse.Namespace) -> int:
     from .uncertainty import spread
 
     out = _csv_target(args.csv, "--csv")
+    plot_path = plot_target(args.plot)
     data, file, base, model = _load(args.model)
     names = [s.name for s in model.subsystems if not s.sink]
     if args.show:
@@ -292,6 +305,9 @@ def _cmd_spread(args: argparse.Namespace) -> int:
     if out is not None:
         write_csv(t, out)
         print(f"wrote {out}")
+    if plot_path is not None:
+        plot_spread(t, names[0], bands, plot_path)
+        print(f"wrote {plot_path}")
     print()
     print("Caution: " + CAUTION)
     return 0
