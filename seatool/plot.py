@@ -211,7 +211,8 @@ PALETTE = (
     "#2f4858", "#1b8a8f", "#d08c2c", "#a8423a", "#7a5c99", "#5f7f3a",
     "#c46a9a", "#3f6fb0", "#8a6d3b", "#4d4d4d",
 )  # fmt: skip
-_WEAK = {"facecolor": (0.60, 0.65, 0.68, 0.18), "hatch": "///", "edgecolor": (0.42, 0.47, 0.5, 0.8)}
+# Opaque face (a transparent face would fade the hatch too in SVG), drawn under the data.
+_WEAK = {"facecolor": "#e4e8ea", "hatch": "///", "edgecolor": "#7d8a92", "zorder": 0}
 _WEAK_LABEL = "SEA weak in this band (few modes or low modal overlap)"
 
 Output = str | os.PathLike[str] | IO[bytes]

@@ -102,6 +102,18 @@ def _description(data: Mapping[str, Any], section: str, name: str) -> str:
     return str(text) if isinstance(text, str) else ""
 
 
+def _damping_from(s: Subsystem, data: Mapping[str, Any]) -> str:
+    """The subsystem's damping provenance; a damping form of the file is named as such."""
+    how = s.provenance.get("damping", "")
+    tab = data.get("subsystems", {})
+    entry = tab.get(s.component, {}) if isinstance(tab, Mapping) else {}
+    raw = entry.get("damping") if isinstance(entry, Mapping) else None
+    if how == "given" and isinstance(raw, Mapping):
+        forms = ", ".join(str(k).replace("_", " ") for k in raw)
+        return f"derived from the damping form in the file ({forms})"
+    return how
+
+
 def _size(s: Subsystem) -> str:
     if s.sink:
         return "free field"
@@ -127,7 +139,7 @@ def _model_tables(model: Model, result: Result, data: Mapping[str, Any]) -> dict
             "modal density from": [
                 s.provenance.get("modal_density", "") for s in model.subsystems
             ],
-            "damping from": [s.provenance.get("damping", "") for s in model.subsystems],
+            "damping from": [_damping_from(s, data) for s in model.subsystems],
         }
     )
     cons = pd.DataFrame(

@@ -59,7 +59,14 @@ def _cell(column: str, value: Any) -> tuple[str, str]:
         if column in ("share", "source_share"):
             return f"{100 * x:.1f} %", "num"
         return f"{x:.3g}", "num"
-    return str(value), ("text" if column in _TEXT_COLUMNS else "")
+    text = str(value)
+    if column in _TEXT_COLUMNS:
+        return text, "text"
+    # long names may wrap after an underscore, a dot or '>' (a zero-width space, not markup)
+    if len(text) > 16:
+        for sep in ("_", ".", ">"):
+            text = text.replace(sep, sep + "\u200b")
+    return text, ""
 
 
 def _table(df: pd.DataFrame) -> dict[str, Any]:
