@@ -12,9 +12,11 @@ import numpy as np
 import numpy.typing as npt
 
 __all__ = [
+    "CAUTION",
     "REFERENCE",
     "acceleration_level",
     "db",
+    "db_to_ratio",
     "energy_level",
     "level_sum",
     "mean_square_pressure",
@@ -23,6 +25,14 @@ __all__ = [
     "sound_pressure_level",
     "velocity_level",
 ]
+
+#: The one caution shown wherever a sound or vibration level reaches a user (terminal,
+#: ``--help``, figures, notebook views). Defined here only; import it, never reword it.
+CAUTION = (
+    "Estimates guide design and do not certify: verify by measurement to the applicable "
+    "standards; hearing-protection and exposure decisions follow local regulations and "
+    "qualified professionals."
+)
 
 #: Reference values (ISO 1683:2015, Table 1; from memory): sound pressure 20 uPa,
 #: velocity 1 nm/s, acceleration 1 um/s^2, sound power 1 pW, energy 1 pJ.
@@ -59,7 +69,10 @@ def db(ratio: npt.ArrayLike) -> npt.NDArray[np.float64]:
         return np.asarray(10.0 * np.log10(np.asarray(ratio, dtype=float)), dtype=np.float64)
 
 
-_db = db
+def db_to_ratio(level: npt.ArrayLike) -> npt.NDArray[np.float64]:
+    """Ratio of powers or energies 10^(L/10) of a level L [dB] (inverse of :func:`db`)."""
+    return np.asarray(10.0 ** (np.asarray(level, dtype=float) / 10.0), dtype=np.float64)
+
 
 
 def mean_square_pressure(
@@ -108,7 +121,7 @@ def sound_pressure_level(
     p_sq: npt.ArrayLike, *, reference: float = REFERENCE["sound_pressure"]
 ) -> npt.NDArray[np.float64]:
     """Sound pressure level [dB re 20 uPa] from mean-square pressure [Pa^2] (ISO 1683)."""
-    return _db(np.asarray(p_sq, dtype=float) / reference**2)
+    return db(np.asarray(p_sq, dtype=float) / reference**2)
 
 
 def velocity_level(
@@ -118,7 +131,7 @@ def velocity_level(
 
     Older building-acoustics practice uses 5e-8 m/s; pass ``reference`` to change it.
     """
-    return _db(np.asarray(v_sq, dtype=float) / reference**2)
+    return db(np.asarray(v_sq, dtype=float) / reference**2)
 
 
 def acceleration_level(
@@ -129,25 +142,23 @@ def acceleration_level(
     Uses <a^2> = omega^2 <v^2> at the band centre (narrow-band approximation, common practice).
     """
     a_sq = np.asarray(omega, dtype=float) ** 2 * np.asarray(v_sq, dtype=float)
-    return _db(a_sq / reference**2)
+    return db(a_sq / reference**2)
 
 
 def energy_level(
     energy: npt.ArrayLike, *, reference: float = REFERENCE["energy"]
 ) -> npt.NDArray[np.float64]:
     """Energy level [dB re 1 pJ] (ISO 1683)."""
-    return _db(np.asarray(energy, dtype=float) / reference)
+    return db(np.asarray(energy, dtype=float) / reference)
 
 
 def power_level(
     power: npt.ArrayLike, *, reference: float = REFERENCE["power"]
 ) -> npt.NDArray[np.float64]:
     """Sound power level [dB re 1 pW] (ISO 1683)."""
-    return _db(np.asarray(power, dtype=float) / reference)
+    return db(np.asarray(power, dtype=float) / reference)
 
 
 def level_sum(levels: npt.ArrayLike, axis: int = -1) -> npt.NDArray[np.float64]:
     """Energetic sum of levels [dB]: 10 lg(sum 10^(L/10)) (common practice)."""
-    lv = np.asarray(levels, dtype=float)
-    with np.errstate(divide="ignore"):
-        return 10.0 * np.log10(np.sum(10.0 ** (lv / 10.0), axis=axis))
+    return db(np.sum(db_to_ratio(levels), axis=axis))

@@ -11,7 +11,7 @@ directly in Python; solving never mutates them.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Literal
 
 import numpy as np
@@ -246,6 +246,4 @@ class Model:
 
 
 def _replace(obj: object, **changes: object):  # type: ignore[no-untyped-def]
-    from dataclasses import replace
-
     return replace(obj, **changes)  # type: ignore[type-var]

@@ -16,7 +16,9 @@ from typing import IO, Any
 import networkx as nx
 import numpy as np
 
-from .results import CAUTION, Result
+from .errors import InputError, Problem
+from .levels import CAUTION, power_level
+from .results import Result
 
 __all__ = [
     "PALETTE",
@@ -37,8 +39,6 @@ PLOT_SUFFIXES = (".png", ".pdf", ".svg")
 
 def plot_target(value: str | None, option: str = "--plot") -> Path | None:
     """Check a figure file name given on the command line (InputError if it cannot be used)."""
-    from .errors import InputError, Problem
-
     if value is None:
         return None
     p = Path(value)
@@ -164,7 +164,7 @@ def plot_contributions(
     edges = np.append(bands.lower, bands.upper[-1])
     sink = model.subsystems[r].sink
     if sink:
-        y = 10 * np.log10(np.maximum(result.solution.dissipated_power[r], 1e-300) / 1e-12)
+        y = power_level(np.maximum(result.solution.dissipated_power[r], 1e-300))
         ax1.set_ylabel("absorbed power level [dB re 1 pW]")
     else:
         y = lv[r]

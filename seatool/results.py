@@ -19,16 +19,20 @@ import pandas as pd
 
 from . import levels
 from .bands import a_weighting
+from .levels import CAUTION
 from .model import Model, Subsystem
-from .solve import Solution
+from .solve import Solution, solve
+from .validity_report import validity_table, weak_band_notes
 
-__all__ = ["CAUTION", "Result", "csv_text", "subsystem_level", "write_csv", "write_text_atomic"]
-
-CAUTION = (
-    "Estimates guide design; they do not certify. Verify by measurement to the applicable "
-    "standards. Hearing-protection and occupational-exposure decisions follow local "
-    "regulations and qualified professionals."
-)
+__all__ = [
+    "CAUTION",
+    "Result",
+    "csv_text",
+    "run",
+    "subsystem_level",
+    "write_csv",
+    "write_text_atomic",
+]
 
 Array = npt.NDArray[np.float64]
 
@@ -102,15 +106,11 @@ class Result:
     @property
     def notes(self) -> tuple[str, ...]:
         """Model and solver notes, then SEA validity warnings (weak bands, model limits)."""
-        from .validity_report import weak_band_notes
-
         return self.model.notes + self.solution.notes + weak_band_notes(self.model)
 
     def validity(self) -> pd.DataFrame:
         """SEA validity per subsystem and band (:func:`seatool.validity_report.validity_table`):
         ``subsystem, band_hz, modes_in_band, modal_overlap, ..., flag, message``."""
-        from .validity_report import validity_table
-
         return validity_table(self.model)
 
     def sources(self) -> pd.DataFrame:
@@ -247,8 +247,14 @@ class Result:
         """Write :meth:`table` to ``path`` atomically, the caution first (:func:`csv_text`)."""
         write_csv(self.table(), path)
 
-    def render(self, names: list[str] | None = None, *, digits: int = 1) -> str:
-        """Compact text table of band levels with overall totals and notes."""
+    def render(
+        self, names: list[str] | None = None, *, digits: int = 1, caution: bool = True
+    ) -> str:
+        """Compact text table of band levels with overall totals and notes.
+
+        The last line is the caution (:data:`seatool.levels.CAUTION`) unless ``caution`` is
+        False (the command line prints it once, after everything else).
+        """
         m = self.model
         w = self.wide(names)
         _, _, refs = self.level_array()
@@ -286,6 +292,8 @@ class Result:
             out.append(f"input power (sum over bands): {src['input_W'].sum():.3g} W ({parts})")
         for note in self.notes:
             out.append(f"note: {note}")
+        if caution:
+            out += ["", "Caution: " + CAUTION]
         return "\n".join(out)
 
     def __str__(self) -> str:
@@ -301,3 +309,8 @@ class Result:
         w = self.wide().round(1)
         title = f"<b>{html.escape(self.model.title)}</b>" if self.model.title else ""
         return title + w.to_html(escape=True) + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
+
+
+def run(model: Model) -> Result:
+    """Solve ``model`` in every band and return a :class:`Result` (the model is not changed)."""
+    return Result(model, solve(model))

@@ -20,6 +20,7 @@ lets the exact 1-norm of the inverse be read from one transposed solve
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 import numpy.typing as npt
@@ -29,9 +30,10 @@ from scipy.sparse.csgraph import connected_components
 
 from .model import Model
 
-__all__ = ["Assembly", "SolveError", "assemble", "solve"]
+__all__ = ["Assembly", "FreeBlock", "SolveError", "assemble", "solve"]
 
 Array = npt.NDArray[np.float64]
+IntArray = npt.NDArray[np.int64]
 
 #: Relative residual allowed for conservation (input = dissipated) in every band.
 CONSERVATION_TOLERANCE = 1e-9
@@ -141,6 +143,124 @@ def assemble(model: Model) -> Assembly:
 
 
 @dataclass(frozen=True)
+class FreeBlock:
+    """The free block of the power balance: the one construction used by the solver and
+    by the analyses (:mod:`seatool.analysis`).
+
+    For the free (not held) subsystems U of one band, ``L_UU E_U = P_U / omega + L_UK E_K``
+    with the held energies E_K moved to the right (:meth:`rhs`). With modal energies
+    ``x = E_U / n_U`` the matrix ``C = L_UU diag(n_U)`` is symmetric positive definite
+    (reciprocity; :meth:`matrix`). The sparsity pattern is the same in every band: it is
+    built once (CSC), and :attr:`values` holds L_UU's entries per band in that slot order
+    (duplicate connections between one pair summed).
+
+    Attributes
+    ----------
+    asm : Assembly
+    free : ndarray of int (nf,)
+        Subsystem index of each unknown.
+    pos : ndarray of int (N,)
+        Position of each subsystem among the unknowns, -1 if held.
+    n_free : ndarray (nf, B)
+        Modal densities of the unknowns [1/Hz].
+    indptr, indices : ndarray of int
+        CSC structure of L_UU and C.
+    values : ndarray (nnz, B)
+        Entries of L_UU per band, in CSC slot order.
+    slot_col : ndarray of int (nnz,)
+        Column of each slot.
+    """
+
+    asm: Assembly
+    free: IntArray
+    pos: IntArray
+    n_free: Array
+    indptr: npt.NDArray[np.integer[Any]]
+    indices: npt.NDArray[np.integer[Any]]
+    values: Array
+    slot_col: npt.NDArray[np.integer[Any]]
+
+    @classmethod
+    def of(cls, model: Model, asm: Assembly) -> FreeBlock:
+        """The free block of ``asm`` (assembled from ``model``)."""
+        n, nb = asm.shape
+        free = np.flatnonzero(~asm.held).astype(np.int64)
+        pos = np.full(n, -1, dtype=np.int64)
+        pos[free] = np.arange(free.size)
+        nf = free.size
+        if not nf:
+            empty = np.zeros(0, dtype=np.int64)
+            return cls(
+                asm, free, pos, np.zeros((0, nb)), np.zeros(1, np.int64), empty,
+                np.zeros((0, nb)), empty,
+            )  # fmt: skip
+        a, b = asm.a, asm.b
+        # Entries of L_UU (both ends free): L_ab = -eta_ba, L_ba = -eta_ab.
+        ff = (pos[a] >= 0) & (pos[b] >= 0)
+        rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
+        cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
+        vals_all = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
+        # One sparsity pattern for all bands: build the CSC structure once, refill values.
+        pattern = sp.csc_matrix(
+            sp.coo_matrix((np.arange(1, rows.size + 1, dtype=float), (rows, cols)), shape=(nf, nf))
+        )
+        # Map each CSC slot back to its COO entries (duplicates are summed).
+        order = np.lexsort((rows, cols))
+        rs, cs = rows[order], cols[order]
+        start = np.ones(rs.size, dtype=bool)
+        start[1:] = (rs[1:] != rs[:-1]) | (cs[1:] != cs[:-1])
+        slot = np.cumsum(start) - 1
+        summed = np.zeros((int(slot[-1]) + 1, nb))
+        np.add.at(summed, slot, vals_all[order])
+        slot_col = np.repeat(np.arange(nf), np.diff(pattern.indptr))
+        n_free = np.vstack([model.subsystems[i].modal_density for i in free])
+        return cls(
+            asm=asm,
+            free=free,
+            pos=pos,
+            n_free=n_free,
+            indptr=pattern.indptr,
+            indices=pattern.indices,
+            values=summed,
+            slot_col=slot_col,
+        )
+
+    @property
+    def nf(self) -> int:
+        """Number of unknowns."""
+        return int(self.free.size)
+
+    def norm1(self, j: int) -> float:
+        """1-norm (largest absolute column sum) of L_UU in band ``j``."""
+        return float(np.bincount(self.slot_col, np.abs(self.values[:, j]), minlength=self.nf).max())
+
+    def matrix(self, j: int) -> sp.csc_matrix:
+        """The symmetric form C = L_UU diag(n_U) of band ``j`` (sparse CSC)."""
+        data = self.values[:, j] * self.n_free[self.slot_col, j]
+        return sp.csc_matrix((data, self.indices, self.indptr), shape=(self.nf, self.nf))
+
+    def rhs(self, power: Array, held_energy: Array, band: int | None = None) -> Array:
+        """Right-hand side ``P_U / omega + L_UK E_K``.
+
+        ``power`` and ``held_energy`` are (N, B) for every band (``band`` None), or (N, S)
+        for S right-hand sides of band ``band``; the result is (nf, B) or (nf, S).
+        """
+        asm, pos = self.asm, self.pos
+        a, b = asm.a, asm.b
+        if band is None:
+            omega, eta_ab, eta_ba = asm.omega, asm.eta_ab, asm.eta_ba
+        else:
+            omega = asm.omega[band]
+            eta_ab, eta_ba = asm.eta_ab[:, band, None], asm.eta_ba[:, band, None]
+        out = np.asarray(power[self.free] / omega, dtype=np.float64)
+        fa = (pos[a] >= 0) & asm.held[b]
+        np.add.at(out, pos[a[fa]], eta_ba[fa] * held_energy[b[fa]])
+        fb = (pos[b] >= 0) & asm.held[a]
+        np.add.at(out, pos[b[fb]], eta_ab[fb] * held_energy[a[fb]])
+        return out
+
+
+@dataclass(frozen=True)
 class Solution:
     """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people."""
 
@@ -235,50 +355,19 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     asm = assemble(model) if asm is None else asm
     _check_singular(model, asm)
     n, nb = asm.shape
-    free = np.flatnonzero(~asm.held)
-    pos = np.full(n, -1, dtype=np.int64)
-    pos[free] = np.arange(free.size)
-    nf = free.size
+    blk = FreeBlock.of(model, asm)
+    free, nf = blk.free, blk.nf
     a, b = asm.a, asm.b
-    # Entries of L_UU (both ends free) and of L_UK (row free, column held).
-    ff = (pos[a] >= 0) & (pos[b] >= 0)
-    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-    # RHS = P_U / omega - L_UK E_K ; L_ab = -eta_ba, L_ba = -eta_ab.
-    rhs = asm.power[free] / asm.omega
-    fa = (pos[a] >= 0) & asm.held[b]
-    np.add.at(rhs, pos[a[fa]], asm.eta_ba[fa] * asm.held_energy[b[fa]])
-    fb = (pos[b] >= 0) & asm.held[a]
-    np.add.at(rhs, pos[b[fb]], asm.eta_ab[fb] * asm.held_energy[a[fb]])
+    rhs = blk.rhs(asm.power, asm.held_energy)
 
     energy = asm.held_energy.copy()
     condition = np.ones(nb)
     notes: list[str] = []
     if nf:
-        vals_all = np.concatenate(
-            [asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0
-        )  # (nnz, B)
-        # One sparsity pattern for all bands: build the CSC structure once, refill values.
-        pattern = sp.csc_matrix(
-            sp.coo_matrix((np.arange(1, rows.size + 1, dtype=float), (rows, cols)), shape=(nf, nf))
-        )
-        # Map each CSC slot back to its COO entries (duplicates are summed).
-        order = np.lexsort((rows, cols))
-        rs, cs = rows[order], cols[order]
-        start = np.ones(rs.size, dtype=bool)
-        start[1:] = (rs[1:] != rs[:-1]) | (cs[1:] != cs[:-1])
-        slot = np.cumsum(start) - 1
-        summed = np.zeros((int(slot[-1]) + 1, nb))
-        np.add.at(summed, slot, vals_all[order])
-        # Symmetric form C = L_UU diag(n_U) (reciprocity), symmetric positive definite.
-        slot_col = np.repeat(np.arange(nf), np.diff(pattern.indptr))
-        n_free = np.vstack([model.subsystems[i].modal_density for i in free])  # (nf, B)
+        n_free = blk.n_free
         for j in range(nb):
-            lvals = summed[:, j]
-            norm_l = float(np.bincount(slot_col, np.abs(lvals), minlength=nf).max())
-            cmat = sp.csc_matrix(
-                (lvals * n_free[slot_col, j], pattern.indices, pattern.indptr), shape=(nf, nf)
-            )
+            norm_l = blk.norm1(j)
+            cmat = blk.matrix(j)
             x, col_sums = _spd_solve(cmat, rhs[:, j], n_free[:, j], model, free, j, asm)
             # M-matrix: ||L^-1||_1 = max(L^-T 1) exactly, and L^-T 1 = C^-1 n.
             cond = norm_l * float(np.max(col_sums))

@@ -29,6 +29,7 @@ import pandas as pd
 from .model import Model, Subsystem
 from .physics import elastic
 from .physics import validity as pv
+from .solve import assemble
 
 __all__ = [
     "SubsystemValidity",
@@ -154,8 +155,6 @@ def assess_model(
 ) -> list[SubsystemValidity]:
     """Validity indicators of every modal subsystem of ``model`` (exterior and resonators
     are left out: the exterior holds no modes, a resonator is one mode by design)."""
-    from .solve import assemble
-
     b = model.bands
     diag = assemble(model).diag
     out = []

@@ -12,6 +12,7 @@ import pytest
 
 import seatool
 from seatool.cli import main
+from seatool.levels import CAUTION
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "models" / "compressor_enclosure.toml"
@@ -89,3 +90,84 @@ def test_plot_option_bad_suffix(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "--plot" in err and ".png" in err
     assert not (tmp_path / "levels.bmp").exists()
+
+
+def test_version(capsys):
+    assert main(["--version"]) == 0
+    assert capsys.readouterr().out.strip() == f"seatool {seatool.__version__}"
+    # the package metadata reads the same one place (pyproject: dynamic version)
+    import tomllib
+
+    meta = tomllib.loads((ROOT / "pyproject.toml").read_text())
+    assert "version" in meta["project"]["dynamic"]
+    assert meta["tool"]["setuptools"]["dynamic"]["version"]["attr"] == (
+        "seatool._version.__version__"
+    )
+
+
+def _imported_after(code: str) -> set[str]:
+    probe = code + "; import sys; print(' '.join(sorted(sys.modules)))"
+    out = subprocess.run(
+        [sys.executable, "-c", probe], capture_output=True, text=True, cwd=ROOT, check=True
+    ).stdout
+    return set(out.split())
+
+
+HEAVY = {"pandas", "scipy", "scipy.sparse", "matplotlib", "networkx"}
+
+
+def test_import_seatool_imports_no_heavy_dependency():
+    # lazy package attributes (PEP 562): `import seatool` loads none of the heavy
+    # dependencies; the first use of seatool.run does
+    assert not HEAVY & _imported_after("import seatool")
+    assert {"pandas", "scipy.sparse"} <= _imported_after("import seatool; seatool.run")
+
+
+def test_help_imports_no_heavy_dependency():
+    code = (
+        "import contextlib, io, seatool.cli as c\n"
+        "with contextlib.redirect_stdout(io.StringIO()): c.main(['--help'])"
+    )
+    assert not HEAVY & _imported_after(code)
+
+
+def test_python_m_seatool_help():
+    out = subprocess.run(
+        [sys.executable, "-m", "seatool", "--help"], capture_output=True, text=True, cwd=ROOT
+    )
+    assert out.returncode == 0
+    for name in ("solve", "check", "panel", "paths", "sensitivity", "spread", "Caution"):
+        assert name in out.stdout
+
+
+def test_one_caution_wording_everywhere():
+    # the caution is defined once (seatool.levels.CAUTION) and shown verbatim: in the
+    # README, in --help, at the end of Result.render(); no second wording in the package
+    flat = " ".join((ROOT / "README.md").read_text().split())
+    assert " ".join(CAUTION.split()) in flat.replace("> ", "")
+    help_text = subprocess.run(
+        [sys.executable, "-m", "seatool", "--help"], capture_output=True, text=True, cwd=ROOT
+    ).stdout
+    assert " ".join(CAUTION.split()) in " ".join(help_text.split())
+    res = seatool.run(seatool.load(DEMO))
+    assert res.render().endswith("Caution: " + CAUTION)
+    assert "Caution: " + CAUTION not in res.render(caution=False)
+    for path in (ROOT / "seatool").rglob("*.py"):
+        text = path.read_text()
+        assert "do not certify" not in text or path.name == "levels.py", path
+        assert "they do not certify" not in text, path
+
+
+def test_every_public_name_resolves():
+    # the lazy package attributes (seatool.__getattr__): every name of __all__ is found,
+    # an unknown one is an AttributeError, and seatool.solve is the module, not a function
+    code = (
+        "import seatool, types\n"
+        "missing = [n for n in seatool.__all__ if getattr(seatool, n, None) is None]\n"
+        "assert not missing, missing\n"
+        "assert isinstance(seatool.solve, types.ModuleType)\n"
+        "assert not hasattr(seatool, 'no_such_name')\n"
+        "print('ok')"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT)
+    assert out.stdout.strip() == "ok", out.stderr

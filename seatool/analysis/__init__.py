@@ -1,10 +1,15 @@
-"""Analyses of solved models: contributions and paths, sensitivities, uncertainty.
+"""Analyses of solved models: the panel table, contributions and paths, sensitivities,
+uncertainty, comfort metrics.
 
 These modules only read models and results; they never change a model. Every table
-they return is a tidy pandas DataFrame and carries the receiver's per-band validity
-indicators (modes in band, modal overlap).
+they return is a tidy pandas DataFrame; the tables of a receiver carry its per-band
+validity indicators (modes in band, modal overlap).
 """
 
 from __future__ import annotations
 
-__all__ = ["paths", "sensitivity", "uncertainty"]
+from . import comfort, panel, paths, sensitivity, uncertainty
+from ._keypath import read_data
+from ._system import receiver_index
+
+__all__ = ["comfort", "panel", "paths", "read_data", "receiver_index", "sensitivity", "uncertainty"]

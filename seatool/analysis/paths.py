@@ -47,10 +47,11 @@ import numpy as np
 import numpy.typing as npt
 import pandas as pd
 
+from ..levels import db
 from ..model import Model
 from ..results import Result
 from ..solve import assemble
-from ._system import receiver_index, solve_sources, validity_columns
+from ._system import level_offset, receiver_index, solve_sources, validity_columns
 
 __all__ = [
     "Source",
@@ -174,8 +175,6 @@ def contributions(model: Model, receiver: str) -> pd.DataFrame:
 
 
 def _contrib_table(ps: _PerSource, r: int) -> pd.DataFrame:
-    from ._system import db, level_offset
-
     model = ps.model
     nb = len(model.bands)
     ns = len(ps.srcs)

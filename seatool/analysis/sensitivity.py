@@ -47,15 +47,24 @@ import numpy.typing as npt
 import pandas as pd
 
 from ..errors import InputError, Problem
+from ..levels import db_to_ratio
 from ..model import Model
 from ..modelfile import build
 from ..results import Result
-from ..solve import Assembly, assemble
+from ..solve import Assembly, FreeBlock, assemble
 from ..solve import solve as core_solve
-from ._keypath import resolve, with_value
-from ._system import FreeBlock, level_offset, receiver_index, validity_columns
+from ._keypath import read_data, resolve, with_value
+from ._system import factors, level_offset, receiver_index, validity_columns
 
-__all__ = ["Gradients", "gradients", "parameter_sensitivities", "ranking", "sensitivities"]
+__all__ = [
+    "Gradients",
+    "add_levels",
+    "gradients",
+    "parameter_sensitivities",
+    "ranking",
+    "receiver_sensitivities",
+    "sensitivities",
+]
 
 Array = npt.NDArray[np.float64]
 
@@ -111,7 +120,7 @@ def gradients(
     held_r = bool(asm.held[r])
     if not held_r:
         pr = int(blk.pos[r])
-        for j, lu in blk.factors(model):
+        for j, lu in factors(blk, model):
             assert lu is not None
             e_r = np.zeros(blk.nf)
             e_r[pr] = blk.n_free[pr, j]
@@ -371,7 +380,7 @@ def ranking(table: pd.DataFrame) -> pd.DataFrame:
     if "level_dB" not in t.columns:
         raise ValueError("ranking needs a level_dB column (use add_levels first)")
     lv = t["level_dB"].to_numpy(dtype=float)
-    t["_q"] = np.where(np.isfinite(lv), 10.0 ** (lv / 10.0), 0.0)
+    t["_q"] = np.where(np.isfinite(lv), db_to_ratio(lv), 0.0)
     out = []
     for (param, kind), grp in t.groupby(["parameter", "kind"], sort=False):
         q = grp["_q"].to_numpy()
@@ -412,3 +421,27 @@ def add_levels(table: pd.DataFrame, model: Model, result: Result | None = None) 
     return table.assign(
         level_dB=[float(lv[r, band_pos[float(f)]]) for f in table["band_hz"].to_numpy()]
     )
+
+
+def receiver_sensitivities(
+    path: str | Path, receiver: str, params: Sequence[str] = ()
+) -> tuple[Model, pd.DataFrame]:
+    """Every sensitivity of ``receiver``'s level in the model file ``path`` (``seatool
+    sensitivity``).
+
+    :func:`sensitivities` (loss factors, powers, held levels) followed by
+    :func:`parameter_sensitivities` of the key paths ``params``, with the receiver's band
+    level joined (:func:`add_levels`). Returns the model and the table; rank it with
+    :func:`ranking`. Raises :class:`~seatool.errors.InputError` for a bad file, receiver or
+    key path.
+    """
+    data, file, base = read_data(path)
+    model = build(data, file=file, base_dir=base)
+    receiver_index(model, receiver)
+    result = Result(model, core_solve(model))
+    tables = [sensitivities(model, receiver, result=result)]
+    if params:
+        tables.append(
+            parameter_sensitivities(data, receiver, params, file=file, base_dir=base, model=model)
+        )
+    return model, add_levels(pd.concat(tables, ignore_index=True), model, result)

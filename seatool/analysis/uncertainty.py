@@ -44,14 +44,15 @@ import pandas as pd
 import scipy.sparse as sp
 
 from .. import levels
-from ..errors import InputError, Problem
+from ..errors import InputError, Problem, closest
+from ..levels import db, db_to_ratio
 from ..model import Model
 from ..modelfile import Reader, build
 from ..results import Result
 from ..solve import SolveError, assemble
 from ..solve import solve as core_solve
 from ._keypath import read_data, resolve, with_value
-from ._system import db, level_offset, validity_columns
+from ._system import level_offset, validity_columns
 
 __all__ = [
     "DENSE_LIMIT",
@@ -222,8 +223,6 @@ def read_uncertainty(
 
 
 def _closest(name: str, choices: Mapping[str, Any]) -> str:
-    from ..errors import closest
-
     return closest(name, list(choices))
 
 
@@ -505,7 +504,7 @@ def spread(
         else:
             q = _run_sparse(model, unc, targets, draws, bar)
             method = "direct (sparse per sample)"
-        q = q * 10.0 ** (offsets[None, :, None] / 10.0)
+        q = q * db_to_ratio(offsets[None, :, None])
     else:
         q = _run_rebuild(data, model, unc, draws, file, base_dir, bar)
         method = "rebuild per sample"
@@ -685,7 +684,7 @@ def _run_rebuild(
             )
         e = core_solve(m).energy
         off = np.array([level_offset(m, i) for i in range(n)])
-        out[k] = e * 10.0 ** (off[:, None] / 10.0)
+        out[k] = e * db_to_ratio(off[:, None])
         bar.update(k + 1)
     return out
 

@@ -6,15 +6,10 @@ Parses the options, calls :func:`seatool.report.write_report` and prints what it
 from __future__ import annotations
 
 import argparse
-import sys
-from typing import TYPE_CHECKING
 
-from .progress import set_quiet
-from .report import write_report
-from .results import CAUTION
+import seatool
 
-if TYPE_CHECKING:
-    from .cli import Command
+from ._common import Command, print_caution
 
 
 def _args(p: argparse.ArgumentParser) -> None:
@@ -42,25 +37,21 @@ def _args(p: argparse.ArgumentParser) -> None:
 
 def _cmd(args: argparse.Namespace) -> int:
     if args.quiet:
-        set_quiet(True)
-    files = write_report(
+        seatool.progress.set_quiet(True)
+    files = seatool.report.write_report(
         args.model, args.output, receiver=args.to, band=args.band, samples=args.samples,
         seed=args.seed,
     )  # fmt: skip
     print(f"wrote {files.html}")
     print(f"wrote {files.json}")
-    print()
-    print("Caution: " + CAUTION, file=sys.stdout)
+    print_caution()
     return 0
 
 
-def add_commands(registry: dict[str, Command]) -> None:
-    """Register ``report`` with the command line."""
-    from .cli import Command
-
-    registry["report"] = Command(
-        help="write a report of a model: one self-contained HTML file (levels, energy flow, "
-        "paths, sensitivities, spread, validity, references) and its tables as JSON",
-        arguments=_args,
-        handler=_cmd,
-    )
+REPORT = Command(
+    "report",
+    help="write a report of a model: one self-contained HTML file (levels, energy flow, "
+    "paths, sensitivities, spread, validity, references) and its tables as JSON",
+    arguments=_args,
+    handler=_cmd,
+)

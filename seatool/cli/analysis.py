@@ -1,26 +1,24 @@
-"""Command-line front ends of the analyses: ``seatool paths``, ``sensitivity``, ``spread``."""
+"""``seatool paths``, ``seatool sensitivity``, ``seatool spread``: parse, call, print.
+
+The work is done by the documented functions of :mod:`seatool.analysis`
+(:func:`~seatool.analysis.paths.contributions`, :func:`~seatool.analysis.paths.paths`,
+:func:`~seatool.analysis.paths.connection_powers`,
+:func:`~seatool.analysis.sensitivity.receiver_sensitivities`,
+:func:`~seatool.analysis.uncertainty.spread`), reached through the lazy package
+attributes of :mod:`seatool` so that ``seatool --help`` does not import them.
+"""
 
 from __future__ import annotations
 
 import argparse
-from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import Any
 
-import numpy as np
-import pandas as pd
+import seatool
 
-from .. import progress
 from ..errors import InputError, Problem
-from ..modelfile import build
-from ..plot import plot_sensitivity, plot_spread, plot_target
-from ..results import CAUTION, Result
-from ..results import write_csv as write_table_csv
-from ..solve import solve
-from ._keypath import read_data
-from ._system import receiver_index
+from ._common import Command, cannot_write, fmt_table, output_target, print_caution
 
-if TYPE_CHECKING:
-    from ..cli import Command
+__all__ = ["PATHS", "SENSITIVITY", "SPREAD"]
 
 VALIDITY_NOTE = (
     "* = SEA validity not met in that band for the receiver (fewer than 1 mode per band "
@@ -28,31 +26,14 @@ VALIDITY_NOTE = (
 )
 
 
-def _csv_target(value: str | None, option: str) -> Path | None:
-    if value is None:
-        return None
-    p = Path(value)
-    if not p.parent.exists():
-        raise InputError([Problem(str(p), option, f"folder {str(p.parent)!r} does not exist")])
-    return p
-
-
-def write_csv(table: pd.DataFrame, path: Path) -> None:
+def _write_csv(table: Any, path: Any) -> None:
     """Write a tidy table atomically, the caution on its first line."""
-    write_table_csv(table, path)
+    seatool.results.write_csv(table, path)
 
 
-def _fmt_table(head: list[str], rows: list[list[str]]) -> list[str]:
-    widths = [max(len(r[k]) for r in [head, *rows]) for k in range(len(head))]
-    fmt = "  ".join(f"{{:>{w}}}" for w in widths)
-    return [fmt.format(*head), fmt.format(*["-" * w for w in widths])] + [
-        fmt.format(*r) for r in rows
-    ]
-
-
-def _load(path: str):  # type: ignore[no-untyped-def]
-    data, file, base = read_data(path)
-    return data, file, base, build(data, file=file, base_dir=base)
+def _load(path: str) -> tuple[dict[str, Any], str, Any, Any]:
+    data, file, base = seatool.analysis.read_data(path)
+    return data, file, base, seatool.modelfile.build(data, file=file, base_dir=base)
 
 
 # -- paths --------------------------------------------------------------------------------
@@ -78,25 +59,23 @@ def _paths_args(p: argparse.ArgumentParser) -> None:
 
 
 def _cmd_paths(args: argparse.Namespace) -> int:
-    from .paths import connection_powers, contributions, path_ranking, paths
-
     outs = [
-        _csv_target(args.csv, "--csv"),
-        _csv_target(args.contributions_csv, "--contributions-csv"),
-        _csv_target(args.connections_csv, "--connections-csv"),
+        output_target(args.csv, "--csv"),
+        output_target(args.contributions_csv, "--contributions-csv"),
+        output_target(args.connections_csv, "--connections-csv"),
     ]
     if args.max_length < 1:
         raise InputError([Problem(args.model, "--max-length", "must be >= 1")])
-    plot_path = plot_target(args.plot)
+    plot_path = seatool.plot.plot_target(args.plot)
     _, _, _, model = _load(args.model)
-    r = receiver_index(model, args.to)
-    result = Result(model, solve(model))
-    con = contributions(model, args.to)
-    pt = paths(model, args.to, max_length=args.max_length)
-    cp = connection_powers(result, args.to)
+    r = seatool.analysis.receiver_index(model, args.to)
+    result = seatool.run(model)
+    con = seatool.contributions(model, args.to)
+    pt = seatool.paths(model, args.to, max_length=args.max_length)
+    cp = seatool.connection_powers(result, args.to)
     sink = model.subsystems[r].sink
     bands = model.bands
-    valid = con.drop_duplicates("band_hz")["valid"].to_numpy() if len(con) else np.ones(0, bool)
+    valid = [bool(v) for v in con.drop_duplicates("band_hz")["valid"]] if len(con) else []
     lv, _, refs = result.level_array()
     print(model.title or model.source)
     what = "absorbed power [W]" if sink else f"level [dB {refs[r]}]"
@@ -111,16 +90,16 @@ def _cmd_paths(args: argparse.Namespace) -> int:
             row = con[(con["source"] == s) & (con["band_hz"] == bands.nominal[j])].iloc[0]
             cells.append(f"{100 * row['share']:.1f} %")
         rows.append(cells)
-    print("\n".join(_fmt_table(head, rows)))
+    print("\n".join(fmt_table(head, rows)))
     print()
     print(f"strongest paths into {model.names[r]} over all bands (share of the band-summed total)")
-    rk = path_ranking(pt).head(args.top)
+    rk = seatool.path_ranking(pt).head(args.top)
     rows = [
         [str(int(x["rank"])), str(x["source"]), str(x["path"]), f"{100 * x['share']:.2f} %",
          str(int(x["bands_invalid"]))]
         for _, x in rk.iterrows()
     ]  # fmt: skip
-    print("\n".join(_fmt_table(["rank", "source", "path", "share", "bands *"], rows)))
+    print("\n".join(fmt_table(["rank", "source", "path", "share", "bands *"], rows)))
     print()
     print("strongest path per band")
     rows = []
@@ -134,7 +113,7 @@ def _cmd_paths(args: argparse.Namespace) -> int:
             [bands.label(j) + ("" if valid[j] else " *"), str(x["source"]), str(x["path"]),
              f"{100 * x['share']:.1f} %"]
         )  # fmt: skip
-    print("\n".join(_fmt_table(["band", "source", "path", "share"], rows)))
+    print("\n".join(fmt_table(["band", "source", "path", "share"], rows)))
     print()
     print(f"net power into {model.names[r]} per connection (adds up to what it dissipates)")
     conns = list(dict.fromkeys(cp["connection"]))
@@ -146,26 +125,21 @@ def _cmd_paths(args: argparse.Namespace) -> int:
             + [f"{v:.3g}" for v in sel["power_in_W"].to_numpy()]
             + [f"{float(sel['dissipated_W'].iloc[0]):.3g}"]
         )
-    print("\n".join(_fmt_table(["band", *conns, "dissipated"], rows)))
-    if not valid.all():
+    print("\n".join(fmt_table(["band", *conns, "dissipated"], rows)))
+    if not all(valid):
         print()
         print(VALIDITY_NOTE)
     for table, path in zip((pt, con, cp), outs, strict=True):
         if path is not None:
-            write_csv(table, path)
+            _write_csv(table, path)
             print(f"wrote {path}")
     if plot_path is not None:
-        from ..plot import plot_contributions
-
         try:
-            plot_contributions(con, result, model.names[r], plot_path)
+            seatool.plot_contributions(con, result, model.names[r], plot_path)
         except OSError as exc:
-            raise InputError(
-                [Problem(str(plot_path), "--plot", f"cannot write: {exc.strerror or exc}")]
-            ) from None
+            raise cannot_write(plot_path, "--plot", exc) from None
         print(f"wrote {plot_path}")
-    print()
-    print("Caution: " + CAUTION)
+    print_caution()
     return 0
 
 
@@ -190,21 +164,14 @@ def _sens_args(p: argparse.ArgumentParser) -> None:
 
 
 def _cmd_sensitivity(args: argparse.Namespace) -> int:
-    from .sensitivity import add_levels, parameter_sensitivities, ranking, sensitivities
-
-    out = _csv_target(args.csv, "--csv")
-    plot_path = plot_target(args.plot)
-    data, file, base, model = _load(args.model)
-    r = receiver_index(model, args.to)
-    result = Result(model, solve(model))
-    tables = [sensitivities(model, args.to, result=result)]
-    if args.params:
-        params = [x.strip() for x in args.params.split(",") if x.strip()]
-        tables.append(
-            parameter_sensitivities(data, args.to, params, file=file, base_dir=base, model=model)
-        )
-    table = add_levels(pd.concat(tables, ignore_index=True), model, result)
-    rk = ranking(table)
+    out = output_target(args.csv, "--csv")
+    plot_path = seatool.plot.plot_target(args.plot)
+    params = [x.strip() for x in (args.params or "").split(",") if x.strip()]
+    model, table = seatool.analysis.sensitivity.receiver_sensitivities(
+        args.model, args.to, params
+    )
+    r = model.index()[args.to]
+    rk = seatool.ranking(table)
     print(model.title or model.source)
     print(
         f"sensitivity of the level of {model.names[r]}: dB per dB of each parameter "
@@ -216,19 +183,18 @@ def _cmd_sensitivity(args: argparse.Namespace) -> int:
          f"{x['band_of_max']:g} Hz" + ("" if x["valid_at_max"] else " *")]
         for _, x in rk.head(args.top).iterrows()
     ]  # fmt: skip
-    print("\n".join(_fmt_table(["rank", "parameter", "overall", "max |band|", "at band"], rows)))
+    print("\n".join(fmt_table(["rank", "parameter", "overall", "max |band|", "at band"], rows)))
     if len(rk) > args.top:
         print(f"({len(rk) - args.top} more in the CSV table)")
     if not rk["valid_at_max"].all():
         print(VALIDITY_NOTE)
     if out is not None:
-        write_csv(table, out)
+        _write_csv(table, out)
         print(f"wrote {out}")
     if plot_path is not None:
-        plot_sensitivity(rk, model.names[r], plot_path, top=args.top)
+        seatool.plot.plot_sensitivity(rk, model.names[r], plot_path, top=args.top)
         print(f"wrote {plot_path}")
-    print()
-    print("Caution: " + CAUTION)
+    print_caution()
     return 0
 
 
@@ -248,19 +214,17 @@ def _spread_args(p: argparse.ArgumentParser) -> None:
 
 
 def _cmd_spread(args: argparse.Namespace) -> int:
-    from .uncertainty import spread
-
-    out = _csv_target(args.csv, "--csv")
-    plot_path = plot_target(args.plot)
+    out = output_target(args.csv, "--csv")
+    plot_path = seatool.plot.plot_target(args.plot)
     data, file, base, model = _load(args.model)
     names = [s.name for s in model.subsystems if not s.sink]
     if args.show:
         names = [x.strip() for x in args.show.split(",") if x.strip()]
         for n in names:
-            receiver_index(model, n, option="--show")
-    sp = spread(
+            seatool.analysis.receiver_index(model, n, option="--show")
+    sp = seatool.spread(
         data, file=file, base_dir=base, samples=args.samples, seed=args.seed,
-        progress=progress.enabled(),
+        progress=seatool.progress.enabled(),
     )  # fmt: skip
     t = sp.table()
     print(model.title or model.source)
@@ -290,7 +254,7 @@ def _cmd_spread(args: argparse.Namespace) -> int:
              f"{x['p5_dB']:.1f}", f"{x['p50_dB']:.1f}", f"{x['p95_dB']:.1f}"]
             for j, (_, x) in enumerate(sel.iterrows())
         ]  # fmt: skip
-        print("\n".join(_fmt_table(["band", "nominal", "5 %", "50 %", "95 %"], rows)))
+        print("\n".join(fmt_table(["band", "nominal", "5 %", "50 %", "95 %"], rows)))
     ov = sp.overall()
     print()
     print("overall (energetic band sum)")
@@ -299,38 +263,36 @@ def _cmd_spread(args: argparse.Namespace) -> int:
          f"{x['p95_dB']:.1f}"]
         for _, x in ov.iterrows() if x["subsystem"] in names
     ]  # fmt: skip
-    print("\n".join(_fmt_table(["subsystem", "nominal", "5 %", "50 %", "95 %"], rows)))
+    print("\n".join(fmt_table(["subsystem", "nominal", "5 %", "50 %", "95 %"], rows)))
     if not t[t["subsystem"].isin(names)]["valid"].all():
         print(VALIDITY_NOTE.replace("the receiver", "that subsystem"))
     if out is not None:
-        write_csv(t, out)
+        _write_csv(t, out)
         print(f"wrote {out}")
     if plot_path is not None:
-        plot_spread(t, names[0], bands, plot_path)
+        seatool.plot.plot_spread(t, names[0], bands, plot_path)
         print(f"wrote {plot_path}")
-    print()
-    print("Caution: " + CAUTION)
+    print_caution()
     return 0
 
 
-def add_commands(registry: dict[str, Command]) -> None:
-    """Register ``paths``, ``sensitivity`` and ``spread`` with the command line."""
-    from ..cli import Command
-
-    registry["paths"] = Command(
-        help="contributions of each source and the transmission paths into a receiver",
-        arguments=_paths_args,
-        handler=_cmd_paths,
-    )
-    registry["sensitivity"] = Command(
-        help="sensitivity (dB per dB) of a receiver's level to every loss factor, power and "
-        "chosen physical parameters (adjoint method)",
-        arguments=_sens_args,
-        handler=_cmd_sensitivity,
-    )
-    registry["spread"] = Command(
-        help="Monte Carlo spread (5th/50th/95th percentiles) of every level from the model's "
-        "[uncertainty] section",
-        arguments=_spread_args,
-        handler=_cmd_spread,
-    )
+PATHS = Command(
+    "paths",
+    help="contributions of each source and the transmission paths into a receiver",
+    arguments=_paths_args,
+    handler=_cmd_paths,
+)
+SENSITIVITY = Command(
+    "sensitivity",
+    help="sensitivity (dB per dB) of a receiver's level to every loss factor, power and "
+    "chosen physical parameters (adjoint method)",
+    arguments=_sens_args,
+    handler=_cmd_sensitivity,
+)
+SPREAD = Command(
+    "spread",
+    help="Monte Carlo spread (5th/50th/95th percentiles) of every level from the model's "
+    "[uncertainty] section",
+    arguments=_spread_args,
+    handler=_cmd_spread,
+)

@@ -1,11 +1,12 @@
-"""``seatool panel``: band-by-band properties of one flat isotropic panel.
+"""``seatool panel``: band-by-band properties of one flat isotropic panel (parse, call, print).
 
 For a material (built-in name or properties on the command line), a thickness and a size
 ``lx`` x ``ly``, print the table of :func:`seatool.analysis.panel.panel_table`: per band
 the coincidence (critical) frequency, modal density, modes in band, modal overlap (with
 ``--loss-factor``, default the material's), bending wavelength, radiation efficiency, the
 two-room SEA transmission loss and, with a treatment option, the treatment's columns;
-``--csv FILE`` writes the same table.
+``--csv FILE`` writes the same table. Materials, fluids, treatments and the panel table are
+reached through the lazy package attributes of :mod:`seatool`.
 """
 
 from __future__ import annotations
@@ -15,27 +16,21 @@ import math
 from pathlib import Path
 from typing import Any
 
-import pandas as pd
+import seatool
 
-from .analysis.panel import (
-    DEFAULT_REVERBERATION_TIME,
-    DEFAULT_ROOM_VOLUMES,
-    PanelSpec,
-    panel_table,
-)
-from .bands import BandAxis, BandError
-from .errors import InputError, Problem, closest
-from .materials import Material, load_fluids, load_materials
-from .treatments import load_treatments
+from ..errors import InputError, Problem, closest
+from ._common import Command, print_caution
 
-__all__ = ["add_commands", "render", "spec_from_args"]
+__all__ = ["PANEL", "render", "spec_from_args"]
 
 
 def _arguments(p: argparse.ArgumentParser) -> None:
+    defaults = seatool.analysis.panel
+    volumes, t60 = defaults.DEFAULT_ROOM_VOLUMES, defaults.DEFAULT_REVERBERATION_TIME
     p.add_argument(
         "--material",
         metavar="NAME",
-        help="built-in material (" + ", ".join(load_materials()) + "); properties given "
+        help="built-in material (" + ", ".join(seatool.materials.load_materials()) + "); properties given "
         "below replace the material's",
     )
     p.add_argument("--density", metavar="KG_M3", help="density [kg/m^3]")
@@ -53,7 +48,7 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         "--fluid",
         metavar="NAME",
         default="air",
-        help="fluid for the coincidence frequency (" + ", ".join(load_fluids()) + "; default air)",
+        help="fluid for the coincidence frequency (" + ", ".join(seatool.materials.load_fluids()) + "; default air)",
     )
     p.add_argument("--lowest", metavar="HZ", default="50", help="lowest band centre (default 50)")
     p.add_argument(
@@ -71,16 +66,16 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         metavar=("V1", "V2"),
         default=None,
         help="volumes of the source and receiving rooms of the transmission-loss model "
-        f"[m^3] (default {DEFAULT_ROOM_VOLUMES[0]:g} {DEFAULT_ROOM_VOLUMES[1]:g})",
+        f"[m^3] (default {volumes[0]:g} {volumes[1]:g})",
     )
     p.add_argument(
         "--room-reverberation-time",
         metavar="S",
         default=None,
         help="reverberation time of both rooms [s] "
-        f"(default {DEFAULT_REVERBERATION_TIME:g})",
+        f"(default {t60:g})",
     )
-    library = load_treatments()
+    library = seatool.treatments.load_treatments()
     g = p.add_argument_group("treatment")
     g.add_argument(
         "--damping-layer",
@@ -124,11 +119,13 @@ def _num(
     return x
 
 
-def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
+def spec_from_args(
+    args: argparse.Namespace,
+) -> tuple[seatool.analysis.panel.PanelSpec, seatool.BandAxis]:
     """Validate the options of ``seatool panel``; raises InputError (one line per problem)."""
     problems: list[Problem] = []
-    mats = load_materials()
-    base: Material | None = None
+    mats = seatool.materials.load_materials()
+    base: seatool.materials.Material | None = None
     if args.material is not None:
         if args.material not in mats:
             hint = closest(args.material, mats) or f" (known: {', '.join(mats)})"
@@ -150,7 +147,7 @@ def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
     eta = _num(problems, args.loss_factor, "--loss-factor")
     lo = _num(problems, args.lowest, "--lowest")
     hi = _num(problems, args.highest, "--highest")
-    fluids = load_fluids()
+    fluids = seatool.materials.load_fluids()
     fluid = fluids.get(args.fluid)
     if fluid is None:
         hint = closest(args.fluid, fluids) or f" (known: {', '.join(fluids)})"
@@ -169,7 +166,7 @@ def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
             problems.append(
                 Problem("", "--material", "give a material name or " + ", ".join(missing))
             )
-    material: Material | None = None
+    material: seatool.materials.Material | None = None
     if not problems:
         changes = {
             k: v
@@ -180,23 +177,24 @@ def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
             material = base.replace(**changes) if changes else base
         else:
             assert rho is not None and e is not None and nu is not None
-            material = Material("command line", rho, e, nu, 0.0, source="command line")
+            material = seatool.materials.Material("command line", rho, e, nu, 0.0, source="command line")
         if eta is None:
             eta = material.loss_factor
             if eta <= 0:
                 problems.append(Problem("", "--loss-factor", "needed (the material has none)"))
-    bands: BandAxis | None = None
+    bands: seatool.BandAxis | None = None
     if lo is not None and hi is not None:
         try:
-            bands = BandAxis.from_range(lo, hi, "octave" if args.octave else "third-octave")
-        except BandError as exc:
+            bands = seatool.BandAxis.from_range(lo, hi, "octave" if args.octave else "third-octave")
+        except seatool.bands.BandError as exc:
             problems.append(Problem("", "--lowest/--highest", str(exc)))
-    vols: tuple[float, float] = DEFAULT_ROOM_VOLUMES
+    defaults = seatool.analysis.panel
+    vols: tuple[float, float] = defaults.DEFAULT_ROOM_VOLUMES
     if args.room_volumes is not None:
         got = [_positive(problems, v, "--room-volumes") for v in args.room_volumes]
         if got[0] is not None and got[1] is not None:
             vols = (got[0], got[1])
-    t60 = DEFAULT_REVERBERATION_TIME
+    t60 = defaults.DEFAULT_REVERBERATION_TIME
     if args.room_reverberation_time is not None:
         t60 = _positive(problems, args.room_reverberation_time, "--room-reverberation-time") or t60
     cover: tuple[str, float] | None = None
@@ -214,7 +212,7 @@ def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
         raise InputError(problems)
     assert material is not None and h is not None and lx is not None and ly is not None
     assert eta is not None and fluid is not None and bands is not None
-    spec = PanelSpec(
+    spec = seatool.PanelSpec(
         material,
         h,
         lx,
@@ -261,8 +259,9 @@ _FORMATS = {
 }
 
 
-def render(spec: PanelSpec, table: pd.DataFrame, bands: BandAxis) -> str:
-    """Text version of :func:`panel_table` with a header naming the panel."""
+def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
+    """Text version of :func:`seatool.analysis.panel.panel_table` with a header naming the
+    panel."""
     m = spec.material
     lines = [
         f"panel: {m.name}, h = {spec.thickness:g} m, {spec.lx:g} x {spec.ly:g} m "
@@ -287,35 +286,27 @@ def render(spec: PanelSpec, table: pd.DataFrame, bands: BandAxis) -> str:
 
 
 def _handler(args: argparse.Namespace) -> int:
-    from .plot import plot_target
-    from .results import CAUTION, write_csv
-
-    plot_path = plot_target(args.plot)
+    plot_path = seatool.plot.plot_target(args.plot)
     spec, bands = spec_from_args(args)
     try:
-        table = panel_table(spec, bands)
+        table = seatool.panel_table(spec, bands)
     except InputError as exc:
         raise _as_options(exc) from None
     print(render(spec, table, bands))
     if args.csv:
-        write_csv(table, args.csv)
+        seatool.results.write_csv(table, args.csv)
         print(f"wrote {args.csv}")
     if plot_path is not None:
-        from .plot import plot_panel
-
-        plot_panel(table, bands, plot_path, title=render(spec, table, bands).splitlines()[0])
+        title = render(spec, table, bands).splitlines()[0]
+        seatool.plot.plot_panel(table, bands, plot_path, title=title)
         print(f"wrote {plot_path}")
-    print()
-    print("Caution: " + CAUTION)
+    print_caution()
     return 0
 
 
-def add_commands(registry: dict[str, Any]) -> None:
-    """Register ``seatool panel`` (called by :mod:`seatool.cli`)."""
-    from .cli import Command
-
-    registry["panel"] = Command(
-        help="band-by-band properties of one flat panel (coincidence, modes, overlap)",
-        arguments=_arguments,
-        handler=_handler,
-    )
+PANEL = Command(
+    "panel",
+    help="band-by-band properties of one flat panel (coincidence, modes, overlap)",
+    arguments=_arguments,
+    handler=_handler,
+)
