@@ -323,3 +323,5 @@ def main(argv: Sequence[str] | None = None) -> int:
             file=sys.stderr,
         )
         return EXIT_INTERNAL
+    finally:
+        set_quiet(False)  # the switch lasts one run (main may be called again in-process)
