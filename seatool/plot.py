@@ -295,8 +295,9 @@ def plot_receiver_levels(
             weak |= w
     _shade_weak(ax, bands, weak)
     _band_axis(ax, bands)
-    ref = refs[idx[receivers[0]]] if receivers else ""
-    ax.set_ylabel(f"sound pressure level [dB {ref}]")
+    _, quantity, _ = result.level_array()
+    first = idx[receivers[0]] if receivers else 0
+    ax.set_ylabel(f"{_QUANTITY_LABEL.get(quantity[first], 'level')} [dB {refs[first]}]")
     ax.set_title("Receiver levels per band", loc="left", fontsize=11)
     ax.legend(fontsize=8, ncol=2, loc="best", framealpha=0.9)
     _save(fig, out, fmt)

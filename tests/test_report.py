@@ -235,3 +235,21 @@ def test_figures_of_the_commands(tmp_path, capsys, argv):
     assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     assert main([*argv, "--plot", str(tmp_path / "figure.gif")]) == 2
     assert "use a .png, .pdf or .svg" in capsys.readouterr().err
+
+
+def test_a_structure_as_receiver(tmp_path):
+    """A plate chosen with --to: velocity levels only, labelled as such; the sink is refused."""
+    import base64
+    import re
+
+    out = tmp_path / "floor.html"
+    assert main(["report", RAIL, "-o", str(out), "--to", "floor", "--quiet"]) == 0
+    html = out.read_text(encoding="utf-8")
+    first = re.search(r"data:image/svg\+xml;base64,([A-Za-z0-9+/=]+)", html)
+    assert first is not None
+    assert "velocity level" in base64.b64decode(first.group(1)).decode("utf-8")
+    data = json.loads(out.with_suffix(".json").read_text(encoding="utf-8"))
+    assert data["receivers"] == ["floor"]
+    assert main(["report", RAIL, "-o", str(tmp_path / "x.html"), "--to", "outside",
+                 "--quiet"]) == 2  # fmt: skip
+    assert not (tmp_path / "x.html").exists()

@@ -268,7 +268,10 @@ def collect(
     receivers = default_receivers(model)
     if receiver is not None:
         _check_choice(file, "--to", receiver, model.names)
-        receivers = [receiver, *[r for r in receivers if r != receiver]]
+        same = model.subsystem(receiver).quantity  # one kind of level per figure and table
+        receivers = [receiver] + [
+            r for r in receivers if r != receiver and model.subsystem(r).quantity == same
+        ]
     if not receivers:
         raise InputError(
             [Problem(file, "--to", "the model has no cavity; name the receiving subsystem")]
