@@ -121,3 +121,16 @@ def test_sections_images_and_markup_as_text(hostile_report: Path) -> None:
     assert "<script>alert" not in dom
     assert "<img src=x" not in dom
     assert _console(run.stderr) == []
+
+
+def test_prints_on_a4(hostile_report: Path) -> None:
+    """The print style sets A4 pages (595 x 842 pt, ISO 216) in the browser's PDF output."""
+    tmp = hostile_report.parent
+    pdf = tmp / "report.pdf"
+    _chromium(tmp, "--no-pdf-header-footer", f"--print-to-pdf={pdf}", hostile_report.as_uri())
+    data = pdf.read_bytes()
+    assert data[:5] == b"%PDF-"
+    boxes = re.findall(rb"/MediaBox\s*\[\s*0\s+0\s+([\d.]+)\s+([\d.]+)\s*\]", data)
+    assert boxes, "no page in the PDF"
+    for w, h in boxes:
+        assert abs(float(w) - 595.3) < 1.5 and abs(float(h) - 841.9) < 1.5
