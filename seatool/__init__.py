@@ -39,6 +39,8 @@ if TYPE_CHECKING:  # what __getattr__ returns, for type checkers and readers
     from . import model as model
     from . import modelfile as modelfile
     from . import plot as plot
+    from . import progress as progress
+    from . import report as report
     from . import results as results
     from . import solve as solve
     from .analysis.panel import PanelSpec, panel_table
@@ -126,6 +128,14 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.solve as solve
 
         return solve
+    if name == "progress":
+        import seatool.progress as progress
+
+        return progress
+    if name == "report":
+        import seatool.report as report
+
+        return report
     if name == "model_summary":
         import seatool.summary as summary
 

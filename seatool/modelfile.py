@@ -21,6 +21,7 @@ from typing import Any
 
 import numpy as np
 
+from . import progress
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
 from .kinds.media import FLUID_PARAMS
@@ -268,7 +269,7 @@ def _read_connections(
     t = rd.table(data, "connections")
     if t is None:
         return out
-    for name, spec in t.items():
+    for name, spec in progress.bar(t.items(), desc="deriving connections", total=len(t)):
         path = f"connections.{name}"
         s = rd.table(spec, path)
         if s is None:

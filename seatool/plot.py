@@ -2,23 +2,36 @@
 
 Band levels are drawn as steps over the band edges (one flat segment per band), on a
 logarithmic frequency axis labelled with the nominal band centres; every axis names its
-reference. Bands where SEA validity is weak for a subsystem are drawn dashed.
+reference. Bands where SEA validity is weak are hatched grey spans with their own legend
+entry; every figure carries the caution in its footer.
 """
 
 from __future__ import annotations
 
 import os
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from pathlib import Path
-from typing import Any
+from typing import IO, Any
 
+import networkx as nx
 import numpy as np
 
 from .errors import InputError, Problem
 from .levels import CAUTION, power_level
 from .results import Result
 
-__all__ = ["PLOT_SUFFIXES", "plot_contributions", "plot_levels", "plot_target"]
+__all__ = [
+    "PALETTE",
+    "PLOT_SUFFIXES",
+    "plot_contributions",
+    "plot_energy_flow",
+    "plot_levels",
+    "plot_panel",
+    "plot_receiver_levels",
+    "plot_sensitivity",
+    "plot_spread",
+    "plot_target",
+]
 
 #: File types a figure can be written as.
 PLOT_SUFFIXES = (".png", ".pdf", ".svg")
@@ -85,15 +98,16 @@ def plot_levels(
     )
     edges = np.append(bands.lower, bands.upper[-1])
     for ax, (q, members) in zip(axes[:, 0], groups.items(), strict=True):
-        for n in members:
+        weak_any = np.zeros(len(bands), dtype=bool)
+        for k, n in enumerate(members):
             i = idx[n]
             y = np.append(lv[i], lv[i][-1])
-            (line,) = ax.step(edges, y, where="post", label=n, linewidth=1.6)
+            ax.step(edges, y, where="post", label=n, linewidth=1.6,
+                    color=PALETTE[k % len(PALETTE)])  # fmt: skip
             bad = weak.get(n)
-            if bad is not None and bad.any():
-                yb = np.where(np.append(bad, bad[-1]), y, np.nan)
-                ax.step(edges, yb, where="post", color=line.get_color(), linewidth=3.0,
-                        alpha=0.35)  # fmt: skip
+            if bad is not None:
+                weak_any |= bad
+        _shade_weak(ax, bands, weak_any)
         ax.set_xscale("log")
         ax.set_ylabel(f"{_QUANTITY_LABEL.get(q, q)} [dB {refs[idx[members[0]]]}]")
         ax.grid(True, which="both", alpha=0.3)
@@ -107,9 +121,9 @@ def plot_levels(
     ax_last.minorticks_off()
     ax_last.set_xlabel(f"{bands.kind} band")
     title = model.title or "band levels"
-    axes[0, 0].set_title(title + "\n(wide pale segments: bands where SEA validity is weak)",
-                         fontsize=10)  # fmt: skip
-    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    axes[0, 0].set_title(title + "\n(hatched: bands where SEA validity is weak for a subsystem "
+                         "of that panel)", fontsize=10)  # fmt: skip
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
     fig.savefig(out, dpi=130)
@@ -155,16 +169,15 @@ def plot_contributions(
     else:
         y = lv[r]
         ax1.set_ylabel(f"level [dB {refs[r]}]")
-    ax1.step(edges, np.append(y, y[-1]), where="post", color="black", linewidth=1.6)
+    ax1.step(edges, np.append(y, y[-1]), where="post", color=PALETTE[0], linewidth=1.6)
     bottom = np.zeros(len(bands))
-    for s, share in zip(sources, shares, strict=True):
+    for k, (s, share) in enumerate(zip(sources, shares, strict=True)):
         pct = 100 * np.nan_to_num(share)
         ax2.bar(bands.lower, pct, width=bands.width, bottom=bottom, align="edge", label=s,
-                edgecolor="white", linewidth=0.5)  # fmt: skip
+                edgecolor="white", linewidth=0.5, color=PALETTE[k % len(PALETTE)])  # fmt: skip
         bottom = bottom + pct
     for ax in (ax1, ax2):
-        for j in np.flatnonzero(~valid):
-            ax.axvspan(bands.lower[j], bands.upper[j], color="grey", alpha=0.15, linewidth=0)
+        _shade_weak(ax, bands, ~valid, label=ax is ax1)
         ax.set_xscale("log")
         ax.grid(True, which="both", alpha=0.3)
     ax2.set_ylim(0, 100)
@@ -176,10 +189,280 @@ def plot_contributions(
                         ha="right", fontsize=8)  # fmt: skip
     ax2.minorticks_off()
     ax1.set_title(f"{model.title or 'model'}: sources of {receiver}\n"
-                  "(shaded: bands where the receiver's SEA validity is weak)", fontsize=10)  # fmt: skip
-    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+                  "(hatched: bands where the receiver's SEA validity is weak)", fontsize=10)  # fmt: skip
+    if (~valid).any():
+        ax1.legend(fontsize=8, loc="upper right", framealpha=0.9)
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
     fig.savefig(out, dpi=130)
     plt.close(fig)
     return out
+
+
+# -- report figures -------------------------------------------------------------------------
+#
+# One look for every figure of a report: a muted palette of our own (slate, teal, ochre,
+# brick, plum, moss, ...), a light grid, band levels as steps over the band edges, weak-SEA
+# bands as hatched grey spans with their own legend entry, the caution in the footer.
+
+#: Colours of the report figures, in the order series are drawn.
+PALETTE = (
+    "#2f4858", "#1b8a8f", "#d08c2c", "#a8423a", "#7a5c99", "#5f7f3a",
+    "#c46a9a", "#3f6fb0", "#8a6d3b", "#4d4d4d",
+)  # fmt: skip
+# Opaque face (a transparent face would fade the hatch too in SVG), drawn under the data.
+_WEAK = {"facecolor": "#e4e8ea", "hatch": "///", "edgecolor": "#7d8a92", "zorder": 0}
+_WEAK_LABEL = "SEA weak in this band (few modes or low modal overlap)"
+
+Output = str | os.PathLike[str] | IO[bytes]
+
+
+def _save(fig: Any, out: Output, fmt: str | None) -> None:
+    plt = _pyplot()
+    fig.text(0.01, 0.006, "Caution: " + CAUTION, fontsize=7, wrap=True, color="#444444")
+    fig.tight_layout(rect=(0, 0.045, 1, 1))
+    fig.savefig(out, format=fmt, dpi=130)
+    plt.close(fig)
+
+
+def _new(figsize: tuple[float, float], rows: int = 1) -> tuple[Any, Any]:
+    plt = _pyplot()
+    with plt.rc_context({"svg.fonttype": "none", "font.size": 9}):
+        fig, axes = plt.subplots(rows, 1, figsize=figsize, squeeze=False, sharex=True)
+    for ax in axes[:, 0]:
+        ax.set_facecolor("#fbfaf7")
+        ax.grid(True, which="major", color="#d9d6cf", linewidth=0.6)
+        for side in ("top", "right"):
+            ax.spines[side].set_visible(False)
+    return fig, axes[:, 0]
+
+
+def _band_axis(ax: Any, bands: Any) -> None:
+    ax.set_xscale("log")
+    step = max(1, len(bands) // 12)
+    ax.set_xticks(bands.centre[::step])
+    ax.set_xticklabels([bands.label(k) for k in range(len(bands))][::step], rotation=45,
+                       ha="right", fontsize=8)  # fmt: skip
+    ax.minorticks_off()
+    ax.set_xlim(bands.lower[0], bands.upper[-1])
+    ax.set_xlabel(f"{bands.kind} band")
+
+
+def _shade_weak(
+    ax: Any, bands: Any, weak: np.ndarray, *, label: bool = True, text: str = _WEAK_LABEL
+) -> None:
+    first = label
+    for j in np.flatnonzero(weak):
+        ax.axvspan(bands.lower[j], bands.upper[j], linewidth=0,
+                   label=text if first else None, **_WEAK)  # fmt: skip
+        first = False
+
+
+def _steps(bands: Any, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    return np.append(bands.lower, bands.upper[-1]), np.append(y, y[-1])
+
+
+def plot_receiver_levels(
+    result: Result,
+    receivers: Sequence[str],
+    out: Output,
+    *,
+    limits: Mapping[str, np.ndarray] | None = None,
+    fmt: str | None = None,
+) -> None:
+    """Band levels of the receivers, weak-SEA bands hatched, limits dashed where given.
+
+    ``limits`` maps a receiver to its per-band limit [dB, same reference] (NaN: none).
+    Bands are hatched where any shown receiver is weak.
+    """
+    model = result.model
+    bands = model.bands
+    lv, _, refs = result.level_array()
+    idx = model.index()
+    weak_by = _weak_bands(result)
+    fig, (ax,) = _new((8.0, 4.4))
+    weak = np.zeros(len(bands), dtype=bool)
+    for k, name in enumerate(receivers):
+        i = idx[name]
+        colour = PALETTE[k % len(PALETTE)]
+        ax.step(*_steps(bands, lv[i]), where="post", color=colour, linewidth=1.8, label=name)
+        if limits is not None and name in limits:
+            ax.step(*_steps(bands, np.asarray(limits[name], dtype=float)), where="post",
+                    color=colour, linewidth=1.2, linestyle="--", label=f"{name}: limit")  # fmt: skip
+        w = weak_by.get(name)
+        if w is not None:
+            weak |= w
+    _shade_weak(ax, bands, weak)
+    _band_axis(ax, bands)
+    _, quantity, _ = result.level_array()
+    first = idx[receivers[0]] if receivers else 0
+    ax.set_ylabel(f"{_QUANTITY_LABEL.get(quantity[first], 'level')} [dB {refs[first]}]")
+    ax.set_title("Receiver levels per band", loc="left", fontsize=11)
+    ax.legend(fontsize=8, ncol=2, loc="best", framealpha=0.9)
+    _save(fig, out, fmt)
+
+
+def plot_energy_flow(
+    result: Result,
+    out: Output,
+    *,
+    band: int | None = None,
+    highlight: Sequence[str] = (),
+    fmt: str | None = None,
+) -> None:
+    """The subsystem graph with arrows along the net power flow of each connection.
+
+    Arrow width and opacity grow with the square root of the net power in band ``band``
+    (index) or, by default, summed over the bands; ``highlight`` is a path (subsystem
+    names in order) drawn in a strong colour, e.g. the dominant path into the receiver.
+    Node colour says what a subsystem is (cavity, structure, exterior); nodes fed by an
+    excitation get a heavy outline. Layout: networkx's Kamada-Kawai placement of the
+    undirected graph (deterministic).
+    """
+    model = result.model
+    power = result.solution.connection_power
+    p = power.sum(axis=1) if band is None else power[:, band]
+    g = nx.Graph()
+    g.add_nodes_from(model.names)
+    for c in model.connections:
+        g.add_edge(c.a, c.b)
+    pos = nx.kamada_kawai_layout(g) if g.number_of_edges() else nx.circular_layout(g)
+    n = len(model.names)
+    fig, (ax,) = _new((9.0, 7.0 if n < 30 else 9.5))
+    ax.grid(False)
+    ax.set_xticks([])
+    ax.set_yticks([])
+    for side in ("left", "bottom"):
+        ax.spines[side].set_visible(False)
+    pmax = float(np.max(np.abs(p))) if len(p) and np.max(np.abs(p)) > 0 else 1.0
+    on_path = {(a, b) for a, b in zip(highlight, highlight[1:], strict=False)}
+    for c, pc in zip(model.connections, p, strict=True):
+        a, b = (c.a, c.b) if pc >= 0 else (c.b, c.a)
+        rel = float(np.sqrt(abs(pc) / pmax))  # width by the square root: big flows stand out
+        width = 0.3 + 7.0 * rel
+        hot = (a, b) in on_path
+        width = max(width, 3.0) if hot else width
+        ax.annotate(
+            "", xy=pos[b], xytext=pos[a],
+            arrowprops={"arrowstyle": "-|>", "lw": width, "shrinkA": 9, "shrinkB": 9,
+                        "color": PALETTE[3] if hot else "#6f7f8a",
+                        "alpha": 1.0 if hot else 0.2 + 0.7 * rel,
+                        "mutation_scale": 8 + 1.5 * width},
+            zorder=3 if hot else 2,
+        )  # fmt: skip
+    fed = {e.subsystem for e in model.excitations}
+    for s in model.subsystems:
+        colour = "#e9e4d8" if s.sink else (PALETTE[1] if s.quantity == "sound_pressure"
+                                           else PALETTE[0])  # fmt: skip
+        x, y = pos[s.name]
+        ax.scatter([x], [y], s=110 if n < 30 else 70, color=colour, zorder=4,
+                   edgecolors=PALETTE[2] if s.name in fed else "white",
+                   linewidths=2.5 if s.name in fed else 1.0)  # fmt: skip
+        ax.annotate(s.name, (x, y), xytext=(0, 7), textcoords="offset points", ha="center",
+                    fontsize=8 if n < 30 else 6.5, zorder=5, color="#222222")  # fmt: skip
+    plt = _pyplot()
+    handles = [
+        plt.Line2D([], [], marker="o", linestyle="", color=PALETTE[1], label="cavity"),
+        plt.Line2D([], [], marker="o", linestyle="", color=PALETTE[0], label="structure"),
+        plt.Line2D([], [], marker="o", linestyle="", color="#e9e4d8", label="exterior"),
+        plt.Line2D([], [], marker="o", linestyle="", color="white", markeredgecolor=PALETTE[2],
+                   markeredgewidth=2.5, label="excited"),  # fmt: skip
+        plt.Line2D([], [], color="#7d8c96", linewidth=3, label="net power (width grows as its square root)"),
+    ]
+    if highlight:
+        handles.append(plt.Line2D([], [], color=PALETTE[3], linewidth=3, label="dominant path"))
+    ax.legend(handles=handles, fontsize=8, loc="lower left", framealpha=0.9)
+    where = "summed over the bands" if band is None else f"in the {model.bands.label(band)} band"
+    ax.set_title(f"Energy flow: net power through each connection, {where} "
+                 f"(widest = {pmax:.3g} W)", loc="left", fontsize=11)  # fmt: skip
+    _save(fig, out, fmt)
+
+
+def plot_sensitivity(ranking: Any, receiver: str, out: Output, *, top: int = 12,
+                     fmt: str | None = None) -> None:  # fmt: skip
+    """Horizontal bars of the largest overall sensitivities [dB per dB] of a receiver.
+
+    ``ranking`` is :func:`seatool.analysis.sensitivity.ranking`'s table; the ``top``
+    parameters with the largest magnitude are drawn, largest on top, positive to the
+    right (the level rises with the parameter).
+    """
+    t = ranking.head(top).iloc[::-1]
+    fig, (ax,) = _new((8.0, 0.9 + 0.32 * max(len(t), 3)))
+    vals = t["overall_db_per_db"].to_numpy(dtype=float)
+    colours = [PALETTE[3] if v > 0 else PALETTE[1] for v in vals]
+    ax.barh(np.arange(len(t)), vals, color=colours, height=0.65)
+    ax.set_yticks(np.arange(len(t)))
+    ax.set_yticklabels(list(t["parameter"]), fontsize=8)
+    ax.axvline(0.0, color="#444444", linewidth=0.8)
+    ax.set_xlabel(f"change of the overall level of {receiver} [dB per dB of the parameter]")
+    ax.set_title(f"Largest sensitivities of {receiver}", loc="left", fontsize=11)
+    _save(fig, out, fmt)
+
+
+def plot_spread(
+    table: Any, receiver: str, bands: Any, out: Output, *, fmt: str | None = None
+) -> None:
+    """The 5-95 % band and median of a receiver's Monte Carlo levels, nominal level on top.
+
+    ``table`` is :meth:`seatool.analysis.uncertainty.Spread.table`; bands where the
+    receiver's SEA validity is weak are hatched.
+    """
+    t = table[table["subsystem"] == receiver].set_index("band_hz").reindex(bands.nominal)
+    fig, (ax,) = _new((8.0, 4.2))
+    x, lo = _steps(bands, t["p5_dB"].to_numpy(dtype=float))
+    _, hi = _steps(bands, t["p95_dB"].to_numpy(dtype=float))
+    ax.fill_between(x, lo, hi, step="post", color=PALETTE[1], alpha=0.3, linewidth=0,
+                    label="5 % to 95 % of the samples")  # fmt: skip
+    ax.step(*_steps(bands, t["p50_dB"].to_numpy(dtype=float)), where="post", color=PALETTE[1],
+            linewidth=1.4, label="median (50 %)")  # fmt: skip
+    ax.step(*_steps(bands, t["nominal_dB"].to_numpy(dtype=float)), where="post",
+            color=PALETTE[0], linewidth=1.8, linestyle="--", label="nominal")  # fmt: skip
+    _shade_weak(ax, bands, ~t["valid"].to_numpy(dtype=bool))
+    _band_axis(ax, bands)
+    ref = str(t["level_ref"].dropna().iloc[0]) if t["level_ref"].notna().any() else ""
+    ax.set_ylabel(f"level [dB {ref}]")
+    ax.set_title(f"Spread of {receiver} (Monte Carlo, {int(t['samples'].iloc[0])} samples)",
+                 loc="left", fontsize=11)  # fmt: skip
+    ax.legend(fontsize=8, loc="best", framealpha=0.9)
+    _save(fig, out, fmt)
+
+
+def plot_panel(table: Any, bands: Any, out: Output, *, title: str = "panel",
+               fmt: str | None = None) -> None:  # fmt: skip
+    """The quick look at one panel: transmission loss and radiation efficiency per band.
+
+    ``table`` is :func:`seatool.analysis.panel.panel_table`'s. Upper panel: the SEA
+    two-room transmission loss (and the trim's insertion loss where the table has it);
+    lower panel: the radiation efficiency (log scale). Hatched: bands with fewer than one
+    mode of the panel (SEA weak whatever the damping; the modal overlap of a panel alone,
+    with its material damping only, says little about the panel once it is built in);
+    dotted line: the coincidence frequency.
+    """
+    t = table.set_index("band_hz").reindex(bands.nominal)
+    fig, (ax1, ax2) = _new((8.0, 6.0), rows=2)
+    weak = (t["modes_in_band"] < 1.0).to_numpy(dtype=bool)
+    if "transmission_loss_sea_dB" in t:
+        ax1.step(*_steps(bands, t["transmission_loss_sea_dB"].to_numpy(dtype=float)),
+                 where="post", color=PALETTE[0], linewidth=1.8,
+                 label="transmission loss (SEA, two rooms)")  # fmt: skip
+    if "trim_insertion_loss_dB" in t:
+        ax1.step(*_steps(bands, t["trim_insertion_loss_dB"].to_numpy(dtype=float)),
+                 where="post", color=PALETTE[2], linewidth=1.5, label="trim insertion loss")  # fmt: skip
+    ax1.set_ylabel("[dB]")
+    ax2.step(*_steps(bands, t["radiation_efficiency"].to_numpy(dtype=float)), where="post",
+             color=PALETTE[1], linewidth=1.8, label="radiation efficiency")  # fmt: skip
+    ax2.set_yscale("log")
+    ax2.set_ylabel("radiation efficiency [-]")
+    fc = float(t["critical_frequency_hz"].iloc[0])
+    for ax in (ax1, ax2):
+        _shade_weak(ax, bands, weak, label=ax is ax1,
+                    text="fewer than one panel mode per band (SEA weak)")  # fmt: skip
+        if bands.lower[0] <= fc <= bands.upper[-1]:
+            ax.axvline(fc, color="#444444", linestyle=":", linewidth=1.0,
+                       label=f"coincidence {fc:.0f} Hz" if ax is ax1 else None)  # fmt: skip
+        _band_axis(ax, bands)
+    ax1.set_xlabel("")
+    ax1.legend(fontsize=8, loc="best", framealpha=0.9)
+    ax1.set_title(title, loc="left", fontsize=11)
+    _save(fig, out, fmt)

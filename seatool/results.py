@@ -7,6 +7,7 @@ their units.
 
 from __future__ import annotations
 
+import html
 import os
 import tempfile
 from dataclasses import dataclass
@@ -23,7 +24,15 @@ from .model import Model, Subsystem
 from .solve import Solution, solve
 from .validity_report import validity_table, weak_band_notes
 
-__all__ = ["CAUTION", "Result", "run", "subsystem_level", "write_text_atomic"]
+__all__ = [
+    "CAUTION",
+    "Result",
+    "csv_text",
+    "run",
+    "subsystem_level",
+    "write_csv",
+    "write_text_atomic",
+]
 
 Array = npt.NDArray[np.float64]
 
@@ -56,6 +65,20 @@ def write_text_atomic(path: str | os.PathLike[str], text: str) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+
+
+def csv_text(table: pd.DataFrame) -> str:
+    """A table as CSV text whose first line is the caution, as a ``#`` comment.
+
+    The caution travels with the numbers: a spreadsheet shows it as the first row, and
+    ``pandas.read_csv(path, comment="#")`` (or ``skiprows=1``) skips it.
+    """
+    return "# Caution: " + CAUTION + "\n" + table.to_csv(index=False, float_format="%.10g")
+
+
+def write_csv(table: pd.DataFrame, path: str | os.PathLike[str]) -> None:
+    """Write :func:`csv_text` of ``table`` to ``path`` atomically."""
+    write_text_atomic(path, csv_text(table))
 
 
 @dataclass(frozen=True)
@@ -221,8 +244,8 @@ class Result:
 
     # -- output ------------------------------------------------------------------------
     def to_csv(self, path: str | os.PathLike[str]) -> None:
-        """Write :meth:`table` to ``path`` atomically (no half-written file on failure)."""
-        write_text_atomic(path, self.table().to_csv(index=False, float_format="%.10g"))
+        """Write :meth:`table` to ``path`` atomically, the caution first (:func:`csv_text`)."""
+        write_csv(self.table(), path)
 
     def render(
         self, names: list[str] | None = None, *, digits: int = 1, caution: bool = True
@@ -284,8 +307,8 @@ class Result:
 
     def _repr_html_(self) -> str:
         w = self.wide().round(1)
-        title = f"<b>{self.model.title}</b>" if self.model.title else ""
-        return title + w.to_html() + f"<p><small>{CAUTION}</small></p>"
+        title = f"<b>{html.escape(self.model.title)}</b>" if self.model.title else ""
+        return title + w.to_html(escape=True) + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
 
 
 def run(model: Model) -> Result:

@@ -27,11 +27,11 @@ def test_paths_command(tmp_path, capsys):
     text = capsys.readouterr().out
     assert code == 0
     assert "enclosure_air > workshop_air" in text and "Caution" in text
-    p = pd.read_csv(out)
+    p = pd.read_csv(out, comment="#")
     assert {"source", "path", "band_hz", "share", "rank", "valid"} <= set(p.columns)
     assert p.groupby("band_hz")["share"].sum().sub(1).abs().max() < 1e-9
-    assert set(pd.read_csv(cp)["connection"]) == {"walls_outside", "mass_law", "(input)"}
-    assert set(pd.read_csv(con)["source"]) == {"compressor"}
+    assert set(pd.read_csv(cp, comment="#")["connection"]) == {"walls_outside", "mass_law", "(input)"}
+    assert set(pd.read_csv(con, comment="#")["source"]) == {"compressor"}
 
 
 def test_sensitivity_command(tmp_path, capsys):
@@ -41,7 +41,7 @@ def test_sensitivity_command(tmp_path, capsys):
     text = capsys.readouterr().out
     assert code == 0
     assert "power:compressor" in text and "subsystems.workshop_air.volume" in text
-    t = pd.read_csv(out)
+    t = pd.read_csv(out, comment="#")
     vol = t[t["parameter"] == "subsystems.workshop_air.volume"]
     # <p^2> = rho c^2 E / V with the damping given: exactly -1 dB per dB (levels.py)
     assert (vol["db_per_db"] + 1).abs().max() < 1e-6
@@ -56,7 +56,7 @@ def test_spread_command(tmp_path, capsys):
     text = capsys.readouterr().out
     assert code == 0
     assert "200 samples (seed 3" in text and "walls" in text
-    t = pd.read_csv(out)
+    t = pd.read_csv(out, comment="#")
     assert {"p5_dB", "p50_dB", "p95_dB", "nominal_dB", "valid"} <= set(t.columns)
     w = t[t["subsystem"] == "walls"]
     assert (w["p95_dB"] > w["p5_dB"]).all()

@@ -31,7 +31,7 @@ def test_solve_prints_band_table(capsys):
 def test_csv_columns(tmp_path, capsys):
     out = tmp_path / "levels.csv"
     assert main(["solve", str(DEMO), "--csv", str(out)]) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     for col in ("subsystem", "band_hz", "energy_J", "level_dB", "level_ref"):
         assert col in df.columns
     m = seatool.load(DEMO)

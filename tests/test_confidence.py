@@ -158,7 +158,7 @@ def test_solve_csv_has_confidence_columns(tmp_path: Path) -> None:
 
     out = tmp_path / "r.csv"
     assert main(["solve", str(MODELS / "two_rooms.toml"), "--csv", str(out)]) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     assert {"level_p05_dB", "level_p50_dB", "level_p95_dB", "relative_variance"} <= set(df)
     assert np.all(df["level_p05_dB"] <= df["level_dB"]) and np.all(
         df["level_dB"] <= df["level_p95_dB"]

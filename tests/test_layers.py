@@ -38,6 +38,7 @@ MODULES = {
     "seatool.bands": "model",
     "seatool.errors": "model",
     "seatool.levels": "model",
+    "seatool.progress": "model",
     "seatool.loudness": "model",
     "seatool.metrics": "model",
     "seatool.properties": "model",
@@ -64,6 +65,7 @@ PACKAGES = {
     "seatool.physics": "physics",
     "seatool.kinds": "readers",
     "seatool.analysis": "analysis",
+    "seatool.report": "reports",
     "seatool.cli": "cli",
 }
 

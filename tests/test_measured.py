@@ -224,7 +224,7 @@ def test_command_writes_estimates(tmp_path: Path, capsys: pytest.CaptureFixture[
     assert "[connections.pane__receiving_room]" in text and 'kind = "given"' in text
     import pandas as pd
 
-    df = pd.read_csv(table)
+    df = pd.read_csv(table, comment="#")
     damp = df[(df["quantity"] == "damping") & (df["subsystem"] == "pane")]
     np.testing.assert_allclose(damp["loss_factor"], assemble(model).damping[1], rtol=1e-8)
     assert "power injection" in capsys.readouterr().out

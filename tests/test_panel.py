@@ -36,14 +36,14 @@ def test_coincidence_matches_long_table(tmp_path, capsys, material, fch):
     out = tmp_path / "p.csv"
     args = ["panel", "--material", material, "--thickness", "0.004", "--lx", "1", "--ly", "1"]
     assert main([*args, "--csv", str(out)]) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     assert df["critical_frequency_hz"].iloc[0] * 0.004 == pytest.approx(fch, rel=0.10)
 
 
 def test_bending_wavelength_equals_air_wavelength_at_coincidence(tmp_path, capsys):
     out = tmp_path / "p.csv"
     assert main([*ARGS, "--lowest", "1000", "--highest", "10000", "--csv", str(out)]) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     fc = df["critical_frequency_hz"].iloc[0]
     # lambda_B ~ f^(-1/2); interpolate at fc in log-log and compare with c0 / fc
     lam = np.exp(np.interp(np.log(fc), np.log(df["band_exact_hz"]), np.log(df["bending_wavelength_m"])))
@@ -55,7 +55,7 @@ def test_modes_in_band_against_exact_count(tmp_path, capsys):
     # (Cremer et al. 2005, sec. 7); 1-5 kHz total within 5 %
     out = tmp_path / "p.csv"
     assert main([*ARGS, "--lowest", "1000", "--highest", "5000", "--csv", str(out)]) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     e, rho, nu, h = 2.1e11, 7850.0, 0.3, 0.002
     k = 0.5 * math.pi * math.sqrt(e * h**3 / (12 * (1 - nu**2)) / (rho * h))
     i = np.arange(1, 300)
@@ -73,7 +73,7 @@ def test_loss_factor_option_and_properties_on_command_line(tmp_path, capsys):
             "0.24", "--thickness", "0.006", "--lx", "1.5", "--ly", "1.25", "--loss-factor",
             "0.02", "--lowest", "500", "--highest", "500", "--csv", str(out)]  # fmt: skip
     assert main(args) == 0
-    df = pd.read_csv(out)
+    df = pd.read_csv(out, comment="#")
     # M = eta f n(f) (Lyon & DeJong 1995) from the table's own n(f)
     assert df["modal_overlap"].iloc[0] == pytest.approx(
         0.02 * df["band_exact_hz"].iloc[0] * df["modal_density_per_hz"].iloc[0]
@@ -120,6 +120,6 @@ def test_python_function_gives_the_command_table(tmp_path, capsys):
     steel = load_materials()["steel"]
     spec = PanelSpec(steel, 0.002, 1.2, 0.8, steel.loss_factor, load_fluids()["air"])
     table = panel_table(spec, BandAxis.from_range(100, 1000))
-    got = pd.read_csv(out)
+    got = pd.read_csv(out, comment="#")
     assert list(got.columns) == list(table.columns)
     np.testing.assert_allclose(got.to_numpy(), table.to_numpy(), rtol=1e-9)

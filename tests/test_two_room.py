@@ -179,7 +179,7 @@ def test_panel_command_columns(tmp_path, capsys):
                  "2000", "--csv", str(out)])  # fmt: skip
     capsys.readouterr()
     assert code == 0
-    t = pd.read_csv(out)
+    t = pd.read_csv(out, comment="#")
     assert {"radiation_efficiency", "transmission_loss_sea_dB"} <= set(t.columns)
     r_vigran = 20 * np.log10(t["band_exact_hz"] * 7850 * 0.001) - 47.0
     assert np.all(np.abs(t["transmission_loss_sea_dB"] - r_vigran) < 3.0)

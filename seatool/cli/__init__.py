@@ -18,6 +18,7 @@ paths          :mod:`.analysis`      :func:`seatool.contributions`, :func:`seato
 sensitivity    :mod:`.analysis`      :func:`seatool.analysis.sensitivity.receiver_sensitivities`,
                                      :func:`seatool.ranking`
 spread         :mod:`.analysis`      :func:`seatool.spread`
+report         :mod:`.report`        :func:`seatool.report.write_report`
 =============  ====================  ===================================================
 
 Nothing below this package imports it. A command's options are set up only when that
@@ -37,7 +38,7 @@ import seatool
 from .._version import __version__
 from ..errors import InputError
 from ..levels import CAUTION
-from . import analysis, measured, model, panel
+from . import analysis, measured, model, panel, report
 from ._common import EXIT_INPUT, EXIT_INTERNAL, Command
 
 __all__ = ["COMMANDS", "main"]
@@ -51,6 +52,7 @@ COMMANDS: tuple[Command, ...] = (
     analysis.SENSITIVITY,
     analysis.SPREAD,
     measured.LOSS_FACTORS,
+    report.REPORT,
 )
 
 
@@ -72,6 +74,9 @@ def _parser(selected: str | None) -> argparse.ArgumentParser:
     )
     p.add_argument("--version", action="version", version=f"seatool {__version__}")
     p.add_argument("--debug", action="store_true", help="show a traceback on internal errors")
+    p.add_argument(
+        "--quiet", action="store_true", help="no progress bars (they show only on a terminal)"
+    )
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
     for cmd in COMMANDS:
         sp = sub.add_parser(
@@ -95,6 +100,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         parser.print_help()
         return EXIT_INPUT
     try:
+        if args.quiet:
+            seatool.progress.set_quiet(True)
         return int(args.handler(args))
     except InputError as exc:
         for p in exc.problems:
@@ -115,3 +122,5 @@ def main(argv: Sequence[str] | None = None) -> int:
             file=sys.stderr,
         )
         return EXIT_INTERNAL
+    finally:
+        seatool.progress.set_quiet(False)  # the switch lasts one run (main may run again)

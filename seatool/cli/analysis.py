@@ -27,8 +27,8 @@ VALIDITY_NOTE = (
 
 
 def _write_csv(table: Any, path: Any) -> None:
-    """Write a tidy table atomically (no half-written file on failure)."""
-    seatool.results.write_text_atomic(path, table.to_csv(index=False, float_format="%.10g"))
+    """Write a tidy table atomically, the caution on its first line."""
+    seatool.results.write_csv(table, path)
 
 
 def _load(path: str) -> tuple[dict[str, Any], str, Any, Any]:
@@ -157,10 +157,15 @@ def _sens_args(p: argparse.ArgumentParser) -> None:
     )
     p.add_argument("--csv", metavar="FILE", help="write the per-band sensitivity table to FILE")
     p.add_argument("--top", type=int, default=15, help="parameters listed (default 15)")
+    p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw the largest overall sensitivities to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
 
 
 def _cmd_sensitivity(args: argparse.Namespace) -> int:
     out = output_target(args.csv, "--csv")
+    plot_path = seatool.plot.plot_target(args.plot)
     params = [x.strip() for x in (args.params or "").split(",") if x.strip()]
     model, table = seatool.analysis.sensitivity.receiver_sensitivities(
         args.model, args.to, params
@@ -186,6 +191,9 @@ def _cmd_sensitivity(args: argparse.Namespace) -> int:
     if out is not None:
         _write_csv(table, out)
         print(f"wrote {out}")
+    if plot_path is not None:
+        seatool.plot.plot_sensitivity(rk, model.names[r], plot_path, top=args.top)
+        print(f"wrote {plot_path}")
     print_caution()
     return 0
 
@@ -199,17 +207,25 @@ def _spread_args(p: argparse.ArgumentParser) -> None:
     p.add_argument("--seed", type=int, default=0, help="random seed (default 0)")
     p.add_argument("--csv", metavar="FILE", help="write the per-band percentile table to FILE")
     p.add_argument("--show", metavar="NAMES", help="comma-separated subsystems to print")
+    p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw the 5-95 %% band of the first shown subsystem to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
 
 
 def _cmd_spread(args: argparse.Namespace) -> int:
     out = output_target(args.csv, "--csv")
+    plot_path = seatool.plot.plot_target(args.plot)
     data, file, base, model = _load(args.model)
     names = [s.name for s in model.subsystems if not s.sink]
     if args.show:
         names = [x.strip() for x in args.show.split(",") if x.strip()]
         for n in names:
             seatool.analysis.receiver_index(model, n, option="--show")
-    sp = seatool.spread(data, file=file, base_dir=base, samples=args.samples, seed=args.seed)
+    sp = seatool.spread(
+        data, file=file, base_dir=base, samples=args.samples, seed=args.seed,
+        progress=seatool.progress.enabled(),
+    )  # fmt: skip
     t = sp.table()
     print(model.title or model.source)
     print(
@@ -253,6 +269,9 @@ def _cmd_spread(args: argparse.Namespace) -> int:
     if out is not None:
         _write_csv(t, out)
         print(f"wrote {out}")
+    if plot_path is not None:
+        seatool.plot.plot_spread(t, names[0], bands, plot_path)
+        print(f"wrote {plot_path}")
     print_caution()
     return 0
 

@@ -22,7 +22,7 @@ import pandas as pd
 
 from ..analysis.measured import estimate_toml, power_injection
 from ..errors import InputError, Problem
-from ..results import write_text_atomic
+from ..results import write_csv, write_text_atomic
 from ._common import Command
 from ._common import output_target as _csv_target
 
@@ -144,7 +144,7 @@ def _cmd(args: argparse.Namespace) -> int:
             print(f"wrote {path}")
     if csv_path is not None:
         try:
-            write_text_atomic(csv_path, table.to_csv(index=False, float_format="%.10g"))
+            write_csv(table, csv_path)
         except OSError as exc:
             raise InputError(
                 [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]

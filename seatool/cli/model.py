@@ -96,17 +96,13 @@ def _cmd_solve(args: argparse.Namespace) -> int:
     if csv_path is not None:
         try:
             table = seatool.analysis.confidence.table_with_confidence(model, result)
-            seatool.results.write_text_atomic(
-                csv_path, table.to_csv(index=False, float_format="%.10g")
-            )
+            seatool.results.write_csv(table, csv_path)
         except OSError as exc:
             raise cannot_write(csv_path, "--csv", exc) from None
         print(f"wrote {csv_path}")
     if metrics_path is not None:
         try:
-            seatool.results.write_text_atomic(
-                metrics_path, comfort_table.to_csv(index=False, float_format="%.10g")
-            )
+            seatool.results.write_csv(comfort_table, metrics_path)
         except OSError as exc:
             raise cannot_write(metrics_path, "--metrics-csv", exc) from None
         print(f"wrote {metrics_path}")

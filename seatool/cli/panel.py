@@ -57,6 +57,10 @@ def _arguments(p: argparse.ArgumentParser) -> None:
     p.add_argument("--octave", action="store_true", help="octave bands (default third-octave)")
     p.add_argument("--csv", metavar="FILE", help="write the table to FILE")
     p.add_argument(
+        "--plot", metavar="FILE",
+        help="draw transmission loss and radiation efficiency to FILE (.png, .pdf or .svg)",
+    )  # fmt: skip
+    p.add_argument(
         "--room-volumes",
         nargs=2,
         metavar=("V1", "V2"),
@@ -282,6 +286,7 @@ def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
 
 
 def _handler(args: argparse.Namespace) -> int:
+    plot_path = seatool.plot.plot_target(args.plot)
     spec, bands = spec_from_args(args)
     try:
         table = seatool.panel_table(spec, bands)
@@ -289,8 +294,12 @@ def _handler(args: argparse.Namespace) -> int:
         raise _as_options(exc) from None
     print(render(spec, table, bands))
     if args.csv:
-        table.to_csv(args.csv, index=False, float_format="%.10g")
+        seatool.results.write_csv(table, args.csv)
         print(f"wrote {args.csv}")
+    if plot_path is not None:
+        title = render(spec, table, bands).splitlines()[0]
+        seatool.plot.plot_panel(table, bands, plot_path, title=title)
+        print(f"wrote {plot_path}")
     print_caution()
     return 0
 
