@@ -19,7 +19,7 @@ from .results import CAUTION, write_text_atomic
 
 __all__ = ["main"]
 
-EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
+EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_MISSED = 0, 1, 2, 3
 
 Handler = Callable[[argparse.Namespace], int]
 
@@ -93,6 +93,12 @@ def _parser() -> argparse.ArgumentParser:
         "--metrics-csv",
         metavar="FILE",
         help="write the cavities' dB, dB(A), dB(C), SIL, sone and phon to FILE",
+    )
+    sp.add_argument(
+        "--fail-on-miss",
+        action="store_true",
+        help=f"exit with code {EXIT_MISSED} when a target of the model is missed "
+        "(by default a miss is a result, exit 0)",
     )
     cp = sub.add_parser(
         "check",
@@ -208,9 +214,19 @@ def _cmd_solve(args: argparse.Namespace) -> int:
                 [Problem(str(plot_path), "--plot", f"cannot write: {exc.strerror or exc}")]
             ) from None
         print(f"wrote {plot_path}")
+    missed = False
+    if model.targets:
+        from .analysis import targets
+
+        print()
+        print(targets.render_margins(result, digits=args.digits, field=args.field))
+        vs = targets.verdicts(result, field=args.field)
+        print()
+        print(targets.render_verdicts(vs))
+        missed = not all(v.met for v in vs)
     print()
     print("Caution: " + CAUTION)
-    return EXIT_OK
+    return EXIT_MISSED if missed and args.fail_on_miss else EXIT_OK
 
 
 def _range(a: np.ndarray) -> str:

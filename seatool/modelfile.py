@@ -35,6 +35,7 @@ from .bands import BandAxis, BandError, band_index
 from .errors import InputError, Problem, closest
 from .model import Connection, Excitation, Model, ModelError, Subsystem
 from .physics.air import AIR_DENSITY, AIR_SOUND_SPEED
+from .targetfile import read_targets
 
 __all__ = ["CONNECTION_KINDS", "SUBSYSTEM_KINDS", "Reader", "load", "loads"]
 
@@ -54,6 +55,7 @@ _TOP_KEYS = (
     "connections",
     "excitations",
     "uncertainty",  # read by seatool.analysis (parameter spreads), ignored by the solve
+    "targets",  # noise limits per receiver (seatool.targetfile)
 )
 
 _MISSING = object()
@@ -887,6 +889,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
+    targets = read_targets(rd, data, subs)
     if rd.problems:
         raise InputError(rd.problems)
     try:
@@ -899,6 +902,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             source=file,
             notes=tuple(rd.notes),
             reports=tuple(rd.reports),
+            targets=tuple(targets),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None
