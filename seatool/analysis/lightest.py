@@ -42,19 +42,20 @@ import numpy.typing as npt
 import pandas as pd
 from tqdm import tqdm
 
-from ..errors import InputError, Problem
+from ..errors import InputError, Problem, closest
 from ..model import Model, Target
 from ..modelfile import build
 from ..results import Result
 from ..solve import assemble
 from ..solve import solve as core_solve
+from ._keypath import read_data
 from ._system import level_offset
 from .targets import margin_table, margins_of_levels, verdicts
 from .treatment_mass import total_added_mass
 from .uncertainty import _batched_dense
 from .variants import apply_changes
 
-__all__ = ["Lightest", "Option", "Surface", "lightest_treatment"]
+__all__ = ["Lightest", "Option", "Surface", "lightest_treatment", "load_candidates"]
 
 Array = npt.NDArray[np.float64]
 
@@ -179,6 +180,13 @@ class Lightest:
         return "\n".join(lines)
 
 
+def _log_ratio(x: Array, x0: Array) -> Array:
+    """ln(x / x0) where both are positive and finite, else 0 (sinks: n = inf)."""
+    ok = np.isfinite(x) & np.isfinite(x0) & (x > 0) & (x0 > 0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(ok, np.log(np.where(ok, x, 1.0) / np.where(ok, x0, 1.0)), 0.0)
+
+
 def _check(model: Model, ref: Model, where: str, file: str) -> None:
     if ref.names != model.names or [c.name for c in ref.connections] != [
         c.name for c in model.connections
@@ -216,6 +224,7 @@ def lightest_treatment(
     allowance: float = 3.0,
     method: Literal["auto", "exhaustive", "screened"] = "auto",
     chunk: int = 2000,
+    max_verify: int = 20,
     field: str = "diffuse",
     progress: bool | None = None,
 ) -> Lightest:
@@ -251,8 +260,8 @@ def lightest_treatment(
             row.append(
                 _Arrays(
                     ao.damping - a0.damping,
-                    ao.modal - a0.modal,
-                    ao.eta_ab - a0.eta_ab,
+                    _log_ratio(ao.modal, a0.modal),
+                    _log_ratio(ao.eta_ab, a0.eta_ab),
                     ao.power - a0.power,
                     ao.offsets - a0.offsets,
                     ao.mass - a0.mass,
@@ -279,8 +288,8 @@ def lightest_treatment(
         """Receiver levels (K, R, B) of combinations (K, S)."""
         k = combos.shape[0]
         damp = np.broadcast_to(a0.damping, (k, *a0.damping.shape)).copy()
-        modal = np.broadcast_to(a0.modal, (k, *a0.modal.shape)).copy()
-        eta = np.broadcast_to(a0.eta_ab, (k, *a0.eta_ab.shape)).copy()
+        modal = np.zeros((k, *a0.modal.shape))
+        eta = np.zeros((k, *a0.eta_ab.shape))
         power = np.broadcast_to(a0.power, (k, *a0.power.shape)).copy()
         off = np.broadcast_to(a0.offsets, (k, len(r_idx))).copy()
         for si, row in enumerate(deltas):
@@ -290,6 +299,8 @@ def lightest_treatment(
             eta += np.stack([d.eta_ab for d in row])[ch]
             power += np.stack([d.power for d in row])[ch]
             off += np.stack([d.offsets for d in row])[ch]
+        modal = a0.modal * np.exp(modal)
+        eta = a0.eta_ab * np.exp(eta)
         e = _batched_dense(base, damp, modal, eta, power, held, held_energy)
         with np.errstate(divide="ignore"):
             return 10.0 * np.log10(e[:, r_idx, :]) + off[:, :, None]
@@ -365,22 +376,41 @@ def lightest_treatment(
     finally:
         bar.close()
     feasible.sort()
-    found = bool(feasible)
-    pick = feasible[0][2] if found else best[1]
-    if pick < 0:
-        pick = 0
-    combo = combos_of(np.array([pick], dtype=np.int64))[0]
+    names = [t.name for t in tg]
+
+    def rebuild(flat_i: int) -> tuple[npt.NDArray[np.int64], Result, float]:
+        c = combos_of(np.array([flat_i], dtype=np.int64))[0]
+        changes: dict[str, Any] = {}
+        for s, ci in zip(surfaces, c, strict=True):
+            changes.update(s.options[int(ci)].changes)
+        m = build(apply_changes(data, changes, file=file), file=file, base_dir=base_dir)
+        res = Result(m, core_solve(m))
+        lv_full = res.level_array()[0][r_idx]
+        return c, res, float(np.max(np.abs(lv_full - exact(c[None, :])[0])))
+
+    # Verify in order: the first combination whose full rebuild meets every target.
+    found = False
+    rejected = 0
+    for kv, (_, _, flat_i) in enumerate(feasible[:max_verify]):
+        combo, result, ver = rebuild(flat_i)
+        if all(v.met for v in verdicts(result, names, field=field)):
+            found = True
+            feasible = feasible[kv:]
+            break
+        rejected += 1
+    if not found:
+        combo, result, ver = rebuild(best[1] if best[1] >= 0 else 0)
+        feasible = []
+    model = result.model
     choice = {s.name: s.options[int(c)].name for s, c in zip(surfaces, combo, strict=True)}
-    changes: dict[str, Any] = {}
-    for s, c in zip(surfaces, combo, strict=True):
-        changes.update(s.options[int(c)].changes)
-    model = build(apply_changes(data, changes, file=file), file=file, base_dir=base_dir)
-    result = Result(model, core_solve(model))
-    lv_full = result.level_array()[0][r_idx]
-    ver = float(np.max(np.abs(lv_full - exact(combo[None, :])[0])))
-    vs = [v for v in verdicts(result, [t.name for t in tg], field=field)]
+    vs = verdicts(result, names, field=field)
     worst = min(vs, key=lambda v: v.margin)
     binding = f"{worst.target}: {worst.binding} (margin {worst.margin:.2f} {worst.unit})"
+    if rejected:
+        method_name += (
+            f"; {rejected} lighter combination(s) met the targets only in the combined "
+            "arrays and missed them in the full rebuild"
+        )
     alt_rows = []
     for ob_v, neg_m, flat_i in feasible[1 : 1 + alternatives]:
         c = combos_of(np.array([flat_i], dtype=np.int64))[0]
@@ -407,7 +437,7 @@ def lightest_treatment(
         evaluated=evaluated,
         combinations=total,
         verification_db=ver,
-        best_margin=float(best[0]) if not found else float(-feasible[0][1]),
+        best_margin=float(best[0]) if not found else float(worst.margin),
     )
 
 
@@ -444,3 +474,72 @@ def _screen(
     combos = np.stack(np.unravel_index(passed, sizes), axis=1)
     ob = np.sum([obj_arr[s][combos[:, s]] for s in range(len(sizes))], axis=0)
     return passed[np.argsort(ob, kind="stable")], int(passed.size)
+
+
+_OPTION_KEYS = ("description", "set", "remove", "cost")
+
+
+def load_candidates(
+    path: str | Path,
+) -> tuple[dict[str, Any], str, Path, list[Surface], dict[str, Any]]:
+    """Read a candidates file: base model data, its file and folder, the surfaces, settings.
+
+    Keys: ``base`` (the model file, relative to this file), optional ``objective``
+    (``mass`` or ``cost``) and ``cost_per_kg``, and ``[surfaces.SURFACE.OPTION]`` tables
+    with ``set`` (key path = value), ``remove`` (key paths), ``cost`` and ``description``.
+    """
+    raw, file, folder = read_data(path)
+    problems = []
+    top = ("base", "objective", "cost_per_kg", "surfaces")
+    for k in raw:
+        if k not in top:
+            problems.append(Problem(file, k, "unknown key" + closest(k, top)))
+    base = raw.get("base")
+    if not isinstance(base, str):
+        problems.append(Problem(file, "base", "must name the base model file (a string)"))
+    settings: dict[str, Any] = {}
+    obj = raw.get("objective", "mass")
+    if obj not in ("mass", "cost"):
+        problems.append(Problem(file, "objective", f"must be 'mass' or 'cost', got {obj!r}"))
+    settings["objective"] = obj
+    cpk = raw.get("cost_per_kg")
+    if cpk is not None and (isinstance(cpk, bool) or not isinstance(cpk, int | float) or cpk < 0):
+        problems.append(Problem(file, "cost_per_kg", "must be a number >= 0"))
+    settings["cost_per_kg"] = cpk
+    section = raw.get("surfaces")
+    surfaces: list[Surface] = []
+    if not isinstance(section, dict) or not section:
+        problems.append(Problem(file, "surfaces", "give [surfaces.SURFACE.OPTION] tables"))
+        section = {}
+    for sname, opts in section.items():
+        if not isinstance(opts, dict) or not opts:
+            problems.append(Problem(file, f"surfaces.{sname}", "give at least one option table"))
+            continue
+        options = []
+        for oname, spec in opts.items():
+            p = f"surfaces.{sname}.{oname}"
+            if not isinstance(spec, dict):
+                problems.append(Problem(file, p, "must be a table"))
+                continue
+            for k in spec:
+                if k not in _OPTION_KEYS:
+                    problems.append(
+                        Problem(file, f"{p}.{k}", "unknown key" + closest(k, _OPTION_KEYS))
+                    )
+            sets, rem, cost = spec.get("set", {}), spec.get("remove", []), spec.get("cost")
+            if not isinstance(sets, dict):
+                problems.append(Problem(file, f"{p}.set", "must be a table of key path = value"))
+                sets = {}
+            if not isinstance(rem, list) or not all(isinstance(x, str) for x in rem):
+                problems.append(Problem(file, f"{p}.remove", "must be an array of key paths"))
+                rem = []
+            if cost is not None and (isinstance(cost, bool) or not isinstance(cost, int | float)):
+                problems.append(Problem(file, f"{p}.cost", "must be a number"))
+                cost = None
+            options.append(Option(oname, {**sets, **dict.fromkeys(rem)}, cost))
+        surfaces.append(Surface(sname, options))
+    if problems:
+        raise InputError(problems)
+    assert isinstance(base, str)
+    data, bfile, bfolder = read_data(folder / base)
+    return data, bfile, bfolder, surfaces, settings
