@@ -38,7 +38,11 @@ class Command:
 
 
 #: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
-COMMAND_MODULES: list[str] = ["seatool.panel", "seatool.analysis.commands"]
+COMMAND_MODULES: list[str] = [
+    "seatool.panel",
+    "seatool.analysis.commands",
+    "seatool.analysis.decision_commands",
+]
 
 
 def _commands() -> dict[str, Command]:
