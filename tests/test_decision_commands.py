@@ -21,7 +21,7 @@ def test_variants_command_prints_flags_and_writes_files(tmp_path, capsys):
     rc = main(
         [
             "variants",
-            str(MODELS / "operator_cab_variants.toml"),
+            str(MODELS / "studies" / "operator_cab_variants.toml"),
             "--csv",
             str(tmp_path / "d.csv"),
             "--margins-csv",
@@ -42,7 +42,7 @@ def test_variants_command_prints_flags_and_writes_files(tmp_path, capsys):
 
 def test_demo_lightest_is_lighter_than_the_heaviest_trim_everywhere(tmp_path, capsys):
     data, file, folder, surfaces, settings = load_candidates(
-        MODELS / "operator_cab_candidates.toml"
+        MODELS / "studies" / "operator_cab_candidates.toml"
     )
     heaviest: dict = {}
     for s in surfaces:
@@ -52,7 +52,7 @@ def test_demo_lightest_is_lighter_than_the_heaviest_trim_everywhere(tmp_path, ca
     assert ans.found
     assert ans.mass_kg < total_added_mass(heavy)
     rc = main(
-        ["lightest", str(MODELS / "operator_cab_candidates.toml"), "--csv", str(tmp_path / "a.csv")]
+        ["lightest", str(MODELS / "studies" / "operator_cab_candidates.toml"), "--csv", str(tmp_path / "a.csv")]
     )
     out = capsys.readouterr().out
     assert rc == 0
@@ -62,11 +62,12 @@ def test_demo_lightest_is_lighter_than_the_heaviest_trim_everywhere(tmp_path, ca
 
 
 def test_lightest_fails_on_miss_only_when_asked(tmp_path, capsys):
-    for name in ("operator_cab.toml", "operator_cab_candidates.toml"):
-        shutil.copy(MODELS / name, tmp_path / name)
+    (tmp_path / "studies").mkdir()
+    shutil.copy(MODELS / "operator_cab.toml", tmp_path / "operator_cab.toml")
+    shutil.copy(MODELS / "studies" / "operator_cab_candidates.toml", tmp_path / "studies")
     model = tmp_path / "operator_cab.toml"
     model.write_text(model.read_text().replace("limit_dBA = 72.0", "limit_dBA = 40.0"))
-    cand = tmp_path / "operator_cab_candidates.toml"
+    cand = tmp_path / "studies" / "operator_cab_candidates.toml"
     assert main(["lightest", str(cand)]) == 0
     assert "no combination of the candidates meets every target" in capsys.readouterr().out
     assert main(["lightest", str(cand), "--fail-on-miss"]) == 3

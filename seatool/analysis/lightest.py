@@ -187,6 +187,84 @@ def _log_ratio(x: Array, x0: Array) -> Array:
         return np.where(ok, np.log(np.where(ok, x, 1.0) / np.where(ok, x0, 1.0)), 0.0)
 
 
+def _table_names(model_names: Sequence[str], table: str) -> list[int]:
+    """Indices of the model entries a table produced (``NAME`` or ``NAME[...]``)."""
+    return [i for i, n in enumerate(model_names) if n == table or n.startswith(table + "[")]
+
+
+def _option_arrays(
+    data: Mapping[str, Any],
+    changed: Mapping[str, Any],
+    base: Model,
+    a0: _Arrays,
+    r_idx: Sequence[int],
+    file: str,
+    base_dir: str | Path,
+    where: str,
+) -> _Arrays:
+    """The arrays of the base model with one option applied.
+
+    Only the connections and excitations that touch a changed subsystem (or changed
+    themselves) are rebuilt; coupling loss factors and input powers depend only on the
+    subsystems they join, so the others keep their base values. Any other change (bands,
+    materials, fluids) rebuilds the whole model.
+    """
+    sections = ("subsystems", "connections", "excitations")
+    others = {k for k in set(data) | set(changed) if k not in (*sections, "targets")}
+    if any(data.get(k) != changed.get(k) for k in others):
+        m = build(changed, file=file, base_dir=base_dir)
+        _check(m, base, where, file)
+        return _arrays(m, r_idx)
+    subs_old = data.get("subsystems", {}) or {}
+    subs_new = changed.get("subsystems", {}) or {}
+    moved = {n for n in set(subs_old) | set(subs_new) if subs_old.get(n) != subs_new.get(n)}
+
+    def touched(section: str, ends: Any) -> dict[str, Any]:
+        old = data.get(section, {}) or {}
+        new = changed.get(section, {}) or {}
+        out = {}
+        for name, t in new.items():
+            refs = set(ends(t)) if isinstance(t, dict) else set()
+            if old.get(name) != t or refs & moved:
+                out[name] = t
+        return out
+
+    cons = touched("connections", lambda t: t.get("between", []) or [])
+    exs = touched("excitations", lambda t: [t.get("subsystem")])
+    part = {k: v for k, v in changed.items() if k not in ("connections", "excitations", "targets")}
+    part["connections"] = cons
+    part["excitations"] = exs
+    m = build(part, file=file, base_dir=base_dir)
+    if m.names != base.names:
+        raise InputError(
+            [Problem(file, where, "this option changes the model's subsystems; options may "
+                     "only change values (treatments, thicknesses, damping)")]
+        )  # fmt: skip
+    sub = _arrays(m, r_idx)
+    eta = a0.eta_ab.copy()
+    base_cons = [c.name for c in base.connections]
+    part_cons = [c.name for c in m.connections]
+    for table in cons:
+        bi, pi = _table_names(base_cons, table), _table_names(part_cons, table)
+        if [base_cons[i] for i in bi] != [part_cons[i] for i in pi]:
+            raise InputError([Problem(file, where, f"this option changes connection {table!r}")])
+        eta[bi] = sub.eta_ab[pi]
+    power = a0.power.copy()
+    idx = base.index()
+    for e in base.excitations:
+        if e.name in exs or any(e.name.startswith(t + "[") for t in exs):
+            if e.kind == "power" and e.power is not None:
+                power[idx[e.subsystem]] -= e.power
+    for e in m.excitations:
+        if e.kind == "power" and e.power is not None:
+            power[idx[e.subsystem]] += e.power
+        elif e.kind != "power":
+            raise InputError(
+                [Problem(file, where, "options may not change a held (prescribed) level")]
+            )
+    return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass)
+
+
 def _check(model: Model, ref: Model, where: str, file: str) -> None:
     if ref.names != model.names or [c.name for c in ref.connections] != [
         c.name for c in model.connections
@@ -254,9 +332,7 @@ def lightest_treatment(
         for o in s.options:
             where = f"surfaces.{s.name}.{o.name}"
             d = apply_changes(data, o.changes, file=file, where=f"{where}: ")
-            m = build(d, file=f"{file} ({where})", base_dir=base_dir)
-            _check(m, base, where, file)
-            ao = _arrays(m, r_idx)
+            ao = _option_arrays(data, d, base, a0, r_idx, f"{file} ({where})", base_dir, where)
             row.append(
                 _Arrays(
                     ao.damping - a0.damping,
