@@ -62,7 +62,9 @@ def main() -> None:
     unc = {}
     for i in range(100):
         unc[f"d{i}"] = {
-            "parameter": f"subsystems.s{i}.damping", "distribution": "lognormal", "factor": 1.5
+            "parameter": f"subsystems.s{i}.damping",
+            "distribution": "lognormal",
+            "factor": 1.5,
         }
     for k in range(20):
         unc[f"c{k}"] = {
