@@ -10,9 +10,12 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from scipy.optimize import brentq
 
 import seatool
+from seatool.analysis._keypath import with_value
 from seatool.analysis.lightest import Option, Surface, lightest_treatment
+from seatool.analysis.lightest_continuous import Bounded, lightest_continuous
 from seatool.analysis.treatment_mass import total_added_mass
 from seatool.analysis.variants import apply_changes
 from seatool.errors import InputError
@@ -178,3 +181,30 @@ def test_cost_objective_can_prefer_a_heavier_option():
     by_cost = lightest_treatment(data, [Surface("p0", opts)], objective="cost")
     assert by_mass.choice == {"p0": "thin"}
     assert by_cost.choice == {"p0": "thick"} and by_cost.objective == 10.0
+
+
+def test_continuous_thickness_equals_the_root_of_the_rebuilt_level():
+    # One plate with a free damping sheet of thickness t in [0.1, 4] mm; the least mass
+    # meeting a dB(A) limit is the thickness where the level equals the limit (the level
+    # falls with t). Reference: scipy.optimize.brentq on full rebuilds (no gradients).
+    text = _text([1.0])
+    limit = _base_dba(text) - 4.0
+    data = _with_target(text, limit)
+    data["subsystems"]["p0"]["treatment"] = {
+        "damping_layer": {"base": "damping_sheet_free", "thickness": 0.004}
+    }
+    path = "subsystems.p0.treatment.damping_layer.thickness"
+
+    def dba(t: float) -> float:
+        m = build(with_value(data, path, lambda _o: np.asarray(t)))
+        lv = seatool.run(m).level_array()[0][m.index()["cab"]]
+        return float(METRICS["dBA"](lv, m.bands).value)
+
+    t_ref = brentq(lambda t: dba(t) - limit, 1e-4, 0.004, xtol=1e-10)
+    got = lightest_continuous(data, [Bounded(path, 1e-4, 0.004)])
+    assert got.met
+    assert got.values[path] == pytest.approx(t_ref, rel=1e-3)
+    # sheet density 1700 kg/m^3 (catalogue) x t x plate area 1.0 m x 0.9 m
+    assert got.mass_kg == pytest.approx(1700 * t_ref * 0.9, rel=1e-3)
+    with pytest.raises(InputError, match="0 < low < high"):
+        lightest_continuous(data, [Bounded(path, 0.0, 0.004)])
