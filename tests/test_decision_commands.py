@@ -8,7 +8,8 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
-from seatool.analysis.lightest import lightest_treatment, load_candidates
+from seatool.analysis.candidates import load_candidates
+from seatool.analysis.lightest import lightest_treatment
 from seatool.analysis.treatment_mass import total_added_mass
 from seatool.analysis.variants import apply_changes
 from seatool.cli import main
@@ -52,7 +53,12 @@ def test_demo_lightest_is_lighter_than_the_heaviest_trim_everywhere(tmp_path, ca
     assert ans.found
     assert ans.mass_kg < total_added_mass(heavy)
     rc = main(
-        ["lightest", str(MODELS / "studies" / "operator_cab_candidates.toml"), "--csv", str(tmp_path / "a.csv")]
+        [
+            "lightest",
+            str(MODELS / "studies" / "operator_cab_candidates.toml"),
+            "--csv",
+            str(tmp_path / "a.csv"),
+        ]
     )
     out = capsys.readouterr().out
     assert rc == 0

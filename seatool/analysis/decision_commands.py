@@ -10,8 +10,9 @@ import pandas as pd
 from ..errors import InputError, Problem
 from ..plot import plot_band_margins, plot_target, plot_variants
 from ..results import CAUTION
+from .candidates import load_candidates
 from .commands import _csv_target, _fmt_table, write_csv
-from .lightest import lightest_treatment, load_candidates
+from .lightest import lightest_treatment
 from .variants import compare, load_variants
 
 if TYPE_CHECKING:
