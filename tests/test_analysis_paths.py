@@ -28,9 +28,7 @@ MODELS = sorted(glob.glob("models/*.toml"))
 
 def _structure(name, bands, n, eta, mass=1.0):
     nb = len(bands)
-    return Subsystem(
-        name, "structure", np.full(nb, n), np.full(nb, eta), quantity="velocity", mass=mass
-    )
+    return Subsystem(name, "structure", np.full(nb, n), np.full(nb, eta), quantity="velocity", mass=mass)
 
 
 def brute_force(model: Model) -> np.ndarray:
@@ -46,13 +44,7 @@ def brute_force(model: Model) -> np.ndarray:
         for c in model.connections:
             a, b = idx[c.a], idx[c.b]
             eab = c.coupling_loss_factor[j]
-            eba = (
-                0.0
-                if sink[b]
-                else eab
-                * model.subsystems[a].modal_density[j]
-                / model.subsystems[b].modal_density[j]
-            )
+            eba = 0.0 if sink[b] else eab * model.subsystems[a].modal_density[j] / model.subsystems[b].modal_density[j]
             lmat[a, a] += eab
             lmat[b, b] += eba
             lmat[b, a] -= eab
@@ -152,9 +144,7 @@ def test_connection_powers_sum_to_dissipated(mixed, receiver):
 def test_path_shares_sum_to_one_and_energy_to_total(mixed, receiver):
     p = paths(mixed, receiver)
     total = brute_force(mixed)[mixed.index()[receiver]]
-    np.testing.assert_allclose(
-        p.groupby("band_exact_hz")["energy_J"].sum().to_numpy(), total, rtol=1e-9
-    )
+    np.testing.assert_allclose(p.groupby("band_exact_hz")["energy_J"].sum().to_numpy(), total, rtol=1e-9)
     np.testing.assert_allclose(p.groupby("band_exact_hz")["share"].sum().to_numpy(), 1.0, rtol=1e-9)
     # per source, path powers add up to the source's arrival (source_share sums to 1)
     ss = p.groupby(["band_exact_hz", "source"])["source_share"].sum().to_numpy()
@@ -171,10 +161,7 @@ def test_short_path_limit_keeps_the_sum(mixed):
 def test_triangle_path_powers_by_hand():
     """Source s0, receiver s2, paths s0>s2 and s0>s1>s2: proportional sharing by hand."""
     bands = BandAxis.from_range(1000, 1000)
-    subs = tuple(
-        _structure(f"s{i}", bands, n, eta)
-        for i, (n, eta) in enumerate([(1.0, 0.01), (0.5, 0.02), (2.0, 0.01)])
-    )
+    subs = tuple(_structure(f"s{i}", bands, n, eta) for i, (n, eta) in enumerate([(1.0, 0.01), (0.5, 0.02), (2.0, 0.01)]))
     cons = (
         Connection("01", "s0", "s1", np.array([3e-3])),
         Connection("12", "s1", "s2", np.array([2e-3])),
@@ -202,11 +189,7 @@ def test_triangle_path_powers_by_hand():
 def test_source_free_receiver():
     bands = BandAxis.from_range(500, 1000)
     nb = len(bands)
-    subs = (
-        _structure("a", bands, 1.0, 0.01),
-        _structure("b", bands, 1.0, 0.01),
-        _structure("lonely", bands, 1.0, 0.01),
-    )
+    subs = (_structure("a", bands, 1.0, 0.01), _structure("b", bands, 1.0, 0.01), _structure("lonely", bands, 1.0, 0.01))
     cons = (Connection("ab", "a", "b", np.full(nb, 1e-3)),)
     m = Model(bands, subs, cons, (Excitation("src", "a", "power", power=np.full(nb, 1.0)),))
     c = contributions(m, "lonely")
@@ -227,23 +210,13 @@ def test_shipped_models_add_up(path):
         if s.sink:
             continue
         c = contributions(m, s.name)
-        np.testing.assert_allclose(
-            c.groupby("band_exact_hz")["energy_J"].sum().to_numpy(), res.energy[i], rtol=1e-9
-        )
+        np.testing.assert_allclose(c.groupby("band_exact_hz")["energy_J"].sum().to_numpy(), res.energy[i], rtol=1e-9)
         t = connection_powers(res, s.name)
         np.testing.assert_allclose(
-            t.groupby("band_exact_hz")["power_in_W"].sum().to_numpy(),
-            res.solution.dissipated_power[i],
-            rtol=1e-9,
-            atol=0,
+            t.groupby("band_exact_hz")["power_in_W"].sum().to_numpy(), res.solution.dissipated_power[i], rtol=1e-9, atol=0
         )
         p = paths(m, s.name)
-        got = (
-            p.groupby("band_exact_hz")["energy_J"]
-            .sum()
-            .reindex(m.bands.centre, fill_value=0.0)
-            .to_numpy()
-        )
+        got = p.groupby("band_exact_hz")["energy_J"].sum().reindex(m.bands.centre, fill_value=0.0).to_numpy()
         np.testing.assert_allclose(got, res.energy[i], rtol=1e-9)
         assert {"modes_in_band", "modal_overlap", "valid"} <= set(p.columns)
 
@@ -256,6 +229,4 @@ def test_validity_flag_from_physics(mixed):
     np.testing.assert_allclose(one["modes_in_band"], 0.5 * bands.width)
     eta_total = 0.02 + np.linspace(1e-3, 3e-3, len(bands)) * 2.0 / 0.5 + 2e-3
     np.testing.assert_allclose(one["modal_overlap"], eta_total * bands.centre * 0.5, rtol=1e-12)
-    assert list(one["valid"]) == list(
-        (0.5 * bands.width >= 1) & (eta_total * bands.centre * 0.5 >= 1)
-    )
+    assert list(one["valid"]) == list((0.5 * bands.width >= 1) & (eta_total * bands.centre * 0.5 >= 1))

@@ -55,11 +55,7 @@ def _scale_con(m, i, f):
 def _scale_exc(m, i, f):
     exs = list(m.excitations)
     e = exs[i]
-    exs[i] = (
-        dc.replace(e, power=e.power * f)
-        if e.kind == "power"
-        else dc.replace(e, energy=e.energy * f)
-    )
+    exs[i] = dc.replace(e, power=e.power * f) if e.kind == "power" else dc.replace(e, energy=e.energy * f)
     return dc.replace(m, excitations=tuple(exs))
 
 
@@ -71,18 +67,12 @@ def finite_differences(m: Model) -> dict[str, np.ndarray]:
         if s.sink:
             continue
         for field, key in (("damping", "damping"), ("modal_density", "modal_density")):
-            out[f"{key}:{s.name}"] = (
-                levels(_scale_sub(m, i, field, ep)) - levels(_scale_sub(m, i, field, em))
-            ) / (2 * H)
+            out[f"{key}:{s.name}"] = (levels(_scale_sub(m, i, field, ep)) - levels(_scale_sub(m, i, field, em))) / (2 * H)
     for i, c in enumerate(m.connections):
-        out[f"coupling:{c.name}"] = (
-            levels(_scale_con(m, i, ep)) - levels(_scale_con(m, i, em))
-        ) / (2 * H)
+        out[f"coupling:{c.name}"] = (levels(_scale_con(m, i, ep)) - levels(_scale_con(m, i, em))) / (2 * H)
     for i, e in enumerate(m.excitations):
         key = "power" if e.kind == "power" else "held_level"
-        out[f"{key}:{e.name}"] = (levels(_scale_exc(m, i, ep)) - levels(_scale_exc(m, i, em))) / (
-            2 * H
-        )
+        out[f"{key}:{e.name}"] = (levels(_scale_exc(m, i, ep)) - levels(_scale_exc(m, i, em))) / (2 * H)
     return out
 
 
@@ -97,9 +87,7 @@ def _check_against_fd(m: Model) -> None:
         for name, d in fd.items():
             got = t[t["parameter"] == name]["dL_dlnx_dB"].to_numpy()
             ok = np.isfinite(d[r])
-            np.testing.assert_allclose(
-                got[ok], d[r][ok], rtol=0, atol=TOL_DB, err_msg=f"{s.name} {name}"
-            )
+            np.testing.assert_allclose(got[ok], d[r][ok], rtol=0, atol=TOL_DB, err_msg=f"{s.name} {name}")
             checked += 1
     assert checked > 0
 
@@ -110,25 +98,14 @@ def mixed() -> Model:
     nb = len(bands)
 
     def st(name, n, eta, mass=2.0):
-        return Subsystem(
-            name, "structure", np.full(nb, n), np.full(nb, eta), quantity="velocity", mass=mass
-        )
+        return Subsystem(name, "structure", np.full(nb, n), np.full(nb, eta), quantity="velocity", mass=mass)
 
     subs = (
         st("a", 2.0, 0.01),
         st("b", 0.5, 0.02),
         st("c", 1.0, 0.005),
         st("d", 3.0, 0.01),
-        Subsystem(
-            "room",
-            "cavity",
-            np.linspace(1, 4, nb),
-            np.full(nb, 0.01),
-            quantity="sound_pressure",
-            volume=20.0,
-            density=1.2,
-            sound_speed=343.0,
-        ),
+        Subsystem("room", "cavity", np.linspace(1, 4, nb), np.full(nb, 0.01), quantity="sound_pressure", volume=20.0, density=1.2, sound_speed=343.0),
         Subsystem("out", "exterior", np.full(nb, np.inf), np.zeros(nb), sink=True),
     )
     cons = (
@@ -182,13 +159,9 @@ def test_physical_parameters_match_fd_shipped(path):
     m0 = build(data, file=path, base_dir=base)
     cands = []
     for sec in ("subsystems", "connections", "excitations"):
-        cands += [
-            p for p in _numeric_leaves({sec: data.get(sec, {})}) if resolve(data, p)[1] is None
-        ]
+        cands += [p for p in _numeric_leaves({sec: data.get(sec, {})}) if resolve(data, p)[1] is None]
     # an even spread over the candidates, deterministic
-    picks = [
-        cands[int(k)] for k in np.unique(np.linspace(0, len(cands) - 1, 2 * MAX_PARAMS).astype(int))
-    ]
+    picks = [cands[int(k)] for k in np.unique(np.linspace(0, len(cands) - 1, 2 * MAX_PARAMS).astype(int))]
     usable = []
     for p in picks:
         try:
@@ -214,9 +187,7 @@ def test_physical_parameters_match_fd_shipped(path):
             sel = t[(t["parameter"] == p) & (t["receiver"] == name)]
             got = sel["dL_dlnx_dB"].to_numpy()
             ok = np.isfinite(fd)
-            np.testing.assert_allclose(
-                got[ok], fd[ok], rtol=0, atol=TOL_DB, err_msg=f"{path} {name} {p}"
-            )
+            np.testing.assert_allclose(got[ok], fd[ok], rtol=0, atol=TOL_DB, err_msg=f"{path} {name} {p}")
 
 
 def test_units_and_identities(mixed):
@@ -269,16 +240,8 @@ def test_ranking_overall_is_energy_weighted(mixed):
 def test_source_free_receiver_gives_nan():
     bands = BandAxis.from_range(500, 1000)
     nb = len(bands)
-    subs = tuple(
-        Subsystem(n, "structure", np.ones(nb), np.full(nb, 0.01), quantity="velocity", mass=1.0)
-        for n in ("a", "b", "lonely")
-    )
-    m = Model(
-        bands,
-        subs,
-        (Connection("ab", "a", "b", np.full(nb, 1e-3)),),
-        (Excitation("src", "a", "power", power=np.ones(nb)),),
-    )
+    subs = tuple(Subsystem(n, "structure", np.ones(nb), np.full(nb, 0.01), quantity="velocity", mass=1.0) for n in ("a", "b", "lonely"))
+    m = Model(bands, subs, (Connection("ab", "a", "b", np.full(nb, 1e-3)),), (Excitation("src", "a", "power", power=np.ones(nb)),))
     t = sensitivities(m, "lonely")
     assert t["db_per_db"].isna().all()
 

@@ -171,9 +171,7 @@ factor = 1.2
 
 
 def test_power_spread_and_held_level_model():
-    text = (
-        ONE
-        + """
+    text = ONE + """
 [subsystems.panel]
 kind = "structure"
 mass = 10.0
@@ -190,7 +188,6 @@ parameter = "excitations.src.power"
 distribution = "normal"
 sd = 1e-4
 """
-    )
     sp = spread(_data(text), samples=200, seed=0)
     t = sp.table()
     panel = t[t["subsystem"] == "panel"]
@@ -202,9 +199,7 @@ sd = 1e-4
 
 
 def test_source_free_subsystem_spread():
-    text = (
-        ONE
-        + """
+    text = ONE + """
 [subsystems.lonely]
 kind = "structure"
 mass = 1.0
@@ -215,93 +210,28 @@ parameter = "subsystems.room.damping"
 distribution = "lognormal"
 factor = 1.3
 """
-    )
     t = spread(_data(text), samples=50, seed=0).table()
     lonely = t[t["subsystem"] == "lonely"]
     assert np.isneginf(lonely["p50_dB"]).all() and np.isneginf(lonely["nominal_dB"]).all()
 
 
 BAD = [
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "lognormal"',
-        "uncertainty.x.factor",
-        "missing",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactor = 0.5',
-        "uncertainty.x.factor",
-        ">= 1",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "lognormel"\nfactor = 2.0',
-        "uncertainty.x.distribution",
-        "did you mean 'lognormal'",
-    ),
-    (
-        'parameter = "subsystems.room.dampnig"\ndistribution = "lognormal"\nfactor = 2.0',
-        "uncertainty.x.parameter",
-        "did you mean 'damping'",
-    ),
-    (
-        'parameter = "subsystems.rom.damping"\ndistribution = "lognormal"\nfactor = 2.0',
-        "uncertainty.x.parameter",
-        "did you mean 'room'",
-    ),
-    (
-        'parameter = "subsystems.room.kind"\ndistribution = "lognormal"\nfactor = 2.0',
-        "uncertainty.x.parameter",
-        "not a number",
-    ),
-    (
-        'parameter = "bands.lowest"\ndistribution = "lognormal"\nfactor = 2.0',
-        "uncertainty.x.parameter",
-        "cannot be varied",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "uniform"\ntolerance = 1.5',
-        "uncertainty.x.tolerance",
-        "< 1",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "uniform"',
-        "uncertainty.x",
-        "either tolerance",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "uniform"\nlow = 0.02\nhigh = 0.01',
-        "uncertainty.x.high",
-        "must be > low",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "uniform"\nlow = 0.01',
-        "uncertainty.x.high",
-        "missing",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "normal"\nsd = -1.0',
-        "uncertainty.x.sd",
-        ">= 0",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "normal"\nsd = 0.01',
-        "uncertainty.x.sd",
-        "lognormal",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactor = 2.0\nsd = 1.0',
-        "uncertainty.x.sd",
-        "not used",
-    ),
-    (
-        'parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactr = 2.0',
-        "uncertainty.x.factr",
-        "did you mean 'factor'",
-    ),
-    (
-        'parameter = 3\ndistribution = "lognormal"\nfactor = 2.0',
-        "uncertainty.x.parameter",
-        "must be a string",
-    ),
+    ('parameter = "subsystems.room.damping"\ndistribution = "lognormal"', "uncertainty.x.factor", "missing"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactor = 0.5', "uncertainty.x.factor", ">= 1"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "lognormel"\nfactor = 2.0', "uncertainty.x.distribution", "did you mean 'lognormal'"),
+    ('parameter = "subsystems.room.dampnig"\ndistribution = "lognormal"\nfactor = 2.0', "uncertainty.x.parameter", "did you mean 'damping'"),
+    ('parameter = "subsystems.rom.damping"\ndistribution = "lognormal"\nfactor = 2.0', "uncertainty.x.parameter", "did you mean 'room'"),
+    ('parameter = "subsystems.room.kind"\ndistribution = "lognormal"\nfactor = 2.0', "uncertainty.x.parameter", "not a number"),
+    ('parameter = "bands.lowest"\ndistribution = "lognormal"\nfactor = 2.0', "uncertainty.x.parameter", "cannot be varied"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "uniform"\ntolerance = 1.5', "uncertainty.x.tolerance", "< 1"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "uniform"', "uncertainty.x", "either tolerance"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "uniform"\nlow = 0.02\nhigh = 0.01', "uncertainty.x.high", "must be > low"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "uniform"\nlow = 0.01', "uncertainty.x.high", "missing"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "normal"\nsd = -1.0', "uncertainty.x.sd", ">= 0"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "normal"\nsd = 0.01', "uncertainty.x.sd", "lognormal"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactor = 2.0\nsd = 1.0', "uncertainty.x.sd", "not used"),
+    ('parameter = "subsystems.room.damping"\ndistribution = "lognormal"\nfactr = 2.0', "uncertainty.x.factr", "did you mean 'factor'"),
+    ('parameter = 3\ndistribution = "lognormal"\nfactor = 2.0', "uncertainty.x.parameter", "must be a string"),
 ]
 
 
@@ -317,9 +247,7 @@ def test_bad_uncertainty_one_line_exit_2(tmp_path, capsys, body, where, what):
 
 
 def test_low_high_needs_a_number_and_duplicates():
-    text = (
-        COMPRESSOR
-        + """
+    text = COMPRESSOR + """
 [uncertainty.a]
 parameter = "subsystems.enclosure_air.damping"
 distribution = "uniform"
@@ -334,7 +262,6 @@ parameter = "subsystems.walls.damping"
 distribution = "lognormal"
 factor = 1.3
 """
-    )
     with pytest.raises(InputError) as exc:
         read_uncertainty(_data(text))
     msgs = [str(p) for p in exc.value.problems]

@@ -89,9 +89,7 @@ damping = 0.05
 
 
 def test_closed_cylinder_and_method_option():
-    text = (
-        HEAD
-        + """
+    text = HEAD + """
 [subsystems.tube]
 kind = "cylindrical_shell"
 material = "aluminium"
@@ -118,7 +116,6 @@ kind = "radiation"
 between = ["arc", "box"]
 method = "maidanik"
 """
-    )
     m = seatool.loads(text)
     tube = connection(m, "tube_box")
     want = expected_eta(m, "tube", "box", 0.002, 0.5, 1.2, 2 * math.pi * 0.5, closed=True)

@@ -100,7 +100,7 @@ def test_point_force_on_isolated_plate_power_balance():
     # SEA power balance of one subsystem: P = omega eta E, E = M <v^2>, with the point
     # force power P = F^2 Re(Y), Re(Y) = 1 / (8 sqrt(D m'')) for the infinite plate
     # (Cremer, Heckl & Petersson 2005, ch. 4). Hence <v^2> = F^2 Re(Y) / (omega eta M).
-    body = PLATE + 'damping = 0.01\n[excitations.shaker]\nsubsystem = "floor"\nforce = 2.0\n'
+    body = PLATE + "damping = 0.01\n[excitations.shaker]\nsubsystem = \"floor\"\nforce = 2.0\n"
     m = model(body)
     res = seatool.run(m)
     h, area = 0.002, 1.6 * 1.1
@@ -139,7 +139,7 @@ def test_in_plane_fields_are_separate_subsystems_of_one_component():
 
 
 def test_user_material_overrides_builtin_and_inline_base():
-    user = "[materials.steel]\ndensity = 7800\nyoungs_modulus = 2.0e11\npoisson_ratio = 0.3\n"
+    user = '[materials.steel]\ndensity = 7800\nyoungs_modulus = 2.0e11\npoisson_ratio = 0.3\n'
     s = model(user + PLATE + "damping = 0.01\n").subsystem("floor")
     assert s.properties["material"]["density"] == 7800
     assert s.properties["material"]["loss_factor"] is None
@@ -191,7 +191,9 @@ bending_stiffness_y = {d}
     o = model(body).subsystem("o")
     iso = model(PLATE).subsystem("floor")
     np.testing.assert_allclose(o.modal_density, iso.modal_density, rtol=1e-9)
-    assert o.properties["critical_frequency"] == pytest.approx(iso.properties["critical_frequency"])
+    assert o.properties["critical_frequency"] == pytest.approx(
+        iso.properties["critical_frequency"]
+    )
 
 
 def test_sandwich_limits_and_critical_frequency():

@@ -30,9 +30,7 @@ def test_prints_table(capsys):
     assert "1 kHz" in out and "Caution" in out
 
 
-@pytest.mark.parametrize(
-    ("material", "fch"), [("steel", 12.4), ("aluminium", 12.0), ("glass", 12.7)]
-)
+@pytest.mark.parametrize(("material", "fch"), [("steel", 12.4), ("aluminium", 12.0), ("glass", 12.7)])
 def test_coincidence_matches_long_table(tmp_path, capsys, material, fch):
     # Long (2006), Architectural Acoustics, Table 9.1 (variations of 10 % are common)
     out = tmp_path / "p.csv"
@@ -48,9 +46,7 @@ def test_bending_wavelength_equals_air_wavelength_at_coincidence(tmp_path, capsy
     df = pd.read_csv(out)
     fc = df["critical_frequency_hz"].iloc[0]
     # lambda_B ~ f^(-1/2); interpolate at fc in log-log and compare with c0 / fc
-    lam = np.exp(
-        np.interp(np.log(fc), np.log(df["band_exact_hz"]), np.log(df["bending_wavelength_m"]))
-    )
+    lam = np.exp(np.interp(np.log(fc), np.log(df["band_exact_hz"]), np.log(df["bending_wavelength_m"])))
     assert lam == pytest.approx(343.2 / fc, rel=1e-6)
 
 
@@ -64,7 +60,7 @@ def test_modes_in_band_against_exact_count(tmp_path, capsys):
     k = 0.5 * math.pi * math.sqrt(e * h**3 / (12 * (1 - nu**2)) / (rho * h))
     i = np.arange(1, 300)
     fmn = k * ((i[:, None] / 1.2) ** 2 + (i[None, :] / 0.8) ** 2)
-    g = 10**0.3
+    g = 10 ** 0.3
     lo = df["band_exact_hz"].iloc[0] / g ** (1 / 6)
     hi = df["band_exact_hz"].iloc[-1] * g ** (1 / 6)
     exact = np.count_nonzero((fmn >= lo) & (fmn < hi))

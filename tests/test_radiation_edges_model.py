@@ -54,9 +54,7 @@ def connection(m: Model, name: str):  # type: ignore[no-untyped-def]
 
 
 def test_clamped_doubles_the_clf_below_coincidence_only():
-    text = (
-        HEAD
-        + """
+    text = HEAD + """
 [connections.ss]
 kind = "radiation"
 between = ["wall", "room"]
@@ -78,7 +76,6 @@ method = "maidanik"
 corner_factor = 0.0
 edges = "clamped"
 """
-    )
     m = seatool.loads(text)
     ss, cc = connection(m, "ss"), connection(m, "cc")
     # eta = rho c sigma/(omega m'') is linear in sigma, so the factor 2 of sigma below
@@ -113,46 +110,28 @@ edges = "clamped"
 
 def test_clamped_curved_panel_with_a_flat_formula_is_allowed():
     # with an explicitly chosen flat formula the flat-panel edge option applies
-    m = seatool.loads(
-        HEAD
-        + """
+    m = seatool.loads(HEAD + """
 [connections.x]
 kind = "radiation"
 between = ["arc", "room"]
 method = "maidanik"
 edges = "clamped"
-"""
-    )
+""")
     prov = connection(m, "x").provenance["coupling_loss_factor"]
     assert "clamped edges" in prov and "curvature not included" in prov
 
 
 BAD = [
-    (
-        "misspelt",
-        'between = ["wall", "room"]\nedges = "clampd"',
-        ["connections.x.edges", "did you mean 'clamped'"],
-    ),
-    (
-        "not-a-string",
-        'between = ["wall", "room"]\nedges = 2',
-        ["connections.x.edges", "must be one of"],
-    ),
-    (
-        "en12354",
-        'between = ["wall", "room"]\nmethod = "en12354"\nedges = "clamped"',
-        ["connections.x.edges", "en12354"],
-    ),
-    (
-        "curved",
-        'between = ["arc", "room"]\nedges = "clamped"',
-        ["connections.x.edges", "curved panel"],
-    ),
-    (
-        "key-misspelt",
-        'between = ["wall", "room"]\nedge = "clamped"',
-        ["connections.x.edge", "did you mean 'edges'"],
-    ),
+    ("misspelt", 'between = ["wall", "room"]\nedges = "clampd"',
+     ["connections.x.edges", "did you mean 'clamped'"]),
+    ("not-a-string", 'between = ["wall", "room"]\nedges = 2',
+     ["connections.x.edges", "must be one of"]),
+    ("en12354", 'between = ["wall", "room"]\nmethod = "en12354"\nedges = "clamped"',
+     ["connections.x.edges", "en12354"]),
+    ("curved", 'between = ["arc", "room"]\nedges = "clamped"',
+     ["connections.x.edges", "curved panel"]),
+    ("key-misspelt", 'between = ["wall", "room"]\nedge = "clamped"',
+     ["connections.x.edge", "did you mean 'edges'"]),
 ]
 
 

@@ -303,6 +303,4 @@ def test_iterative_path_matches_dense_reference(seed, monkeypatch):
     assert sol.residual.max() <= 1e-9
     asm = assemble(m)
     for j in range(len(m.bands)):
-        np.testing.assert_allclose(
-            sol.condition[j], np.linalg.cond(asm.matrix(j).toarray(), 1), rtol=1e-8
-        )
+        np.testing.assert_allclose(sol.condition[j], np.linalg.cond(asm.matrix(j).toarray(), 1), rtol=1e-8)

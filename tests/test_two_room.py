@@ -67,7 +67,9 @@ def transmission_loss(model: Model, source: str = "r1", receiver: str = "r2", pa
     # the laboratory TL from solved room energies is the one analysis function that
     # `seatool panel` uses too (seatool.analysis.panel.room_transmission_loss)
     p = model.subsystem(panel)
-    tl = room_transmission_loss(model, solve(model).energy, source, receiver, p.properties["area"])
+    tl = room_transmission_loss(
+        model, solve(model).energy, source, receiver, p.properties["area"]
+    )
     return tl, p, model.bands.centre
 
 

@@ -104,9 +104,7 @@ def test_duct_above_cut_on_flagged():
 
 
 def test_sink_and_resonator_left_out():
-    text = (
-        SMALL
-        + """
+    text = SMALL + """
 [subsystems.out]
 kind = "exterior"
 [subsystems.r]
@@ -115,7 +113,6 @@ mass = 1.0
 stiffness = 4e5
 loss_factor = 0.05
 """
-    )
     names = {sv.name for sv in vr.assess_model(seatool.loads(text))}
     assert names == {"box", "panel"}
 

@@ -50,23 +50,16 @@ def resolve(data: Mapping[str, Any], path: str) -> tuple[Any, str | None]:
         return None, "is a boolean, not a number or spectrum"
     if isinstance(node, int | float):
         return node, None
-    if (
-        isinstance(node, list)
-        and node
-        and all(isinstance(v, int | float) and not isinstance(v, bool) for v in node)
+    if isinstance(node, list) and node and all(
+        isinstance(v, int | float) and not isinstance(v, bool) for v in node
     ):
         return node, None
     if isinstance(node, Mapping):
         if "csv" in node:
-            return (
-                None,
-                "is a CSV spectrum; give the values inline ({ band_hz, values }) to vary it",
-            )
+            return None, "is a CSV spectrum; give the values inline ({ band_hz, values }) to vary it"
         vals = node.get("values")
-        if (
-            isinstance(vals, list)
-            and vals
-            and all(isinstance(v, int | float) and not isinstance(v, bool) for v in vals)
+        if isinstance(vals, list) and vals and all(
+            isinstance(v, int | float) and not isinstance(v, bool) for v in vals
         ):
             return node, None
     return None, "is not a number, an array of numbers or a { band_hz, values } spectrum"

@@ -371,7 +371,9 @@ def paths(
     if not recs:
         return pd.DataFrame({c: [] for c in cols})
     df = pd.DataFrame(recs)
-    df["rank"] = df.groupby("band_hz")["share"].rank(ascending=False, method="first").astype(int)
+    df["rank"] = (
+        df.groupby("band_hz")["share"].rank(ascending=False, method="first").astype(int)
+    )
     df = df.sort_values(["band_exact_hz", "rank"], kind="stable").reset_index(drop=True)
     return df[cols]
 

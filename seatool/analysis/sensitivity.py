@@ -172,7 +172,9 @@ def _rows(
     )
 
 
-def sensitivities(model: Model, receiver: str, *, result: Result | None = None) -> pd.DataFrame:
+def sensitivities(
+    model: Model, receiver: str, *, result: Result | None = None
+) -> pd.DataFrame:
     """Sensitivity of the receiver's band level to every quantity of the assembled model.
 
     Parameters: ``damping:NAME`` (damping loss factor of a subsystem),
@@ -238,7 +240,9 @@ def sensitivities(model: Model, receiver: str, *, result: Result | None = None) 
 def _same_structure(m0: Model, m1: Model, a0: Assembly, a1: Assembly) -> str | None:
     if m0.names != m1.names:
         return "changes the set of subsystems"
-    if [(c.name, c.a, c.b) for c in m0.connections] != [(c.name, c.a, c.b) for c in m1.connections]:
+    if [(c.name, c.a, c.b) for c in m0.connections] != [
+        (c.name, c.a, c.b) for c in m1.connections
+    ]:
         return "changes the set of connections"
     if not np.array_equal(a0.held, a1.held):
         return "changes which subsystems are held"

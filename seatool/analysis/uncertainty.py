@@ -104,9 +104,7 @@ class Uncertain:
             return value + self.sd * d
         if self.low is not None:
             assert self.high is not None
-            return np.broadcast_to(
-                self.low + (self.high - self.low) * d, np.broadcast(value, d).shape
-            )
+            return np.broadcast_to(self.low + (self.high - self.low) * d, np.broadcast(value, d).shape)
         assert self.tolerance is not None
         return value * (1.0 + self.tolerance * d)
 
@@ -167,16 +165,12 @@ def read_uncertainty(
         own = _DISTRIBUTIONS[dist]
         for k in s:
             if k in ("factor", "tolerance", "low", "high", "sd") and k not in own:
-                rd.error(
-                    f"{path}.{k}", f"not used by distribution {dist!r} (it takes {', '.join(own)})"
-                )
+                rd.error(f"{path}.{k}", f"not used by distribution {dist!r} (it takes {', '.join(own)})")
         kw: dict[str, float | None] = {}
         ok = True
         if dist == "lognormal":
             if "factor" not in s:
-                rd.error(
-                    f"{path}.factor", "missing required key (1-sigma multiplicative factor >= 1)"
-                )
+                rd.error(f"{path}.factor", "missing required key (1-sigma multiplicative factor >= 1)")
                 continue
             kw["factor"] = rd.number(s["factor"], f"{path}.factor", minimum=1.0, strict=False)
             ok = kw["factor"] is not None
@@ -202,9 +196,7 @@ def read_uncertainty(
             else:
                 if "low" not in s or "high" not in s:
                     missing = "low" if "low" not in s else "high"
-                    rd.error(
-                        f"{path}.{missing}", "missing required key (uniform takes low and high)"
-                    )
+                    rd.error(f"{path}.{missing}", "missing required key (uniform takes low and high)")
                     continue
                 lo = rd.number(s["low"], f"{path}.low", minimum=None)
                 hi = rd.number(s["high"], f"{path}.high", minimum=None)
@@ -627,7 +619,9 @@ def _sampled_model(
         if kind == "damping":
             subs[i] = replace(subs[i], damping=u.apply(np.asarray(subs[i].damping), dx))
         elif kind == "modal_density":
-            subs[i] = replace(subs[i], modal_density=u.apply(np.asarray(subs[i].modal_density), dx))
+            subs[i] = replace(
+                subs[i], modal_density=u.apply(np.asarray(subs[i].modal_density), dx)
+            )
         elif kind == "eta_ab":
             cons[i] = replace(
                 cons[i], coupling_loss_factor=u.apply(np.asarray(cons[i].coupling_loss_factor), dx)
@@ -700,3 +694,4 @@ def spread_file(path: str | Path, **kwargs: Any) -> Spread:
     """:func:`spread` of a model file (its ``[uncertainty]`` section)."""
     data, file, base = read_data(path)
     return spread(data, file=file, base_dir=base, **kwargs)
+

@@ -66,9 +66,9 @@ def test_cavity_modal_density_is_derivative_of_count() -> None:
     v, s, ell = 50.0, 82.0, 36.0
     f = np.array([50.0, 200.0, 1000.0])
     h = 1e-3
-    num = (
-        ac.cavity_mode_count(f + h, v, s, ell, C0) - ac.cavity_mode_count(f - h, v, s, ell, C0)
-    ) / (2 * h)
+    num = (ac.cavity_mode_count(f + h, v, s, ell, C0) - ac.cavity_mode_count(f - h, v, s, ell, C0)) / (
+        2 * h
+    )
     np.testing.assert_allclose(ac.cavity_modal_density(f, v, s, ell, C0), num, rtol=1e-6)
 
 
@@ -110,9 +110,7 @@ def test_duct_cut_on_circular_vs_bessel_root() -> None:
     # independent: first root of J1'(x) found numerically with scipy (Kinsler et al. 9.3)
     x11 = optimize.brentq(lambda x: special.jvp(1, x), 1.0, 3.0, xtol=1e-12)
     d = 0.1
-    assert ac.duct_cut_on_frequency_circular(d, C0) == pytest.approx(
-        x11 * C0 / (np.pi * d), rel=1e-5
-    )
+    assert ac.duct_cut_on_frequency_circular(d, C0) == pytest.approx(x11 * C0 / (np.pi * d), rel=1e-5)
 
 
 def test_characteristic_impedance_of_air() -> None:

@@ -31,15 +31,11 @@ def test_beam_bending_modal_density_vs_exact_ss_beam_count() -> None:
     for i in (sec.second_moment_y, sec.second_moment_z):
         fn = np.pi / 2 * (np.arange(1, 3000) / length) ** 2 * np.sqrt(E_ST * i / mprime)
         fm, lo, hi = third_octave_bands(27, 37)
-        counted = np.array(
-            [np.count_nonzero((fn >= x) & (fn < y)) for x, y in zip(lo, hi, strict=True)]
-        )
+        counted = np.array([np.count_nonzero((fn >= x) & (fn < y)) for x, y in zip(lo, hi, strict=True)])
         expected = np.array(
             [
                 integrate.quad(
-                    lambda f, i=i: float(
-                        beams.beam_bending_modal_density(f, length, E_ST, i, mprime)
-                    ),
+                    lambda f, i=i: float(beams.beam_bending_modal_density(f, length, E_ST, i, mprime)),
                     x,
                     y,
                 )[0]

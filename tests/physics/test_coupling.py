@@ -37,9 +37,7 @@ def test_radiation_clf_reproduces_radiated_power_definition():
 @pytest.mark.regression
 def test_radiation_clf_regression_value():
     # [C] PHYSICS.md sec. 5.1: steel 1 mm, 1 kHz, sigma = 3.1009e-3 -> eta_pc = 2.609e-5.
-    assert float(cp.clf_radiation(1000.0, 3.1009e-3, 7.85, rho0=RHO0, c0=C0)) == pytest.approx(
-        2.609e-5, rel=1e-3
-    )
+    assert float(cp.clf_radiation(1000.0, 3.1009e-3, 7.85, rho0=RHO0, c0=C0)) == pytest.approx(2.609e-5, rel=1e-3)
 
 
 def test_nonresonant_clf_reproduces_diffuse_field_intensity():
@@ -55,9 +53,7 @@ def test_nonresonant_clf_reproduces_diffuse_field_intensity():
 def test_nonresonant_clf_regression_value():
     # [C] PHYSICS.md sec. 5.2: 10 kg/m^2, 1 m^2, 50 m^3, 500 Hz, R = 20 lg(f m) - 47 dB.
     tau = 10 ** (-(20 * math.log10(500 * 10) - 47) / 10)
-    assert float(cp.clf_nonresonant(500.0, 1.0, tau, 50.0, c0=C0)) == pytest.approx(
-        1.094e-6, rel=2e-3
-    )
+    assert float(cp.clf_nonresonant(500.0, 1.0, tau, 50.0, c0=C0)) == pytest.approx(1.094e-6, rel=2e-3)
 
 
 def test_cavity_clf_reciprocity_with_volume_modal_density():
@@ -130,9 +126,7 @@ def test_aperture_thick_wall_lumped_mass_limit():
     f, a, d = 100.0, 0.003, 0.01
     zr = complex(cp.piston_radiation_impedance(f, a, rho0=RHO0, c0=C0))
     lump = 4 * RHO0 * C0 * zr.real / abs(2 * zr + 1j * 2 * math.pi * f * RHO0 * d) ** 2
-    assert float(cp.aperture_transmission_circular(f, a, d, rho0=RHO0, c0=C0)) == pytest.approx(
-        lump, rel=1e-3
-    )
+    assert float(cp.aperture_transmission_circular(f, a, d, rho0=RHO0, c0=C0)) == pytest.approx(lump, rel=1e-3)
 
 
 # ------------------------------------------------------------------------------------------
@@ -164,8 +158,7 @@ def test_line_junction_worked_example():
     # [C] PHYSICS.md sec. 5.3 worked example: steel 1 mm, S_1 = 1 m^2, L = 1 m, tau = 1/3,
     # 1 kHz, c_g = 198.34 m/s -> eta_12 = 3.3493e-3.
     assert float(cp.clf_line_junction(1000.0, 198.34, 1.0, 1 / 3, 1.0)) == pytest.approx(
-        3.3493e-3, rel=1e-4
-    )
+        3.3493e-3, rel=1e-4)
 
 
 # ------------------------------------------------------------------------------------------
@@ -200,9 +193,8 @@ def k_from_two_plate_sea(f, h_i, h_j, s_i, s_j, length, tau_ij, eta_i, eta_j):
     return 0.5 * (dv_ij + dv_ji) + 10 * math.log10(length / math.sqrt(a_i * a_j)), e_ij
 
 
-@pytest.mark.parametrize(
-    ("f", "h_i", "h_j"), [(500.0, 0.1, 0.1), (250.0, 0.1, 0.2), (2000.0, 0.003, 0.001)]
-)
+@pytest.mark.parametrize(("f", "h_i", "h_j"), [(500.0, 0.1, 0.1), (250.0, 0.1, 0.2),
+                                               (2000.0, 0.003, 0.001)])
 def test_vibration_reduction_index_matches_definition_on_two_plate_sea(f, h_i, h_j):
     s_i, s_j, length, tau = 12.0, 9.0, 3.0, 0.08
     expect, eta_ij = k_from_two_plate_sea(f, h_i, h_j, s_i, s_j, length, tau, 0.02, 0.03)

@@ -40,15 +40,8 @@ def test_field_incidence_closed_form_equals_numerical_paris_integral():
         for lim_deg in (78.0, 90.0, 60.0):
             lim = math.radians(lim_deg)
             num, _ = integrate.quad(
-                lambda th, f=f, m=m: (
-                    float(mass_law.transmission_mass_law_oblique(f, m, th))
-                    * math.sin(th)
-                    * math.cos(th)
-                ),
-                0.0,
-                lim,
-                epsrel=1e-11,
-            )
+                lambda th, f=f, m=m: float(mass_law.transmission_mass_law_oblique(f, m, th))
+                * math.sin(th) * math.cos(th), 0.0, lim, epsrel=1e-11)
             num /= 0.5 * math.sin(lim) ** 2
             got = mass_law.transmission_mass_law_field(f, m, theta_limit=lim)
             assert float(got) == pytest.approx(num, rel=1e-8)

@@ -32,12 +32,8 @@ def test_orthotropic_modal_density_vs_exact_navier_count() -> None:
     omega = np.sqrt((dx * kx**4 + 2 * hh * kx**2 * ky**2 + dy * ky**4) / m)
     fmodes = (omega / (2 * np.pi)).ravel()
     fm, lo, hi = third_octave_bands(28, 34)
-    counted = np.array(
-        [np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)]
-    )
-    n = orthotropic_plates.orthotropic_plate_modal_density(
-        fm, a * b, dx, dy, m, torsional_stiffness=hh
-    )
+    counted = np.array([np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)])
+    n = orthotropic_plates.orthotropic_plate_modal_density(fm, a * b, dx, dy, m, torsional_stiffness=hh)
     assert counted.min() > 40
     np.testing.assert_allclose(counted, n * (hi - lo), rtol=0.12)
     assert abs(counted.sum() / (n * (hi - lo)).sum() - 1.0) < 0.05
@@ -52,9 +48,7 @@ def test_orthotropic_modal_density_angle_integral_by_quad() -> None:
         return float(np.sqrt(m / (dx * c2**2 + 2 * hh * c2 * s2 + dy * s2**2)))
 
     ref = s / np.pi * integrate.quad(integrand, 0.0, np.pi / 2, epsabs=0, epsrel=1e-12)[0]
-    n = orthotropic_plates.orthotropic_plate_modal_density(
-        500.0, s, dx, dy, m, torsional_stiffness=hh
-    )
+    n = orthotropic_plates.orthotropic_plate_modal_density(500.0, s, dx, dy, m, torsional_stiffness=hh)
     assert n == pytest.approx(ref, rel=1e-9)
 
 
@@ -63,9 +57,7 @@ def test_orthotropic_huber_case_reduces_to_geometric_mean() -> None:
     dx, dy, m = 90.0, 10.0, 5.0
     n = orthotropic_plates.orthotropic_plate_modal_density([100.0, 1000.0], 1.0, dx, dy, m)
     np.testing.assert_allclose(n, 0.5 * np.sqrt(m) / (dx * dy) ** 0.25, rtol=1e-12)
-    iso = orthotropic_plates.orthotropic_plate_modal_density(
-        100.0, 1.0, 30.0, 30.0, m, torsional_stiffness=30.0
-    )
+    iso = orthotropic_plates.orthotropic_plate_modal_density(100.0, 1.0, 30.0, 30.0, m, torsional_stiffness=30.0)
     assert iso == pytest.approx(plates.plate_bending_modal_density(100.0, 1.0, 30.0, m), rel=1e-12)
 
 

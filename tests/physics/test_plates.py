@@ -46,9 +46,7 @@ def test_plate_modal_density_vs_exact_simply_supported_count() -> None:
     freqs = _ss_plate_frequencies(d, m, PLATE_A, PLATE_B, 400)
     fm, lo, hi = third_octave_bands(27, 36)  # 500 Hz ... 4 kHz
     n = plates.plate_bending_modal_density(fm, PLATE_A * PLATE_B, d, m)
-    counted = np.array(
-        [np.count_nonzero((freqs >= a) & (freqs < b)) for a, b in zip(lo, hi, strict=True)]
-    )
+    counted = np.array([np.count_nonzero((freqs >= a) & (freqs < b)) for a, b in zip(lo, hi, strict=True)])
     expected = n * (hi - lo)
     assert counted.min() >= 60
     # statistical scatter of lattice counts (observed up to about 5 % here) plus the SS
@@ -110,9 +108,7 @@ def test_bending_wave_group_speed_is_numerical_derivative() -> None:
     d, m = 19.23, 7.85
     f = np.array([100.0, 1000.0, 5000.0])
     df = 1e-3 * f
-    dk = plates.plate_bending_wavenumber(f + df, d, m) - plates.plate_bending_wavenumber(
-        f - df, d, m
-    )
+    dk = plates.plate_bending_wavenumber(f + df, d, m) - plates.plate_bending_wavenumber(f - df, d, m)
     cg_num = 2 * np.pi * 2 * df / dk
     np.testing.assert_allclose(plates.plate_bending_group_speed(f, d, m), cg_num, rtol=1e-6)
 

@@ -153,19 +153,13 @@ def test_jca_wave_properties_and_high_frequency_speed():
 
 def test_limp_frame_limits():
     # Panneton (2007) limp model: heavy frame -> rigid-frame density; locked fluid -> rho_t
-    rho_eq = por.jca_effective_density(
-        np.array([50.0, 500.0]), PHI, ALPHA_INF, SIGMA, LAM, rho0=RHO0
-    )
-    np.testing.assert_allclose(
-        por.limp_frame_density(rho_eq, 1e9, PHI, rho0=RHO0), rho_eq, rtol=1e-6
-    )
+    rho_eq = por.jca_effective_density(np.array([50.0, 500.0]), PHI, ALPHA_INF, SIGMA, LAM, rho0=RHO0)
+    np.testing.assert_allclose(por.limp_frame_density(rho_eq, 1e9, PHI, rho0=RHO0), rho_eq, rtol=1e-6)
     np.testing.assert_allclose(
         por.limp_frame_density(1e12 * (1 - 1j), 30.0, PHI, rho0=RHO0), 30.0 + PHI * RHO0, rtol=1e-9
     )
     with pytest.raises(ValueError, match="bulk_density"):
-        por.johnson_champoux_allard(
-            100.0, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, frame="limp", rho0=RHO0
-        )
+        por.johnson_champoux_allard(100.0, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, frame="limp", rho0=RHO0)
 
 
 def test_invalid_inputs():

@@ -51,19 +51,9 @@ def resonant_modes(a: float, b: float, h: float, f_lo: float, f_hi: float):
 
 
 # deterministic ensemble of simply supported steel panels, a in [1.2, 2.0] m, b in [0.8, 1.2] m
-PANELS = [
-    (1.2 + 0.8 * x, 0.8 + 0.4 * y)
-    for x, y in [
-        (0.1, 0.7),
-        (0.35, 0.2),
-        (0.6, 0.9),
-        (0.85, 0.4),
-        (0.2, 0.45),
-        (0.5, 0.05),
-        (0.75, 0.6),
-        (0.95, 0.95),
-    ]
-]
+PANELS = [(1.2 + 0.8 * x, 0.8 + 0.4 * y) for x, y in
+          [(0.1, 0.7), (0.35, 0.2), (0.6, 0.9), (0.85, 0.4),
+           (0.2, 0.45), (0.5, 0.05), (0.75, 0.6), (0.95, 0.95)]]
 
 
 @pytest.mark.parametrize("f_mid", [125.89, 251.19, 501.19])
@@ -80,20 +70,15 @@ def test_leppington_band_matches_modal_average_below_coincidence(f_mid):
     for a, b in PANELS:
         modes = resonant_modes(a, b, h, lo, hi)
         assert len(modes) >= 5
-        modal = np.mean(
-            [
-                radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
-                for i, j, fm in modes
-            ]
-        )
+        modal = np.mean([radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
+                         for i, j, fm in modes])
         band = rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
         ratios.append(modal / band)
     assert np.mean(ratios) == pytest.approx(1.0, abs=0.15)
 
 
-@pytest.mark.parametrize(
-    ("a", "b", "f_mid"), [(0.6, 0.5, 3981.07), (0.8, 0.55, 3981.07), (0.6, 0.5, 7943.28)]
-)
+@pytest.mark.parametrize(("a", "b", "f_mid"), [(0.6, 0.5, 3981.07), (0.8, 0.55, 3981.07),
+                                               (0.6, 0.5, 7943.28)])
 def test_above_coincidence_asymptote_from_modal_average(a, b, f_mid):
     # Check (c): above coincidence the modal average of Wallace values tends to the
     # infinite-panel value (1 - f_c/f)^(-1/2) (Leppington et al. 1982; Maidanik 1962).
@@ -103,12 +88,8 @@ def test_above_coincidence_asymptote_from_modal_average(a, b, f_mid):
     lo, hi = f_mid * G10 ** (-1 / 6), f_mid * G10 ** (1 / 6)
     modes = resonant_modes(a, b, h, lo, hi)
     assert len(modes) >= 10
-    modal = np.mean(
-        [
-            radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
-            for i, j, fm in modes
-        ]
-    )
+    modal = np.mean([radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
+                     for i, j, fm in modes])
     asymptote = 1.0 / math.sqrt(1.0 - fc / f_mid)
     assert modal == pytest.approx(asymptote, rel=0.03)
     band = rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
@@ -170,14 +151,11 @@ def test_forced_radiation_en12354_regression():
     # Annex B formula as recalled): 1.5 m x 1.0 m panel.
     f = np.array([100.0, 501.19, 1995.26, 3981.07])
     expect = np.array([0.4843, 1.2826, 1.9731, 2.0])
-    np.testing.assert_allclose(
-        rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0), expect, atol=1e-4
-    )
+    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0), expect,
+                               atol=1e-4)
     # symmetric in the side lengths
-    np.testing.assert_allclose(
-        rad.forced_radiation_efficiency_en12354(f, 1.0, 1.5, c0=C0),
-        rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0),
-    )
+    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.0, 1.5, c0=C0),
+                               rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0))
 
 
 @pytest.mark.regression
@@ -185,21 +163,12 @@ def test_single_frequency_regression_table():
     # [C] regression values of PHYSICS.md sec. 4.5 (steel 1 mm, 1.5 x 1.0 m, f_c = 11 963 Hz).
     fc = 11963.0
     f = np.array([100.0, 1000.0, 7943.28, 19952.6])
-    np.testing.assert_allclose(
-        rad.radiation_efficiency_leppington(f, 1.5, 1.0, fc, c0=C0),
-        [8.9405e-4, 3.1009e-3, 2.9787e-2, 1.5803],
-        rtol=2e-4,
-    )
-    np.testing.assert_allclose(
-        rad.radiation_efficiency_maidanik(f, 1.5, 1.0, fc, c0=C0),
-        [1.1371e-3, 3.1686e-3, 2.9787e-2, 1.5803],
-        rtol=2e-4,
-    )
-    np.testing.assert_allclose(
-        rad.radiation_efficiency_en12354(f, 1.5, 1.0, fc, c0=C0),
-        [1.3801e-3, 3.2363e-3, 2.9787e-2, 1.5803],
-        rtol=2e-4,
-    )
+    np.testing.assert_allclose(rad.radiation_efficiency_leppington(f, 1.5, 1.0, fc, c0=C0),
+                               [8.9405e-4, 3.1009e-3, 2.9787e-2, 1.5803], rtol=2e-4)
+    np.testing.assert_allclose(rad.radiation_efficiency_maidanik(f, 1.5, 1.0, fc, c0=C0),
+                               [1.1371e-3, 3.1686e-3, 2.9787e-2, 1.5803], rtol=2e-4)
+    np.testing.assert_allclose(rad.radiation_efficiency_en12354(f, 1.5, 1.0, fc, c0=C0),
+                               [1.3801e-3, 3.2363e-3, 2.9787e-2, 1.5803], rtol=2e-4)
 
 
 def test_band_average_equals_adaptive_integral():
@@ -208,12 +177,8 @@ def test_band_average_equals_adaptive_integral():
     for f_mid in (250.0, 1250.0, 1600.0, 4000.0):
         lo, hi = f_mid * G10 ** (-1 / 6), f_mid * G10 ** (1 / 6)
         val, _ = integrate.quad(
-            lambda x: float(rad.radiation_efficiency_leppington(x, a, b, fc)),
-            lo,
-            hi,
-            points=[fc] if lo < fc < hi else None,
-            limit=200,
-        )
+            lambda x: float(rad.radiation_efficiency_leppington(x, a, b, fc)), lo, hi,
+            points=[fc] if lo < fc < hi else None, limit=200)
         got = rad.radiation_efficiency_band(f_mid, a, b, fc, bands_per_octave=3.0)
         assert float(got) == pytest.approx(val / (hi - lo), rel=2e-3)
 
@@ -240,6 +205,4 @@ def test_input_validation():
     with pytest.raises(ValueError, match="corner_factor"):
         rad.radiation_efficiency_maidanik(100.0, 1.0, 1.0, 1000.0, corner_factor=-1.0)
     with pytest.raises(ValueError, match="radius"):
-        radiation_curved.radiation_efficiency_curved_panel(
-            100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3
-        )
+        radiation_curved.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3)

@@ -51,9 +51,7 @@ def third_octaves(k_lo: int, k_hi: int) -> tuple[np.ndarray, np.ndarray, np.ndar
 # ------------------------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(
-    ("h", "l1", "l2"), [(1.5e-3, 1.5, 1.0), (3e-3, 2.4, 2.9), (1e-3, 0.6, 1.8)]
-)
+@pytest.mark.parametrize(("h", "l1", "l2"), [(1.5e-3, 1.5, 1.0), (3e-3, 2.4, 2.9), (1e-3, 0.6, 1.8)])
 def test_infinite_radius_reproduces_leppington_band(h, l1, l2):
     # Leppington, Broadbent & Heron (1982) band-averaged over frequency
     # (radiation_efficiency_band, itself checked against Wallace modal averages); bands from
@@ -276,9 +274,7 @@ def test_curved_radiates_more_than_flat_below_ring_frequency(closed):
 def test_broadcasting_and_default_band_edges():
     fc, cl = wall(1.5e-3)
     f = np.array([[200.0, 400.0], [800.0, 1600.0]])
-    got = radiation_curved.radiation_efficiency_curved_panel(
-        f, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl
-    )
+    got = radiation_curved.radiation_efficiency_curved_panel(f, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl)
     assert got.shape == f.shape
     lo, hi = f * G10 ** (-1 / 6), f * G10 ** (1 / 6)
     explicit = radiation_curved.radiation_efficiency_curved_panel(
@@ -293,26 +289,15 @@ def test_broadcasting_and_default_band_edges():
                                                           longitudinal_speed=cl))
               for r in radii]  # fmt: skip
     np.testing.assert_allclose(per_radius, single, rtol=1e-12)
-    assert (
-        np.ndim(
-            radiation_curved.radiation_efficiency_curved_panel(
-                300.0, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl
-            )
-        )
-        == 0
-    )
+    assert np.ndim(radiation_curved.radiation_efficiency_curved_panel(300.0, 1.5, 1.0, fc, 2.0,
+                                                         longitudinal_speed=cl)) == 0
 
 
 def test_quadrature_converged():
     # default node counts against four times as many (band containing f_m, the hardest)
     fc, cl = wall(1.5e-3)
     fm, lo, hi = third_octaves(20, 30)
-    kw: dict[str, Any] = {
-        "longitudinal_speed": cl,
-        "poisson_ratio": NU_AL,
-        "f_lower": lo,
-        "f_upper": hi,
-    }
+    kw: dict[str, Any] = {"longitudinal_speed": cl, "poisson_ratio": NU_AL, "f_lower": lo, "f_upper": hi}
     got = radiation_curved.radiation_efficiency_curved_panel(fm, 1.5, 1.0, fc, 2.0, **kw)
     fine = radiation_curved.radiation_efficiency_curved_panel(
         fm, 1.5, 1.0, fc, 2.0, n_angle=96, n_wavenumber=48, **kw

@@ -75,9 +75,8 @@ FloatArray = npt.NDArray[np.float64]
 def clamped_root(p: int) -> float:
     """p-th positive root of cos(x) cosh(x) = 1 (it lies in (p pi, (p + 1) pi))."""
     return float(
-        optimize.brentq(
-            lambda x: math.cos(x) - 1.0 / math.cosh(x), p * math.pi, (p + 1) * math.pi, xtol=1e-15
-        )
+        optimize.brentq(lambda x: math.cos(x) - 1.0 / math.cosh(x), p * math.pi,
+                        (p + 1) * math.pi, xtol=1e-15)
     )
 
 
@@ -157,9 +156,8 @@ def warburton_h(p: int) -> float:
 # ------------------------------------------------------------------------------------------
 
 
-def sigma_modal(
-    f: float, m: int, n: int, a: float, b: float, edges: str, n_quad: int | None = None
-) -> float:
+def sigma_modal(f: float, m: int, n: int, a: float, b: float, edges: str,
+                n_quad: int | None = None) -> float:
     """One-sided radiation efficiency of plate mode (m, n), Fahy & Gardonio (2007) ch. 3."""
     k = 2.0 * math.pi * f / C0
     # Gauss-Legendre nodes per angle: the integrand is smooth (k <= 2 pi f/c0 bounds the
@@ -188,9 +186,8 @@ def plate_constants(h: float) -> tuple[float, float, float]:
     return d, m, C0**2 / (2.0 * math.pi) * math.sqrt(m / d)
 
 
-def modes_in_band(
-    a: float, b: float, h: float, lo: float, hi: float, edges: str
-) -> list[tuple[int, int, float]]:
+def modes_in_band(a: float, b: float, h: float, lo: float, hi: float,
+                  edges: str) -> list[tuple[int, int, float]]:
     """(m, n, f_mn) of the plate modes with lo <= f_mn < hi.
 
     Simply supported: f = (pi/2) sqrt(D/m'') ((m/a)^2 + (n/b)^2) (Leissa 1969, NASA SP-160).
@@ -229,12 +226,8 @@ def modes_in_band(
 
 def test_clamped_beam_functions_match_blevins_table():
     # Blevins (1979) table 8-1, clamped-clamped (from memory): beta L and sigma_p.
-    table = [
-        (4.73004074, 0.982502215),
-        (7.85320462, 1.000777312),
-        (10.9956078, 0.999966450),
-        (14.1371655, 1.000001450),
-    ]
+    table = [(4.73004074, 0.982502215), (7.85320462, 1.000777312),
+             (10.9956078, 0.999966450), (14.1371655, 1.000001450)]
     for p, (lam, s) in enumerate(table, start=1):
         assert clamped_root(p) == pytest.approx(lam, rel=1e-8)
         assert _clamped_coefficients(p)[1] == pytest.approx(s, rel=1e-8)
@@ -271,12 +264,10 @@ def _sine_at(m: int, length: float, x: float) -> float:
 
 def _quad_ft2(shape: Callable[[float], float], length: float, kappa: float) -> float:
     """|int_0^L shape(x) exp(j kappa x) dx|^2 by scipy.integrate.quad (real and imaginary)."""
-    re, _ = integrate.quad(
-        lambda x: shape(x) * math.cos(kappa * x), 0.0, length, limit=400, epsabs=1e-13
-    )
-    im, _ = integrate.quad(
-        lambda x: shape(x) * math.sin(kappa * x), 0.0, length, limit=400, epsabs=1e-13
-    )
+    re, _ = integrate.quad(lambda x: shape(x) * math.cos(kappa * x), 0.0, length,
+                           limit=400, epsabs=1e-13)
+    im, _ = integrate.quad(lambda x: shape(x) * math.sin(kappa * x), 0.0, length,
+                           limit=400, epsabs=1e-13)
     return re * re + im * im
 
 
@@ -296,22 +287,15 @@ def test_closed_form_transforms_match_adaptive_quadrature():
 
 @pytest.mark.parametrize(
     ("m", "n", "a", "b", "ka"),
-    [
-        (1, 1, 1.0, 1.0, 0.3),
-        (3, 6, 1.0, 0.8, 12.0),
-        (5, 2, 1.5, 1.0, 6.0),
-        (20, 3, 1.5, 1.0, 9.0),
-        (2, 2, 1.2, 0.9, 2.0),
-    ],
+    [(1, 1, 1.0, 1.0, 0.3), (3, 6, 1.0, 0.8, 12.0), (5, 2, 1.5, 1.0, 6.0),
+     (20, 3, 1.5, 1.0, 9.0), (2, 2, 1.2, 0.9, 2.0)],
 )
 def test_rayleigh_integral_reproduces_wallace_for_simply_supported_modes(m, n, a, b, ka):
     # Wallace (1972) modal integral (Vigran 2008 eqs. 6.46-6.47) against the wavenumber-domain
     # Rayleigh integral of the same mode (Fahy & Gardonio 2007): two different formulations.
     f = ka * C0 / (2.0 * math.pi * a)
     got = sigma_modal(f, m, n, a, b, "simply_supported")
-    ref = radiation_modal.modal_radiation_efficiency_wallace(
-        f, m, n, a, b, c0=C0, n_theta=160, n_phi=160
-    )
+    ref = radiation_modal.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0, n_theta=160, n_phi=160)
     assert got == pytest.approx(ref, rel=1e-6)
 
 
@@ -331,19 +315,9 @@ def test_clamped_modal_quadrature_is_converged():
 
 # deterministic ensemble of steel panels, a in [1.2, 2.0] m, b in [0.8, 1.2] m (the same as in
 # tests/physics/test_radiation.py)
-PANELS = [
-    (1.2 + 0.8 * x, 0.8 + 0.4 * y)
-    for x, y in [
-        (0.1, 0.7),
-        (0.35, 0.2),
-        (0.6, 0.9),
-        (0.85, 0.4),
-        (0.2, 0.45),
-        (0.5, 0.05),
-        (0.75, 0.6),
-        (0.95, 0.95),
-    ]
-]
+PANELS = [(1.2 + 0.8 * x, 0.8 + 0.4 * y) for x, y in
+          [(0.1, 0.7), (0.35, 0.2), (0.6, 0.9), (0.85, 0.4),
+           (0.2, 0.45), (0.5, 0.05), (0.75, 0.6), (0.95, 0.95)]]
 
 
 def modal_band_average(a: float, b: float, h: float, lo: float, hi: float, edges: str) -> float:
@@ -371,14 +345,10 @@ def test_clamped_band_average_is_twice_simply_supported_below_coincidence(f_mid)
     for a, b in PANELS:
         cc_modal = modal_band_average(a, b, h, lo, hi, "clamped")
         ss_modal = modal_band_average(a, b, h, lo, hi, "simply_supported")
-        band_cc = float(
-            rad.radiation_efficiency_band(
-                f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0, edges="clamped"
-            )
-        )
-        band_ss = float(
-            rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
-        )
+        band_cc = float(rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi,
+                                                      c0=C0, edges="clamped"))
+        band_ss = float(rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi,
+                                                      c0=C0))
         cc.append(cc_modal)
         ss.append(ss_modal)
         cc_rel.append(cc_modal / band_cc)
@@ -427,20 +397,17 @@ def test_clamped_doubles_below_and_keeps_above_coincidence():
     # Maidanik: only the edge-mode term doubles (corner_factor = 0 isolates it)
     for cf in (0.0, 1.0):
         mss = rad.radiation_efficiency_maidanik(F_BANDS, 1.5, 1.0, fc, corner_factor=cf)
-        mcc = rad.radiation_efficiency_maidanik(
-            F_BANDS, 1.5, 1.0, fc, corner_factor=cf, edges="clamped"
-        )
+        mcc = rad.radiation_efficiency_maidanik(F_BANDS, 1.5, 1.0, fc, corner_factor=cf,
+                                                edges="clamped")
         edge = rad.radiation_efficiency_maidanik(F_BANDS, 1.5, 1.0, fc, corner_factor=0.0)
         np.testing.assert_allclose(mcc[below], mss[below] + edge[below], rtol=1e-12)
         np.testing.assert_allclose(mcc[above], mss[above], rtol=1e-12)
     # dispatch and band average pass the option on
-    np.testing.assert_allclose(
-        rad.radiation_efficiency(F_BANDS, 1.5, 1.0, fc, edges="clamped"), cc, rtol=1e-12
-    )
+    np.testing.assert_allclose(rad.radiation_efficiency(F_BANDS, 1.5, 1.0, fc, edges="clamped"),
+                               cc, rtol=1e-12)
     band = rad.radiation_efficiency_band(F_BANDS[:3], 1.5, 1.0, fc, edges="clamped")
-    np.testing.assert_allclose(
-        band, 2.0 * rad.radiation_efficiency_band(F_BANDS[:3], 1.5, 1.0, fc), rtol=1e-12
-    )
+    np.testing.assert_allclose(band, 2.0 * rad.radiation_efficiency_band(F_BANDS[:3], 1.5, 1.0,
+                                                                         fc), rtol=1e-12)
 
 
 def test_edges_option_rejects_bad_values():
@@ -455,5 +422,4 @@ def test_edges_option_rejects_bad_values():
     # the default is simply supported: unchanged results
     np.testing.assert_array_equal(
         rad.radiation_efficiency_band(F_BANDS, 1.5, 1.0, 5e3),
-        rad.radiation_efficiency_band(F_BANDS, 1.5, 1.0, 5e3, edges="simply_supported"),
-    )
+        rad.radiation_efficiency_band(F_BANDS, 1.5, 1.0, 5e3, edges="simply_supported"))

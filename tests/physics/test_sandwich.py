@@ -101,9 +101,7 @@ def test_sandwich_modal_density_vs_simply_supported_count() -> None:
     )
     fmodes = (np.sqrt(k2**2 * bb / sec.surface_density) / (2 * np.pi)).ravel()
     fm, lo, hi = third_octave_bands(33, 43)  # 2 kHz ... 20 kHz: shear-dominated range
-    counted = np.array(
-        [np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)]
-    )
+    counted = np.array([np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)])
     expected = np.array(
         [
             integrate.quad(lambda f: float(sandwich.sandwich_modal_density(f, a * b, sec)), x, y)[0]

@@ -41,9 +41,7 @@ def test_cylinder_ratio_asymptotes() -> None:
     # high: 1 + 3/(16 nu^2)
     c_low = 2 / np.pi * special.gamma(0.25) ** 2 / (4 * np.sqrt(2 * np.pi))
     nu = np.array([1e-4, 1e-3])
-    np.testing.assert_allclose(
-        shells.cylinder_modal_density_ratio(nu) / np.sqrt(nu), c_low, rtol=1e-3
-    )
+    np.testing.assert_allclose(shells.cylinder_modal_density_ratio(nu) / np.sqrt(nu), c_low, rtol=1e-3)
     nu = np.array([20.0, 50.0])
     np.testing.assert_allclose(
         shells.cylinder_modal_density_ratio(nu), 1 + 3 / (16 * nu**2), rtol=1e-4
@@ -85,9 +83,9 @@ def test_shell_modal_density_vs_donnell_mode_count() -> None:
     e, rho, nu, h, a, length = E_ST, RHO_ST, NU_ST, 1e-3, 0.5, 2.0
     fmodes, mult = _donnell_mode_frequencies(e, rho, nu, h, a, length, 140, 110)
     area = 2 * np.pi * a * length
-    f_peak = float(
-        shells.ring_frequency(a, elastic.plate_longitudinal_speed(e, rho, nu))
-    ) * np.sqrt(1 - nu**2)
+    f_peak = float(shells.ring_frequency(a, elastic.plate_longitudinal_speed(e, rho, nu))) * np.sqrt(
+        1 - nu**2
+    )
     fm, lo, hi = third_octave_bands(24, 37)  # 250 Hz ... 5 kHz, f_r = 1726 Hz
     ratios = []
     for x, y in zip(lo, hi, strict=True):
@@ -106,7 +104,9 @@ def test_shell_modal_density_vs_donnell_mode_count() -> None:
     assert np.all(np.abs(ratios_arr - 1) < 0.10)
     assert np.mean(np.abs(ratios_arr - 1)) < 0.03
     # well above the ring frequency the shell tends to the flat plate
-    n_p = plates.plate_bending_modal_density(1.0, area, plates.bending_stiffness(e, h, nu), rho * h)
+    n_p = plates.plate_bending_modal_density(
+        1.0, area, plates.bending_stiffness(e, h, nu), rho * h
+    )
     assert shells.shell_bending_modal_density(10 * f_peak, area, a, h, e, rho, nu) == pytest.approx(
         n_p, rel=0.01
     )

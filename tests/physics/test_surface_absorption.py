@@ -94,8 +94,7 @@ def test_paris_quadrature_matches_closed_form_local():
         closed = surface_absorption.statistical_absorption_local(zs, rho0=RHO0, c0=C0)
         num = quad(
             lambda t, zs=zs: (
-                surface_absorption.absorption_coefficient(zs, angle=t, rho0=RHO0, c0=C0)
-                * math.sin(2 * t)
+                surface_absorption.absorption_coefficient(zs, angle=t, rho0=RHO0, c0=C0) * math.sin(2 * t)
             ),
             0,
             math.pi / 2,
@@ -103,18 +102,14 @@ def test_paris_quadrature_matches_closed_form_local():
         np.testing.assert_allclose(closed, num, rtol=1e-9)
         np.testing.assert_allclose(
             surface_absorption.paris_integral(
-                lambda t, zs=zs: surface_absorption.absorption_coefficient(
-                    zs, angle=t, rho0=RHO0, c0=C0
-                )
+                lambda t, zs=zs: surface_absorption.absorption_coefficient(zs, angle=t, rho0=RHO0, c0=C0)
             ),
             num,
             rtol=1e-8,
         )
     # analytic value at zeta = 1 from the closed form: 8 (3/2 - 2 ln 2) = 0.9096
     np.testing.assert_allclose(
-        surface_absorption.statistical_absorption_local(Z0, rho0=RHO0, c0=C0),
-        8 * (1.5 - 2 * math.log(2)),
-        rtol=1e-12,
+        surface_absorption.statistical_absorption_local(Z0, rho0=RHO0, c0=C0), 8 * (1.5 - 2 * math.log(2)), rtol=1e-12
     )
 
 

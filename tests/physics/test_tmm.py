@@ -72,9 +72,7 @@ def test_porous_plus_air_gap_against_ode(f):
     layers = [tmm.PorousLayer(0.03, **JCA_FOAM), tmm.AirLayer(0.04)]
     zc, kc = por.johnson_champoux_allard(f, 0.98, 1.02, 1e4, 100e-6, 250e-6, rho0=RHO0)
     zs_ode = _two_layer_impedance_ode(f, complex(zc), complex(kc), 0.03, 0.04)
-    np.testing.assert_allclose(
-        tmm.surface_impedance(f, layers, rho0=RHO0, c0=C0), zs_ode, rtol=1e-7
-    )
+    np.testing.assert_allclose(tmm.surface_impedance(f, layers, rho0=RHO0, c0=C0), zs_ode, rtol=1e-7)
 
 
 def test_diffuse_absorption_matches_porous_module():

@@ -20,11 +20,8 @@ def db(tau):
 def test_limp_limit_of_infinite_panel():
     # With f_c -> infinity the elastic panel is the limp mass law (Fahy 1985 ch. 4).
     th = np.linspace(0.0, 1.5, 7)
-    np.testing.assert_allclose(
-        tr.transmission_infinite_panel(800.0, th, 12.0, 1e12, 0.01),
-        mass_law.transmission_mass_law_oblique(800.0, 12.0, th),
-        rtol=1e-9,
-    )
+    np.testing.assert_allclose(tr.transmission_infinite_panel(800.0, th, 12.0, 1e12, 0.01),
+                               mass_law.transmission_mass_law_oblique(800.0, 12.0, th), rtol=1e-9)
 
 
 def test_infinite_panel_total_transmission_at_coincidence_without_damping():
@@ -34,10 +31,8 @@ def test_infinite_panel_total_transmission_at_coincidence_without_damping():
     assert float(tr.transmission_infinite_panel(f, th, 20.0, fc, 0.0)) == pytest.approx(1.0)
 
 
-@pytest.mark.parametrize(
-    ("m", "fc", "ratio"),
-    [(7.85, 11963.0, 4.0), (7.85, 11963.0, 8.0), (20.0, 600.0, 4.0), (20.0, 600.0, 8.0)],
-)
+@pytest.mark.parametrize(("m", "fc", "ratio"), [(7.85, 11963.0, 4.0), (7.85, 11963.0, 8.0),
+                                                (20.0, 600.0, 4.0), (20.0, 600.0, 8.0)])
 def test_cremer_equals_random_incidence_integral_well_above_coincidence(m, fc, ratio):
     # Cremer (1942): asymptotic evaluation of the random-incidence integral of the infinite
     # panel tau (checked here by adaptive quadrature, an independent numerical method) for
@@ -51,12 +46,9 @@ def test_cremer_equals_random_incidence_integral_well_above_coincidence(m, fc, r
 def test_cremer_formula_dB_form():
     # R = 20 lg(pi f m''/(rho0 c0)) + 10 lg(2 eta f/(pi f_c)) (Cremer 1942; PHYSICS.md 6.4).
     f, m, fc, eta = 16000.0, 7.85, 11963.0, 0.01
-    expect = 20 * math.log10(math.pi * f * m / (RHO0 * C0)) + 10 * math.log10(
-        2 * eta * f / (math.pi * fc)
-    )
-    assert float(db(tr.transmission_cremer(f, m, fc, eta, rho0=RHO0, c0=C0))) == pytest.approx(
-        expect, abs=1e-9
-    )
+    expect = (20 * math.log10(math.pi * f * m / (RHO0 * C0))
+              + 10 * math.log10(2 * eta * f / (math.pi * fc)))
+    assert float(db(tr.transmission_cremer(f, m, fc, eta, rho0=RHO0, c0=C0))) == pytest.approx(expect, abs=1e-9)
     assert np.isnan(tr.transmission_cremer(500.0, m, fc, eta, rho0=RHO0, c0=C0))
 
 
@@ -95,15 +87,11 @@ def test_sharp_regions():
     # continuous at f_c/2 and f_c.
     m, fc, eta = 15.0, 2500.0, 0.02
     f_low = np.array([100.0, 400.0, 1000.0])
-    np.testing.assert_allclose(
-        tr.transmission_loss_sharp(f_low, m, fc, eta), 20 * np.log10(f_low * m) - 47.0, atol=1.0
-    )
+    np.testing.assert_allclose(tr.transmission_loss_sharp(f_low, m, fc, eta),
+                               20 * np.log10(f_low * m) - 47.0, atol=1.0)
     f_high = np.array([3000.0, 10000.0])
-    np.testing.assert_allclose(
-        tr.transmission_loss_sharp(f_high, m, fc, eta),
-        db(tr.transmission_cremer(f_high, m, fc, eta)),
-        atol=1e-9,
-    )
+    np.testing.assert_allclose(tr.transmission_loss_sharp(f_high, m, fc, eta),
+                               db(tr.transmission_cremer(f_high, m, fc, eta)), atol=1e-9)
     for edge in (0.5 * fc, fc):
         lo = tr.transmission_loss_sharp(edge * (1 - 1e-9), m, fc, eta)
         hi = tr.transmission_loss_sharp(edge * (1 + 1e-9), m, fc, eta)
@@ -119,9 +107,8 @@ def test_mass_air_mass_frequency():
 
 
 def test_conversions_and_validation():
-    np.testing.assert_allclose(
-        tr.transmission_from_loss(tr.loss_from_transmission([0.1, 1e-3])), [0.1, 1e-3]
-    )
+    np.testing.assert_allclose(tr.transmission_from_loss(tr.loss_from_transmission([0.1, 1e-3])),
+                               [0.1, 1e-3])
     assert float(tr.loss_from_transmission(0.01)) == pytest.approx(20.0)
     with pytest.raises(ValueError, match="m_area"):
         mass_law.transmission_mass_law_normal(100.0, -1.0)
