@@ -70,7 +70,9 @@ def bench_monte_carlo(samples: int, repeat: int, busy: bool) -> None:
     unc: dict[str, Any] = {}
     for i in range(100):
         unc[f"d{i}"] = {
-            "parameter": f"subsystems.s{i}.damping", "distribution": "lognormal", "factor": 1.5
+            "parameter": f"subsystems.s{i}.damping",
+            "distribution": "lognormal",
+            "factor": 1.5,
         }
     for k in range(20):
         unc[f"c{k}"] = {

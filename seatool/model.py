@@ -27,6 +27,7 @@ __all__ = [
     "Model",
     "ModelError",
     "Subsystem",
+    "Target",
 ]
 
 Quantity = Literal["sound_pressure", "velocity", "energy"]
@@ -177,6 +178,23 @@ class Uncertain:
 
 
 @dataclass(frozen=True)
+class Target:
+    """Noise limits for one receiver subsystem (``[targets.NAME]`` of a model file).
+
+    ``limits`` maps a metric name (a key of :data:`seatool.metrics.METRICS`, e.g. ``dBA``)
+    to its limit in the metric's unit; ``band_limit`` is a per-band limit [dB] of the
+    receiver's band level (same reference as its level), or None. A target is met when no
+    level exceeds its limit (margin = limit - level >= 0).
+    """
+
+    name: str
+    receiver: str
+    limits: Mapping[str, float] = field(default_factory=dict)
+    band_limit: Array | None = None
+    description: str = ""
+
+
+@dataclass(frozen=True)
 class Model:
     """A complete SEA model, ready to solve."""
 
@@ -192,6 +210,8 @@ class Model:
     reports: tuple[str, ...] = ()
     #: The validated ``[uncertainty.NAME]`` spreads (used by the Monte Carlo analysis).
     uncertainty: tuple[Uncertain, ...] = ()
+    #: Noise limits per receiver (``[targets.NAME]``), checked by :mod:`seatool.analysis.targets`.
+    targets: tuple[Target, ...] = ()
 
     def __post_init__(self) -> None:
         nb = len(self.bands)
@@ -271,6 +291,23 @@ class Model:
             if self.subsystem(n).sink:
                 raise ModelError(f"the exterior {n!r} cannot have a prescribed level")
         object.__setattr__(self, "excitations", tuple(exs))
+        tgs = []
+        tnames: set[str] = set()
+        for t in self.targets:
+            if t.name in tnames:
+                raise ModelError(f"duplicate target name {t.name!r}")
+            tnames.add(t.name)
+            if t.receiver not in known:
+                raise ModelError(f"targets.{t.name}: unknown subsystem {t.receiver!r}")
+            if self.subsystem(t.receiver).sink:
+                raise ModelError(f"targets.{t.name}: the exterior sink has no level")
+            if not t.limits and t.band_limit is None:
+                raise ModelError(f"targets.{t.name}: no limit given")
+            bl = None
+            if t.band_limit is not None:
+                bl = _frozen(t.band_limit, nb, f"targets.{t.name}.band_limit")
+            tgs.append(_replace(t, limits=dict(t.limits), band_limit=bl))
+        object.__setattr__(self, "targets", tuple(tgs))
 
     # -- lookup -------------------------------------------------------------------------
     @property

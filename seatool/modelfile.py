@@ -30,6 +30,7 @@ from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYST
 from .kinds.spreads import read_uncertainty_section
 from .kinds.validate import check, check_derived, check_value, read_material_section
 from .model import Connection, Excitation, Model, ModelError, Subsystem
+from .targetfile import read_targets
 
 __all__ = [
     "CONNECTION_KINDS",
@@ -51,6 +52,7 @@ _TOP_KEYS = (
     "connections",
     "excitations",
     "uncertainty",
+    "targets",  # noise limits per receiver (seatool.targetfile)
 )
 
 _MISSING = object()
@@ -459,6 +461,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
     spreads = read_uncertainty_section(rd, data)
+    targets = read_targets(rd, data, subs)
     if rd.problems:
         raise InputError(rd.problems)
     try:
@@ -472,6 +475,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             notes=tuple(rd.notes),
             reports=tuple(rd.reports),
             uncertainty=tuple(spreads),
+            targets=tuple(targets),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None

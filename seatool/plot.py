@@ -15,6 +15,7 @@ from typing import IO, Any
 
 import networkx as nx
 import numpy as np
+import pandas as pd
 
 from .errors import InputError, Problem
 from .levels import CAUTION, power_level
@@ -23,6 +24,7 @@ from .results import Result
 __all__ = [
     "PALETTE",
     "PLOT_SUFFIXES",
+    "plot_band_margins",
     "plot_contributions",
     "plot_energy_flow",
     "plot_levels",
@@ -31,6 +33,7 @@ __all__ = [
     "plot_sensitivity",
     "plot_spread",
     "plot_target",
+    "plot_variants",
 ]
 
 #: File types a figure can be written as.
@@ -466,3 +469,65 @@ def plot_panel(table: Any, bands: Any, out: Output, *, title: str = "panel",
     ax1.legend(fontsize=8, loc="best", framealpha=0.9)
     ax1.set_title(title, loc="left", fontsize=11)
     _save(fig, out, fmt)
+
+
+def _hz_axis(ax: Any, hz: Sequence[float]) -> None:
+    ax.set_xscale("log")
+    ticks = list(hz)
+    step = max(1, len(ticks) // 12)
+    ax.set_xticks(ticks[::step])
+    ax.set_xticklabels([f"{f:g}" for f in ticks[::step]], rotation=45, ha="right", fontsize=8)
+    ax.minorticks_off()
+    ax.set_xlabel("band [Hz]")
+    ax.grid(True, which="both", alpha=0.3)
+
+
+def plot_band_margins(margins: pd.DataFrame, path: str | os.PathLike[str]) -> Path:
+    """Write a figure of the margin per band (limit - level, positive = met) of each target
+    with a band limit (rows ``limit_on == 'band'`` of a margin table, optionally with a
+    ``variant`` column) to ``path``."""
+    plt = _pyplot()
+    rows = margins[margins["limit_on"] == "band"]
+    fig, ax = plt.subplots(figsize=(8.0, 4.2))
+    keys = ["variant", "target"] if "variant" in rows.columns else ["target"]
+    for key, grp in rows.groupby(keys, sort=False):
+        label = " / ".join(str(k) for k in (key if isinstance(key, tuple) else (key,)))
+        ax.plot(grp["band_hz"], grp["margin"], marker="o", markersize=3, label=label)
+    ax.axhline(0.0, color="k", linewidth=1.0)
+    if len(rows):
+        _hz_axis(ax, sorted(set(rows["band_hz"])))
+        ax.legend(fontsize=8)
+    ax.set_ylabel("margin = limit - level [dB] (positive = met)")
+    ax.set_title("margins to the band limits", fontsize=10)
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    out = Path(path)
+    fig.savefig(out, dpi=130)
+    plt.close(fig)
+    return out
+
+
+def plot_variants(difference: pd.DataFrame, path: str | os.PathLike[str]) -> Path:
+    """Write a figure of the band-by-band level difference of each variant to the base
+    (a variants ``difference`` table), one panel per receiver, to ``path``."""
+    plt = _pyplot()
+    recs = list(dict.fromkeys(difference["receiver"]))
+    fig, axes = plt.subplots(
+        max(1, len(recs)), 1, figsize=(8.0, 3.2 * max(1, len(recs)) + 0.6), squeeze=False
+    )
+    for ax, r in zip(axes[:, 0], recs, strict=False):
+        sub = difference[(difference["receiver"] == r) & (difference["variant"] != "base")]
+        for v, grp in sub.groupby("variant", sort=False):
+            ax.plot(grp["band_hz"], grp["difference_dB"], marker="o", markersize=3, label=str(v))
+        ax.axhline(0.0, color="k", linewidth=1.0)
+        ax.axhline(1.0, color="r", linewidth=0.8, linestyle="--")
+        _hz_axis(ax, sorted(set(sub["band_hz"])) or [1.0])
+        ax.set_ylabel(f"{r}: variant - base [dB]")
+        ax.legend(fontsize=8)
+    axes[0, 0].set_title("design variants against the base (dashed: +1 dB)", fontsize=10)
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    out = Path(path)
+    fig.savefig(out, dpi=130)
+    plt.close(fig)
+    return out

@@ -47,6 +47,7 @@ MODULES = {
     "seatool.kinds": "readers",
     "seatool.modelfile": "readers",
     "seatool.catalogue": "readers",
+    "seatool.targetfile": "readers",
     "seatool.bandsolve": "solve",
     "seatool.solve": "solve",
     "seatool.results": "results",

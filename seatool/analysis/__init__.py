@@ -8,8 +8,20 @@ validity indicators (modes in band, modal overlap).
 
 from __future__ import annotations
 
-from . import comfort, confidence, measured, panel, paths, sensitivity, uncertainty
+from . import (
+    candidates,
+    comfort,
+    confidence,
+    lightest,
+    measured,
+    panel,
+    paths,
+    sensitivity,
+    targets,
+    uncertainty,
+    variants,
+)
 from ._keypath import read_data
 from ._system import receiver_index
 
-__all__ = ["comfort", "confidence", "measured", "panel", "paths", "read_data", "receiver_index", "sensitivity", "uncertainty"]
+__all__ = ["candidates", "comfort", "lightest", "variants", "confidence", "measured", "panel", "paths", "read_data", "receiver_index", "sensitivity", "targets", "uncertainty"]

@@ -38,7 +38,7 @@ import seatool
 from .._version import __version__
 from ..errors import InputError
 from ..levels import CAUTION
-from . import analysis, measured, model, panel, report
+from . import analysis, decisions, measured, model, panel, report
 from ._common import EXIT_INPUT, EXIT_INTERNAL, Command
 
 __all__ = ["COMMANDS", "main"]
@@ -51,6 +51,8 @@ COMMANDS: tuple[Command, ...] = (
     analysis.PATHS,
     analysis.SENSITIVITY,
     analysis.SPREAD,
+    decisions.VARIANTS,
+    decisions.LIGHTEST,
     measured.LOSS_FACTORS,
     report.REPORT,
 )

@@ -14,7 +14,7 @@ from pathlib import Path
 from ..errors import InputError, Problem
 from ..levels import CAUTION
 
-EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
+EXIT_OK, EXIT_INTERNAL, EXIT_INPUT, EXIT_MISSED = 0, 1, 2, 3
 
 Handler = Callable[[argparse.Namespace], int]
 

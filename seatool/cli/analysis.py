@@ -266,6 +266,14 @@ def _cmd_spread(args: argparse.Namespace) -> int:
     print("\n".join(fmt_table(["subsystem", "nominal", "5 %", "50 %", "95 %"], rows)))
     if not t[t["subsystem"].isin(names)]["valid"].all():
         print(VALIDITY_NOTE.replace("the receiver", "that subsystem"))
+    if model.targets:
+        pm = seatool.analysis.targets.probability_of_meeting(sp)
+        print()
+        print("probability of meeting each target (fraction of the samples)")
+        rows = [[str(x["target"]), str(x["receiver"]), f"{x['probability']:.3f}",
+                 f"{x['standard_error']:.3f}", "met" if x["nominal_met"] else "missed"]
+                for _, x in pm.iterrows()]  # fmt: skip
+        print("\n".join(fmt_table(["target", "receiver", "probability", "+-", "nominal"], rows)))
     if out is not None:
         _write_csv(t, out)
         print(f"wrote {out}")

@@ -14,7 +14,7 @@ from pathlib import Path
 import seatool
 
 from ..errors import InputError, Problem, closest
-from ._common import EXIT_OK, Command, cannot_write, output_target, print_caution
+from ._common import EXIT_MISSED, EXIT_OK, Command, cannot_write, output_target, print_caution
 
 __all__ = ["CHECK", "SOLVE"]
 
@@ -46,6 +46,12 @@ def _solve_args(sp: argparse.ArgumentParser) -> None:
         "--metrics-csv",
         metavar="FILE",
         help="write the cavities' dB, dB(A), dB(C), SIL, sone and phon to FILE",
+    )
+    sp.add_argument(
+        "--fail-on-miss",
+        action="store_true",
+        help=f"exit with code {EXIT_MISSED} when a target of the model is missed "
+        "(by default a miss is a result, exit 0)",
     )
 
 
@@ -112,8 +118,17 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         except OSError as exc:
             raise cannot_write(plot_path, "--plot", exc) from None
         print(f"wrote {plot_path}")
+    missed = False
+    if model.targets:
+        targets = seatool.analysis.targets
+        print()
+        print(targets.render_margins(result, digits=args.digits, field=args.field))
+        vs = targets.verdicts(result, field=args.field)
+        print()
+        print(targets.render_verdicts(vs))
+        missed = not all(v.met for v in vs)
     print_caution()
-    return EXIT_OK
+    return EXIT_MISSED if missed and args.fail_on_miss else EXIT_OK
 
 
 def _check_args(cp: argparse.ArgumentParser) -> None:

@@ -16,6 +16,7 @@ from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
 
 __all__ = [
+    "mass_spring_mass_frequency",
     "resonator_band_fraction",
     "resonator_modal_density",
     "resonator_natural_frequency",
@@ -51,6 +52,50 @@ def resonator_natural_frequency(mass: npt.ArrayLike, stiffness: npt.ArrayLike) -
     m = _positive("mass", mass)
     k = _positive("stiffness", stiffness)
     return np.asarray(np.sqrt(k / m) / (2.0 * np.pi), dtype=np.float64)
+
+
+def mass_spring_mass_frequency(
+    stiffness_per_area: npt.ArrayLike, m1: npt.ArrayLike, m2: npt.ArrayLike
+) -> FloatArray:
+    """Resonance of two masses per area joined by a spring layer (a trim on a panel) [Hz].
+
+    Parameters
+    ----------
+    stiffness_per_area : float or array_like
+        Dynamic stiffness per area s' of the spring layer [N/m^3] (for a layer of air or
+        a porous decoupler of thickness d whose frame is not stiffer than its air:
+        s' = rho0 c0^2 / d).
+    m1, m2 : float or array_like
+        Masses per area of the panel and of the heavy layer [kg/m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        f0 [Hz]. Above about sqrt(2) f0 the spring isolates (the trim adds insertion loss);
+        around f0 the trim transmits more than the bare panel (negative insertion loss).
+
+    Notes
+    -----
+    .. math:: f_0 = \\frac{1}{2\\pi}\\sqrt{s'\\,\\frac{m_1 + m_2}{m_1 m_2}}
+
+    the natural frequency of two masses on a massless spring (the reduced mass
+    m1 m2 / (m1 + m2)); with s' = rho0 c0^2 / d it is the mass-air-mass resonance of a
+    double wall.
+
+    References
+    ----------
+    .. [1] Fahy, F., Gardonio, P. (2007). Sound and Structural Vibration: Radiation,
+       Transmission and Response, 2nd ed., Academic Press, ISBN 978-0-12-373633-8,
+       ch. 5 (sound transmission through double partitions: the mass-air-mass
+       resonance; chapter from memory, equation number not verified).
+    .. [2] Vigran, T.E. (2008). Building Acoustics. Taylor & Francis,
+       ISBN 978-0-415-42853-8, ch. 8 (double constructions: the mass-spring-mass
+       resonance f0 = (1/2 pi) sqrt(s' (m1 + m2)/(m1 m2)); from memory).
+    """
+    s = _positive("stiffness_per_area", stiffness_per_area)
+    a = _positive("m1", m1)
+    b = _positive("m2", m2)
+    return np.asarray(np.sqrt(s * (a + b) / (a * b)) / (2.0 * np.pi), dtype=np.float64)
 
 
 def resonator_band_fraction(

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from scipy import integrate
+from scipy.linalg import eigh
 
 from seatool.physics import resonators
 
@@ -67,3 +68,30 @@ def test_resonator_smooth_option_continuous_at_band_edge() -> None:
     n_hi = resonators.resonator_modal_density(lo, hi, lo * (1 + 1e-6), loss_factor=0.05)
     assert n_lo == pytest.approx(n_hi, rel=1e-4)
     assert resonators.resonator_modal_density(lo, hi, lo * (1 - 1e-6)) == 0.0
+
+
+# ---------------------------------------------------------------------------------------
+# mass-spring-mass (a trim on a panel)
+# ---------------------------------------------------------------------------------------
+@pytest.mark.parametrize(
+    ("s", "m1", "m2"), [(1.4e6, 9.4, 5.0), (2.8e7, 1.0, 1.0), (5e5, 20.0, 2.0)]
+)
+def test_mass_spring_mass_matches_the_two_dof_eigenvalue(s, m1, m2):
+    # Independent numerical method: the generalised eigenproblem K x = w^2 M x of two masses
+    # on a spring, K = s [[1, -1], [-1, 1]], M = diag(m1, m2) (scipy.linalg.eigh); one
+    # eigenvalue is the rigid-body 0, the other the resonance.
+    w2 = eigh(s * np.array([[1.0, -1.0], [-1.0, 1.0]]), np.diag([m1, m2]), eigvals_only=True)
+    expect = np.sqrt(max(w2)) / (2 * np.pi)
+    got = float(resonators.mass_spring_mass_frequency(s, m1, m2))
+    assert got == pytest.approx(expect, rel=1e-10)
+
+
+def test_mass_spring_mass_with_air_stiffness_is_the_double_wall_rule():
+    # Long (2006), Architectural Acoustics, eq. 9.48: f0 ~ 60 sqrt((m1 + m2)/(m1 m2 d)) Hz
+    # for air at room temperature (the constant is rounded: 2 % tolerance).
+    m1, m2, d = 10.0, 5.0, 0.025
+    s = 1.21 * 343.0**2 / d
+    got = float(resonators.mass_spring_mass_frequency(s, m1, m2))
+    assert got == pytest.approx(60 * np.sqrt((m1 + m2) / (m1 * m2 * d)), rel=0.02)
+    with pytest.raises(ValueError, match="stiffness_per_area"):
+        resonators.mass_spring_mass_frequency(-1.0, m1, m2)
