@@ -40,6 +40,7 @@ __all__ = [
     "coupling_matrix",
     "diffuse_field_directions",
     "face_axes",
+    "monopole_volume_velocity_squared",
     "plane_wave_modal_forces",
     "plate_mode_shape",
     "plate_modes",
@@ -177,8 +178,8 @@ def plate_modes(
     if pmax * qmax > 4 * MAX_MODES:
         msg = f"f_max = {fm:g} Hz asks for too many plate modes (about {pmax * qmax})"
         raise ValueError(msg)
-    p, q = np.meshgrid(np.arange(1, pmax + 1), np.arange(1, qmax + 1), indexing="ij")
-    p, q = p.ravel(), q.ravel()
+    pg, qg = np.meshgrid(np.arange(1, pmax + 1), np.arange(1, qmax + 1), indexing="ij")
+    p, q = pg.ravel(), qg.ravel()
     f = root * ((p * np.pi / a) ** 2 + (q * np.pi / b) ** 2) / (2.0 * np.pi)
     keep = f <= fm
     keep[np.argmin(f)] = True
@@ -521,3 +522,35 @@ def diffuse_field_directions(n_theta: int = 8, n_phi: int = 16) -> tuple[FloatAr
     th, ph = np.meshgrid(np.arccos(mu), phi, indexing="ij")
     weights = np.repeat(wt, n_phi) / n_phi
     return np.stack([th.ravel(), ph.ravel()], axis=1), np.asarray(weights, dtype=np.float64)
+
+
+def monopole_volume_velocity_squared(
+    f: npt.ArrayLike, sound_power: npt.ArrayLike, *, density: float, sound_speed: float
+) -> FloatArray:
+    """Mean-square volume velocity of a point monopole of given free-field sound power.
+
+    Parameters
+    ----------
+    f : float or array_like
+        Frequency [Hz].
+    sound_power : float or array_like
+        Free-field sound power W [W].
+    density, sound_speed : float
+        rho [kg/m^3], c [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        <Q^2> = 4 pi c W / (rho omega^2) [m^6/s^2], from W = rho omega^2 <Q^2> / (4 pi c).
+
+    References
+    ----------
+    .. [1] Pierce, A.D. (1981). Acoustics: An Introduction to Its Physical Principles and
+       Applications, McGraw-Hill, sec. 4.3 (radiated power of a monopole source), from
+       memory.
+    """
+    w = 2.0 * np.pi * _positive("f", f)
+    p = _nonnegative("sound_power", sound_power)
+    rho = float(_positive("density", density))
+    c = float(_positive("sound_speed", sound_speed))
+    return np.asarray(4.0 * np.pi * c * p / (rho * w**2), dtype=np.float64)

@@ -42,6 +42,7 @@ from typing import Literal
 
 import numpy as np
 import numpy.typing as npt
+from threadpoolctl import threadpool_limits
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
@@ -141,18 +142,32 @@ def _rhs(x: npt.ArrayLike | None, n_lines: int, size: int) -> ComplexArray:
     return a
 
 
+def _apply(b: FloatArray, x: ComplexArray) -> ComplexArray:
+    """b @ x[f] for every line f: real (S, G) times complex (F, G, R) -> (F, S, R), as two
+    real matrix products over all lines at once."""
+    nf, ng, nr = x.shape
+    xt = x.transpose(1, 0, 2).reshape(ng, nf * nr)
+    re = b @ np.ascontiguousarray(xt.real)
+    im = b @ np.ascontiguousarray(xt.imag)
+    return np.asarray((re + 1j * im).reshape(b.shape[0], nf, nr).transpose(1, 0, 2))
+
+
 def _reduced(diag: ComplexArray, inv_other: ComplexArray, b: FloatArray) -> ComplexArray:
     """diag(d) + B diag(1/o) B^T for a block of lines: (F, S) + (S, G) (F, G) (G, S)."""
     nf, ns = diag.shape
-    ng = b.shape[1]
-    # W[g, f, s] = inv_other[f, g] * B[s, g]; two real GEMMs with B (S, G) @ (G, F*S)
-    w = inv_other.T[:, :, None] * b.T[:, None, :]
-    re = b @ np.ascontiguousarray(w.real).reshape(ng, nf * ns)
-    im = b @ np.ascontiguousarray(w.imag).reshape(ng, nf * ns)
-    g = (re + 1j * im).reshape(ns, nf, ns).transpose(1, 0, 2)
+    g = _apply(b, inv_other[:, :, None] * b.T[None, :, :])
+    g = np.ascontiguousarray(g)
     idx = np.arange(ns)
     g[:, idx, idx] += diag
-    return np.asarray(g, dtype=np.complex128)
+    return g
+
+
+def _batched_solve(a: ComplexArray, b: ComplexArray) -> ComplexArray:
+    """Batched LU solves, one BLAS thread: many small factorisations gain nothing from
+    threads and lose much to thread contention on a busy machine (measured 50x slower with
+    two threads under load; see docs/performance.md)."""
+    with threadpool_limits(limits=1, user_api="blas"):
+        return np.asarray(np.linalg.solve(a, b), dtype=np.complex128)
 
 
 def solve_coupled(
@@ -224,15 +239,15 @@ def solve_coupled(
         if keep == "structure":
             yinv = 1.0 / yi
             g = _reduced(zi, yinv, c.T)
-            rhs = f[sl] - np.einsum("nk,ln,lnr->lkr", c, yinv, q[sl])
-            v = np.linalg.solve(g, rhs)
-            p = yinv[:, :, None] * (q[sl] + np.einsum("nk,lkr->lnr", c, v))
+            rhs = f[sl] - _apply(c.T, yinv[:, :, None] * q[sl])
+            v = _batched_solve(g, rhs)
+            p = yinv[:, :, None] * (q[sl] + _apply(c, v))
         else:
             zinv = 1.0 / zi
             g = _reduced(yi, zinv, c)
-            rhs = q[sl] + np.einsum("nk,lk,lkr->lnr", c, zinv, f[sl])
-            p = np.linalg.solve(g, rhs)
-            v = zinv[:, :, None] * (f[sl] - np.einsum("nk,lnr->lkr", c, p))
+            rhs = q[sl] + _apply(c, zinv[:, :, None] * f[sl])
+            p = _batched_solve(g, rhs)
+            v = zinv[:, :, None] * (f[sl] - _apply(c.T, p))
         vel[sl] = v
         prs[sl] = p
     return vel, prs
@@ -267,7 +282,7 @@ def solve_coupled_full(
     a[:, i_n, i_n] = y
     a[:, :nk, nk:] = c.T
     a[:, nk:, :nk] = -c
-    x = np.linalg.solve(a, rhs)
+    x = _batched_solve(a, rhs)
     return x[:, :nk], x[:, nk:]
 
 

@@ -121,8 +121,8 @@ def test_sine_exponential_integral_by_quadrature() -> None:
     a = 0.45
     for p in (1, 2, 5):
         for k in (0.0, 3.0, p * np.pi / a, -p * np.pi / a, 20.0):
-            re, _ = integrate.quad(lambda s: np.sin(p * np.pi * s / a) * np.cos(k * s), 0, a)
-            im, _ = integrate.quad(lambda s: -np.sin(p * np.pi * s / a) * np.sin(k * s), 0, a)
+            re, _ = integrate.quad(lambda s, p=p, k=k: np.sin(p * np.pi * s / a) * np.cos(k * s), 0, a)
+            im, _ = integrate.quad(lambda s, p=p, k=k: -np.sin(p * np.pi * s / a) * np.sin(k * s), 0, a)
             got = complex(mb.sine_exponential_integral(p, a, k))
             assert got == pytest.approx(complex(re, im), abs=1e-12)
 
