@@ -14,6 +14,7 @@ import numpy.typing as npt
 __all__ = [
     "REFERENCE",
     "acceleration_level",
+    "db",
     "energy_level",
     "level_sum",
     "mean_square_pressure",
@@ -48,9 +49,17 @@ def reference_label(quantity: str, reference: float | None = None) -> str:
     return f"re {ref:g} {_UNITS[quantity]}"
 
 
-def _db(ratio: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
+def db(ratio: npt.ArrayLike) -> npt.NDArray[np.float64]:
+    """10 lg(ratio) [dB] of a ratio of powers, energies or mean squares (-inf at 0).
+
+    The one decibel conversion of the package: every level shown to a user goes through
+    it (ISO 1683:2015, clause 3; common practice).
+    """
     with np.errstate(divide="ignore"):
-        return 10.0 * np.log10(ratio)
+        return np.asarray(10.0 * np.log10(np.asarray(ratio, dtype=float)), dtype=np.float64)
+
+
+_db = db
 
 
 def mean_square_pressure(

@@ -16,7 +16,7 @@ from typing import Any
 
 import numpy as np
 
-from seatool.physics import acoustic
+from seatool.physics import air
 
 __all__ = ["Fluid", "Material", "air_at", "load_fluids", "load_materials"]
 
@@ -191,14 +191,14 @@ def air_at(temperature_C: float = 20.0, pressure_Pa: float = 101325.0) -> Fluid:
     Returns
     -------
     Fluid
-        Density and speed of sound from :func:`seatool.physics.acoustic.air_density` and
-        :func:`seatool.physics.acoustic.air_sound_speed`.
+        Density and speed of sound from :func:`seatool.physics.air.air_density` and
+        :func:`seatool.physics.air.air_sound_speed`.
     """
-    rho = float(acoustic.air_density(temperature_C, pressure_Pa))
-    c = float(acoustic.air_sound_speed(temperature_C))
+    rho = float(air.air_density(temperature_C, pressure_Pa))
+    c = float(air.air_sound_speed(temperature_C))
     return Fluid(
         name=f"air ({temperature_C:g} C, {pressure_Pa:g} Pa)",
         density=rho,
         sound_speed=c,
-        source="ideal gas, dry air (seatool.physics.acoustic)",
+        source="ideal gas, dry air (seatool.physics.air)",
     )

@@ -34,14 +34,15 @@ from . import levels
 from .bands import BandAxis, BandError, band_index
 from .errors import InputError, Problem, closest
 from .model import Connection, Excitation, Model, ModelError, Subsystem
+from .physics.air import AIR_DENSITY, AIR_SOUND_SPEED
 
 __all__ = ["CONNECTION_KINDS", "SUBSYSTEM_KINDS", "Reader", "load", "loads"]
 
 Array = npt.NDArray[np.float64]
 
-#: Fluid used by a cavity that names none: air at 20 C, 101.325 kPa
-#: (rho = 1.204 kg/m^3, c = 343.2 m/s; ideal-gas values, common practice).
-DEFAULT_FLUID = {"density": 1.204, "sound_speed": 343.2}
+#: Fluid used by a cavity that names none: the default air of
+#: :mod:`seatool.physics.air` (20 C, 101.325 kPa; its source is cited there).
+DEFAULT_FLUID = {"density": AIR_DENSITY, "sound_speed": AIR_SOUND_SPEED}
 
 _TOP_KEYS = (
     "title",

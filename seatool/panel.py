@@ -1,168 +1,37 @@
 """``seatool panel``: band-by-band properties of one flat isotropic panel.
 
 For a material (built-in name or properties on the command line), a thickness and a size
-``lx`` x ``ly``, print per band the coincidence (critical) frequency, modal density,
-modes in band, modal overlap (with ``--loss-factor``, default the material's) and bending
-wavelength; ``--csv FILE`` writes the same table. All values come from
-:mod:`seatool.physics`.
-
-Extension point
----------------
-Other modules add columns and options without editing this file:
-
-* append a function ``(spec: PanelSpec, bands: BandAxis) -> dict[str, ndarray]`` to
-  :data:`PANEL_COLUMNS`; each key becomes a column (put the unit in the name, e.g.
-  ``"radiation_efficiency"``, ``"transmission_loss_dB"``), each array has one value per
-  band;
-* append a function ``(parser: argparse.ArgumentParser) -> None`` to
-  :data:`PANEL_ARGUMENTS` to add options; their parsed values reach the column function
-  through ``spec.options`` (the ``argparse`` namespace as a dict, e.g.
-  ``spec.options["treatment"]``).
-
-Append at import time of the contributing module, and have that module imported before
-the options are built: add its dotted name to :data:`PANEL_EXTENSION_MODULES` (a one-line
-edit here), which ``seatool panel`` imports first. A column function reports bad input
-by raising :class:`seatool.errors.InputError` (one line each, exit 2).
+``lx`` x ``ly``, print the table of :func:`seatool.analysis.panel.panel_table`: per band
+the coincidence (critical) frequency, modal density, modes in band, modal overlap (with
+``--loss-factor``, default the material's), bending wavelength, radiation efficiency, the
+two-room SEA transmission loss and, with a treatment option, the treatment's columns;
+``--csv FILE`` writes the same table.
 """
 
 from __future__ import annotations
 
 import argparse
-import importlib
 import math
-from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-import numpy as np
-import numpy.typing as npt
 import pandas as pd
 
+from .analysis.panel import (
+    DEFAULT_REVERBERATION_TIME,
+    DEFAULT_ROOM_VOLUMES,
+    PanelSpec,
+    panel_table,
+)
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
-from .materials import Fluid, Material, load_fluids, load_materials
-from .physics import structural as st
-from .physics import validity as pv
+from .materials import Material, load_fluids, load_materials
+from .treatments import load_treatments
 
-__all__ = [
-    "PANEL_ARGUMENTS",
-    "PANEL_COLUMNS",
-    "PANEL_EXTENSION_MODULES",
-    "PanelSpec",
-    "add_commands",
-    "panel_table",
-]
-
-Array = npt.NDArray[np.float64]
-
-
-@dataclass(frozen=True)
-class PanelSpec:
-    """The panel described on the command line.
-
-    Attributes
-    ----------
-    material : Material
-        Panel material (density [kg/m^3], Young's modulus [Pa], Poisson's ratio,
-        loss factor).
-    thickness : float
-        Thickness h [m].
-    lx, ly : float
-        Side lengths [m].
-    loss_factor : float
-        Damping loss factor used for the modal overlap [-].
-    fluid : Fluid
-        Fluid on the panel's faces (for the coincidence frequency).
-    options : mapping
-        Every parsed command-line option (for columns added by other modules).
-    """
-
-    material: Material
-    thickness: float
-    lx: float
-    ly: float
-    loss_factor: float
-    fluid: Fluid
-    options: Mapping[str, Any] = field(default_factory=dict)
-
-    @property
-    def area(self) -> float:
-        """lx * ly [m^2]."""
-        return self.lx * self.ly
-
-    @property
-    def mass_per_area(self) -> float:
-        """rho h [kg/m^2]."""
-        return self.material.density * self.thickness
-
-    @property
-    def bending_stiffness(self) -> float:
-        """D [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
-        m = self.material
-        return float(st.bending_stiffness(m.youngs_modulus, self.thickness, m.poisson_ratio))
-
-    @property
-    def critical_frequency(self) -> float:
-        """Coincidence frequency in the fluid [Hz]."""
-        return float(
-            st.critical_frequency(
-                self.bending_stiffness, self.mass_per_area, self.fluid.sound_speed
-            )
-        )
-
-
-PanelColumn = Callable[[PanelSpec, BandAxis], dict[str, Array]]
-PanelArgument = Callable[[argparse.ArgumentParser], None]
-
-
-def _basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:
-    f = bands.centre
-    d, m = spec.bending_stiffness, spec.mass_per_area
-    n = st.plate_bending_modal_density(f, spec.area, d, m)
-    k = st.plate_bending_wavenumber(f, d, m)
-    return {
-        "critical_frequency_hz": np.full(f.shape, spec.critical_frequency),
-        "modal_density_per_hz": n,
-        "modes_in_band": pv.modes_in_band(n, bands.width),
-        "modal_overlap": pv.modal_overlap(f, n, spec.loss_factor),
-        "bending_wavelength_m": 2.0 * np.pi / k,
-    }
-
-
-#: Column providers, called in order; append yours (see the module docstring).
-PANEL_COLUMNS: list[PanelColumn] = [_basic_columns]
-#: Functions adding argparse options to ``seatool panel``; append yours.
-PANEL_ARGUMENTS: list[PanelArgument] = []
-#: Modules imported before ``seatool panel`` builds its options, so that they can append
-#: to :data:`PANEL_COLUMNS` / :data:`PANEL_ARGUMENTS`; append your module's dotted name.
-PANEL_EXTENSION_MODULES: list[str] = ["seatool.kinds.treatment", "seatool.kinds.panel_coupling"]
-
-
-def _load_extensions() -> None:
-    for mod in PANEL_EXTENSION_MODULES:
-        importlib.import_module(mod)
-
-
-def panel_table(spec: PanelSpec, bands: BandAxis) -> pd.DataFrame:
-    """The panel table: ``band_hz`` (nominal), ``band_exact_hz`` and every provider's columns."""
-    cols: dict[str, Any] = {"band_hz": bands.nominal, "band_exact_hz": bands.centre}
-    for provider in PANEL_COLUMNS:
-        for key, val in provider(spec, bands).items():
-            arr = np.asarray(val, dtype=float)
-            if arr.shape != (len(bands),):
-                msg = f"panel column {key!r} has shape {arr.shape}, expected ({len(bands)},)"
-                raise ValueError(msg)
-            cols[key] = arr
-    return pd.DataFrame(cols)
-
-
-# ----------------------------------------------------------------------------------------
-# command line
+__all__ = ["add_commands", "render", "spec_from_args"]
 
 
 def _arguments(p: argparse.ArgumentParser) -> None:
-    _load_extensions()
     p.add_argument(
         "--material",
         metavar="NAME",
@@ -192,8 +61,44 @@ def _arguments(p: argparse.ArgumentParser) -> None:
     )
     p.add_argument("--octave", action="store_true", help="octave bands (default third-octave)")
     p.add_argument("--csv", metavar="FILE", help="write the table to FILE")
-    for add in PANEL_ARGUMENTS:
-        add(p)
+    p.add_argument(
+        "--room-volumes",
+        nargs=2,
+        metavar=("V1", "V2"),
+        default=None,
+        help="volumes of the source and receiving rooms of the transmission-loss model "
+        f"[m^3] (default {DEFAULT_ROOM_VOLUMES[0]:g} {DEFAULT_ROOM_VOLUMES[1]:g})",
+    )
+    p.add_argument(
+        "--room-reverberation-time",
+        metavar="S",
+        default=None,
+        help="reverberation time of both rooms [s] "
+        f"(default {DEFAULT_REVERBERATION_TIME:g})",
+    )
+    library = load_treatments()
+    g = p.add_argument_group("treatment")
+    g.add_argument(
+        "--damping-layer",
+        metavar="NAME",
+        help="viscoelastic layer of the treatment library bonded to the panel: adds the "
+        "composite_loss_factor column ("
+        + ", ".join(n for n, t in library.items() if t.kind == "viscoelastic")
+        + ")",
+    )
+    g.add_argument(
+        "--cover",
+        metavar="MATERIAL:THICKNESS",
+        help="constraining cover over the damping layer (constrained layer), e.g. steel:0.0005",
+    )
+    g.add_argument(
+        "--trim",
+        metavar="NAME",
+        help="trim layer or build-up of the treatment library on one face: adds its "
+        "diffuse rigid-backed absorption and its field-incidence insertion loss ("
+        + ", ".join(library)
+        + ")",
+    )
 
 
 def _num(
@@ -282,13 +187,65 @@ def spec_from_args(args: argparse.Namespace) -> tuple[PanelSpec, BandAxis]:
             bands = BandAxis.from_range(lo, hi, "octave" if args.octave else "third-octave")
         except BandError as exc:
             problems.append(Problem("", "--lowest/--highest", str(exc)))
+    vols: tuple[float, float] = DEFAULT_ROOM_VOLUMES
+    if args.room_volumes is not None:
+        got = [_positive(problems, v, "--room-volumes") for v in args.room_volumes]
+        if got[0] is not None and got[1] is not None:
+            vols = (got[0], got[1])
+    t60 = DEFAULT_REVERBERATION_TIME
+    if args.room_reverberation_time is not None:
+        t60 = _positive(problems, args.room_reverberation_time, "--room-reverberation-time") or t60
+    cover: tuple[str, float] | None = None
+    if args.cover:
+        mat_name, _, thick = str(args.cover).partition(":")
+        try:
+            cover = (mat_name, float(thick))
+        except ValueError:
+            problems.append(
+                Problem("", "--cover", f"give MATERIAL:THICKNESS_M, got {args.cover!r}")
+            )
     if args.csv is not None and not Path(args.csv).resolve().parent.exists():
         problems.append(Problem("", "--csv", f"folder of {args.csv!r} does not exist"))
     if problems:
         raise InputError(problems)
     assert material is not None and h is not None and lx is not None and ly is not None
     assert eta is not None and fluid is not None and bands is not None
-    return PanelSpec(material, h, lx, ly, eta, fluid, options=vars(args)), bands
+    spec = PanelSpec(
+        material,
+        h,
+        lx,
+        ly,
+        eta,
+        fluid,
+        room_volumes=vols,
+        room_reverberation_time=t60,
+        damping_layer=args.damping_layer or None,
+        cover=cover,
+        trim=args.trim or None,
+    )
+    return spec, bands
+
+
+def _positive(problems: list[Problem], value: Any, option: str) -> float | None:
+    try:
+        x = float(value)
+    except (TypeError, ValueError):
+        problems.append(Problem("", option, f"must be a number, got {value!r}"))
+        return None
+    if not math.isfinite(x) or x <= 0:
+        problems.append(Problem("", option, f"must be a finite number > 0, got {value!r}"))
+        return None
+    return x
+
+
+def _as_options(exc: InputError) -> InputError:
+    """Key paths of :class:`PanelSpec` fields (``cover.material``) as options (``--cover``)."""
+    problems = []
+    for pr in exc.problems:
+        key, _, rest = pr.path.partition(".")
+        option = "--" + key.replace("_", "-") if key else "--trim"
+        problems.append(Problem("", option + (f" ({rest})" if rest else ""), pr.message))
+    return InputError(problems)
 
 
 _FORMATS = {
@@ -329,7 +286,10 @@ def _handler(args: argparse.Namespace) -> int:
     from .results import CAUTION
 
     spec, bands = spec_from_args(args)
-    table = panel_table(spec, bands)
+    try:
+        table = panel_table(spec, bands)
+    except InputError as exc:
+        raise _as_options(exc) from None
     print(render(spec, table, bands))
     if args.csv:
         table.to_csv(args.csv, index=False, float_format="%.10g")

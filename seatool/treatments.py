@@ -16,9 +16,9 @@ Kinds
     Limp impervious mass layer.
 ``viscoelastic``
     Damping material with a frequency-dependent complex modulus table
-    (:class:`seatool.physics.damping.ModulusTable`), for
-    :func:`~seatool.physics.damping.free_layer_damping` or
-    :func:`~seatool.physics.damping.constrained_layer_damping`.
+    (:class:`seatool.physics.damping_layers.ModulusTable`), for
+    :func:`~seatool.physics.damping_layers.free_layer_damping` or
+    :func:`~seatool.physics.damping_layers.constrained_layer_damping`.
 ``buildup``
     A sequence of other rows, listed from the base panel outwards.
 """
@@ -35,7 +35,7 @@ from pathlib import Path
 from typing import Any, Literal
 
 from seatool.physics import tmm
-from seatool.physics.damping import ModulusTable
+from seatool.physics.damping_layers import ModulusTable
 
 __all__ = [
     "Treatment",
@@ -312,7 +312,7 @@ def buildup_layers(
     Returns
     -------
     list of Layer
-        Use with :func:`seatool.physics.tmm.insertion_loss` (``trim`` argument);
+        Use with :func:`seatool.physics.tmm_transmission.insertion_loss` (``trim`` argument);
         :func:`seatool.physics.tmm.mass_per_area` gives its mass per area.
     """
     lib = load_treatments() if library is None else library

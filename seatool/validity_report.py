@@ -27,7 +27,7 @@ import numpy.typing as npt
 import pandas as pd
 
 from .model import Model, Subsystem
-from .physics import structural as st
+from .physics import elastic
 from .physics import validity as pv
 
 __all__ = [
@@ -121,7 +121,7 @@ def _limits(s: Subsystem, f: Array) -> tuple[tuple[str, BoolArray, str], ...]:
         and "thickness" in p
     ):
         mat = p["material"]
-        c_l = st.plate_longitudinal_speed(
+        c_l = elastic.plate_longitudinal_speed(
             mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
         )
         f_max = float(pv.thin_plate_upper_frequency(p["thickness"], c_l))

@@ -4,7 +4,7 @@ The expected coupling loss factors are built here from the model file's own numb
 (materials as built in: aluminium E = 70 GPa, rho = 2700 kg/m^3, nu = 0.33, from memory of
 handbook tables) with textbook definitions: f_c = c^2/(2 pi) sqrt(m''/D),
 c_L' = sqrt(E/(rho (1 - nu^2))), eta = rho c sigma/(omega m'') (Lyon & DeJong 1995), and
-sigma from seatool.physics.radiation.radiation_efficiency_curved_panel (Szechenyi 1971;
+sigma from seatool.physics.radiation_curved.radiation_efficiency_curved_panel (Szechenyi 1971;
 its own checks are in tests/physics/test_radiation_curved.py).
 """
 
@@ -18,6 +18,7 @@ import numpy as np
 import seatool
 from seatool.model import Model
 from seatool.physics import radiation as rad
+from seatool.physics import radiation_curved
 
 ROOT = Path(__file__).resolve().parents[1]
 E_AL, RHO_AL, NU_AL = 70e9, 2700.0, 0.33
@@ -35,7 +36,7 @@ def expected_eta(
     fc = c**2 / (2 * math.pi) * math.sqrt(mpa / d)
     cl = math.sqrt(E_AL / (RHO_AL * (1 - NU_AL**2)))
     if curved:
-        sigma = rad.radiation_efficiency_curved_panel(
+        sigma = radiation_curved.radiation_efficiency_curved_panel(
             b.centre, lx, ly, fc, radius, longitudinal_speed=cl, poisson_ratio=NU_AL,
             closed=closed, f_lower=b.lower, f_upper=b.upper, c0=c,
         )  # fmt: skip

@@ -1,7 +1,7 @@
 """Connection kinds derived from physics (seatool/kinds/connections.py).
 
 Subsystems are built here in Python with the ``Subsystem.properties`` contract of
-DEVELOPERS.md (modal densities from seatool.physics.structural / acoustic), so that the
+DEVELOPERS.md (modal densities from the structural modules of seatool.physics and acoustic), so that the
 readers are checked independently of the subsystem readers. Each check names its source.
 """
 
@@ -20,7 +20,7 @@ from seatool.bands import BandAxis
 from seatool.cli import main
 from seatool.model import Connection, Subsystem
 from seatool.modelfile import CONNECTION_KINDS, SUBSYSTEM_KINDS, Reader
-from seatool.physics import acoustic, mobility, structural
+from seatool.physics import acoustic, beams, elastic, mobility, plates
 
 AIR = (1.204, 343.2)
 STEEL = {"density": 7850.0, "youngs_modulus": 210e9, "poisson_ratio": 0.3}
@@ -42,7 +42,7 @@ def plate(
     treatment: Any = None,
 ) -> Subsystem:
     f = bands.centre
-    d = float(structural.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
+    d = float(plates.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
     m = mat["density"] * h
     props: dict[str, Any] = {
         "wave_type": "bending",
@@ -54,12 +54,12 @@ def plate(
         "mass_per_area": m,
         "material": dict(mat),
         "bending_stiffness": d,
-        "group_speed": structural.plate_bending_group_speed(f, d, m),
-        "critical_frequency": float(structural.critical_frequency(d, m, AIR[1])),
+        "group_speed": plates.plate_bending_group_speed(f, d, m),
+        "critical_frequency": float(plates.critical_frequency(d, m, AIR[1])),
     }
     if treatment is not None:
         props["treatment"] = treatment
-    n = structural.plate_bending_modal_density(f, lx * ly, d, m)
+    n = plates.plate_bending_modal_density(f, lx * ly, d, m)
     return Subsystem(
         name,
         "plate",
@@ -76,11 +76,11 @@ def inplane(p: Subsystem, bands: BandAxis, wave: str) -> Subsystem:
     e, rho, nu = mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
     s = p.properties["area"]
     if wave == "longitudinal":
-        c = float(structural.plate_longitudinal_speed(e, rho, nu))
-        n = structural.plate_inplane_longitudinal_modal_density(bands.centre, s, c)
+        c = float(elastic.plate_longitudinal_speed(e, rho, nu))
+        n = plates.plate_inplane_longitudinal_modal_density(bands.centre, s, c)
     else:
-        c = float(structural.shear_speed(e, rho, nu))
-        n = structural.plate_inplane_shear_modal_density(bands.centre, s, c)
+        c = float(elastic.shear_speed(e, rho, nu))
+        n = plates.plate_inplane_shear_modal_density(bands.centre, s, c)
     props = dict(p.properties, wave_type=wave, group_speed=np.full(len(bands), c))
     return Subsystem(
         f"{p.name}.{wave}",
@@ -116,7 +116,7 @@ def beam(name: str, bands: BandAxis, *, length: float = 2.0, b: float = 0.04, hb
     area = b * hb
     i_y = b * hb**3 / 12
     m1 = mat["density"] * area
-    n = structural.beam_bending_modal_density(bands.centre, length, mat["youngs_modulus"], i_y, m1)
+    n = beams.beam_bending_modal_density(bands.centre, length, mat["youngs_modulus"], i_y, m1)
     props = {
         "wave_type": "bending_y",
         "length": length,
@@ -335,7 +335,7 @@ def test_line_T_junction_with_inplane_fields_is_reciprocal(bands):
     # Three plates of two materials and thicknesses, each with bending, longitudinal and
     # shear fields: every pair of wave fields gets one connection, and the CLF the wave
     # model gives in the other direction (reader called with the plates in another
-    # order) equals n_i eta_ij / n_j with the modal densities of seatool.physics.structural
+    # order) equals n_i eta_ij / n_j with the modal densities of seatool.physics.plates
     # (k_i tau_ij = k_j tau_ji, Langley & Heron 1990; derived in docs/theory/coupling.md).
     bands = BandAxis.from_range(125, 4000, "octave")
     p1 = plate("p1", bands, h=0.003, lx=1.2, ly=1.0)
@@ -406,7 +406,7 @@ def test_point_identical_plates_against_mode_count():
 def test_point_and_mount_reciprocity_plate_beam(bands):
     # Re Y = pi n(omega)/(2 M) holds for the infinite plate and beam (Cremer, Heckl &
     # Petersson 2005), so the point CLF computed from either side obeys n_1 eta_12 =
-    # n_2 eta_21 with the modal densities of seatool.physics.structural.
+    # n_2 eta_21 with the modal densities of seatool.physics.plates.
     p = plate("deck", bands, h=0.004, lx=2.0, ly=1.0)
     bm = beam("girder", bands)
     subs = {s.name: s for s in (p, bm)}
@@ -729,9 +729,9 @@ def test_line_non_homogeneous_plate_uses_equivalent_plate(bands):
     props = dict(
         b0.properties,
         bending_stiffness=d,
-        group_speed=structural.plate_bending_group_speed(bands.centre, d, m),
+        group_speed=plates.plate_bending_group_speed(bands.centre, d, m),
     )
-    n_b = structural.plate_bending_modal_density(bands.centre, props["area"], d, m)
+    n_b = plates.plate_bending_modal_density(bands.centre, props["area"], d, m)
     b = Subsystem(
         "b", "plate", n_b, b0.damping, quantity="velocity", mass=b0.mass, properties=props
     )

@@ -212,7 +212,7 @@ ly = 1.0
     s = m.subsystem("s")
     p = s.properties
     # at the critical frequency the phase speed equals the speed of sound (definition)
-    from seatool.physics.structural import sandwich_phase_speed
+    from seatool.physics.sandwich import sandwich_phase_speed
 
     assert float(sandwich_phase_speed(p["critical_frequency"], p["section"])) == pytest.approx(
         343.2, rel=1e-8
@@ -250,7 +250,7 @@ def test_shell_band_average_against_quad():
     # scipy.integrate.quad with the singular point declared (independent numerics)
     from scipy import integrate
 
-    from seatool.physics.structural import shell_bending_modal_density
+    from seatool.physics.shells import shell_bending_modal_density
 
     body = """
 [subsystems.roof]

@@ -41,7 +41,16 @@ import numpy.typing as npt
 
 from ..model import Connection, Subsystem
 from ..modelfile import CONNECTION_KINDS, DEFAULT_FLUID, Reader
-from ..physics import coupling, junctions, mobility, radiation, structural, transmission
+from ..physics import (
+    coupling,
+    elastic,
+    junctions,
+    mobility,
+    plates,
+    radiation,
+    radiation_curved,
+    transmission,
+)
 
 __all__ = [
     "RADIATION_EDGES",
@@ -244,14 +253,14 @@ def panel_critical_frequency(props: Mapping[str, Any], sound_speed: float, nb: i
     """Critical frequency of a panel in a fluid of the given sound speed, per band [Hz].
 
     Recomputed from the properties' ``bending_stiffness`` and ``mass_per_area`` with
-    :func:`seatool.physics.structural.critical_frequency`, so it holds for the fluid on
+    :func:`seatool.physics.plates.critical_frequency`, so it holds for the fluid on
     the radiating side even when that is not the model's air (for which the properties'
     ``critical_frequency`` was computed). A per-band (sandwich, effective) bending
     stiffness gives a per-band value: the coincidence ratio k_B/k_0 of that band.
     """
     d = _per_band(props["bending_stiffness"], nb)
     m = float(props["mass_per_area"])
-    return _per_band(structural.critical_frequency(d, m, sound_speed), nb)
+    return _per_band(plates.critical_frequency(d, m, sound_speed), nb)
 
 
 def treatment_factor(props: Mapping[str, Any], face: str | None, nb: int) -> Array:
@@ -289,7 +298,7 @@ def radiation_clf(
     ``sigma`` from :func:`seatool.physics.radiation.radiation_efficiency_band` over the
     model's band edges, with the critical frequency in that fluid; for a shell or curved
     panel (properties ``radius`` and ``ring_frequency``, :func:`is_curved`) with the default
-    method, from :func:`seatool.physics.radiation.radiation_efficiency_curved_panel`
+    method, from :func:`seatool.physics.radiation_curved.radiation_efficiency_curved_panel`
     (Szechenyi 1971). ``eta`` from :func:`seatool.physics.coupling.clf_radiation`. No
     treatment factor applied here. ``edges`` is passed to the flat-panel formula (the reader
     refuses ``"clamped"`` where the curved-panel formula is used).
@@ -341,7 +350,7 @@ def _curved_sigma(props: Mapping[str, Any], bands: Any, f_c: Array, c: float) ->
     c_l = 2.0 * math.pi * float(props["radius"]) * float(props["ring_frequency"])
     if rho_w is not None and "thickness" in props:
         c_l *= math.sqrt(float(rho_w) * float(props["thickness"]) / m)
-    return radiation.radiation_efficiency_curved_panel(
+    return radiation_curved.radiation_efficiency_curved_panel(
         bands.centre,
         float(props["lx"]),
         float(props["ly"]),
@@ -629,7 +638,7 @@ def _junction_plate(
     d = _per_band(p.get("bending_stiffness", np.nan), nb)
     h = p.get("thickness")
     if h is not None and np.ndim(h) == 0:
-        d_iso = float(structural.bending_stiffness(e, float(h), nu))
+        d_iso = float(plates.bending_stiffness(e, float(h), nu))
         homogeneous = bool(np.allclose(d, d_iso, rtol=_HOMOGENEOUS, atol=0.0))
     else:
         homogeneous = False
@@ -668,11 +677,11 @@ def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: A
         return _per_band(sub.properties["group_speed"], nb)
     e, rho, nu, h = plate.youngs_modulus, plate.density, plate.poisson, plate.thickness
     if wave == "bending":
-        d = structural.bending_stiffness(e, h, nu)
-        return _per_band(structural.plate_bending_group_speed(f, d, rho * h), nb)
+        d = plates.bending_stiffness(e, h, nu)
+        return _per_band(plates.plate_bending_group_speed(f, d, rho * h), nb)
     if wave == "longitudinal":
-        return _per_band(structural.plate_longitudinal_speed(e, rho, nu), nb)
-    return _per_band(structural.shear_speed(e, rho, nu), nb)
+        return _per_band(elastic.plate_longitudinal_speed(e, rho, nu), nb)
+    return _per_band(elastic.shear_speed(e, rho, nu), nb)
 
 
 def _angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] | None:

@@ -43,8 +43,8 @@ from seatool.modelfile import (
     read_damping,
 )
 from seatool.physics import acoustic as ac
+from seatool.physics import beams, elastic, orthotropic_plates, plates, resonators, sandwich, shells
 from seatool.physics import mobility as mob
-from seatool.physics import structural as st
 
 __all__ = [
     "PLATE_KINDS",
@@ -313,9 +313,9 @@ def _panel_geometry(
 
 def _bending_fields(f: Array, d: Array | float, m: float, c0: float) -> dict[str, Any]:
     return {
-        "wavenumber": st.plate_bending_wavenumber(f, d, m),
-        "phase_speed": st.plate_bending_phase_speed(f, d, m),
-        "group_speed": st.plate_bending_group_speed(f, d, m),
+        "wavenumber": plates.plate_bending_wavenumber(f, d, m),
+        "phase_speed": plates.plate_bending_phase_speed(f, d, m),
+        "group_speed": plates.plate_bending_group_speed(f, d, m),
     }
 
 
@@ -337,15 +337,17 @@ def _inplane(
     for field in fields:
         if field == "longitudinal":
             c = float(
-                st.plate_longitudinal_speed(
+                elastic.plate_longitudinal_speed(
                     mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
                 )
             )
-            n = st.plate_inplane_longitudinal_modal_density(f, area, c)
+            n = plates.plate_inplane_longitudinal_modal_density(f, area, c)
             src = "plate_inplane_longitudinal_modal_density (Lyon & DeJong 1995)"
         elif field == "shear":
-            c = float(st.shear_speed(mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]))
-            n = st.plate_inplane_shear_modal_density(f, area, c)
+            c = float(
+                elastic.shear_speed(mat["youngs_modulus"], mat["density"], mat["poisson_ratio"])
+            )
+            n = plates.plate_inplane_shear_modal_density(f, area, c)
             src = "plate_inplane_shear_modal_density (Lyon & DeJong 1995)"
         else:
             continue
@@ -476,16 +478,16 @@ def _read_plate(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
     if mat is None or h is None or geom is None or fluid is None or fields is None:
         return None
     b = _bands(rd)
-    d = float(st.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
+    d = float(plates.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
     c0 = fluid["sound_speed"]
     area = geom[2]
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
-        n = st.plate_bending_modal_density(b.centre, area, d, m)
+        n = plates.plate_bending_modal_density(b.centre, area, d, m)
         props = {
             **_bending_fields(b.centre, d, m, c0),
             "bending_stiffness": d,
-            "critical_frequency": float(st.critical_frequency(d, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d, m, c0)),
         }
         return n, props, "plate_bending_modal_density (thin plate; Cremer et al. 2005)"
 
@@ -537,19 +539,21 @@ def _read_orthotropic(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsyste
         if bw >= sp:
             rd.error(f"{path}.rib_width", f"must be smaller than rib_spacing ({sp:g} m)")
             return None
-        i_rib = float(st.rib_second_moment_rectangular(bw, bh, h))
+        i_rib = float(orthotropic_plates.rib_second_moment_rectangular(bw, bh, h))
         dx, dy, hh = (
             float(x)
-            for x in st.ribbed_plate_stiffness(
+            for x in orthotropic_plates.ribbed_plate_stiffness(
                 mat["youngs_modulus"], h, mat["poisson_ratio"], i_rib, sp,
                 rib_youngs_modulus=rmat["youngs_modulus"],
             )
         )  # fmt: skip
         m_skin = mat["density"] * h
         m_bare = m_skin + rmat["density"] * bw * bh / sp
-        d_skin = float(st.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
+        d_skin = float(plates.bending_stiffness(mat["youngs_modulus"], h, mat["poisson_ratio"]))
         extra["rib_spacing"] = sp
-        extra["bay_frequency"] = float(st.ribbed_plate_bay_frequency(sp - bw, d_skin, m_skin))
+        extra["bay_frequency"] = float(
+            orthotropic_plates.ribbed_plate_bay_frequency(sp - bw, d_skin, m_skin)
+        )
         h_t: float | None = hh
     else:
         dx_ = _number(rd, s, path, "bending_stiffness_x", "N m")
@@ -572,14 +576,16 @@ def _read_orthotropic(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsyste
     extra.update(bending_stiffness_x=dx, bending_stiffness_y=dy)
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
-        n = st.orthotropic_plate_modal_density(b.centre, area, dx, dy, m, torsional_stiffness=h_t)
+        n = orthotropic_plates.orthotropic_plate_modal_density(
+            b.centre, area, dx, dy, m, torsional_stiffness=h_t
+        )
         # effective isotropic stiffness with the same modal density, n = (S/2) sqrt(m''/D)
         d_eff = float(m * (area / (2.0 * n[0])) ** 2)
-        lo, hi = st.orthotropic_critical_frequencies(dx, dy, m, c0)
+        lo, hi = orthotropic_plates.orthotropic_critical_frequencies(dx, dy, m, c0)
         props = {
             **_bending_fields(b.centre, d_eff, m, c0),
             "bending_stiffness": d_eff,
-            "critical_frequency": float(st.critical_frequency(d_eff, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d_eff, m, c0)),
             "critical_frequency_range": (float(lo), float(hi)),
         }
         return n, props, "orthotropic_plate_modal_density (Huber plate; Lyon & DeJong 1995)"
@@ -590,16 +596,16 @@ def _read_orthotropic(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsyste
     )  # fmt: skip
 
 
-def sandwich_critical_frequency(section: st.SandwichSection, sound_speed: float) -> float:
+def sandwich_critical_frequency(section: sandwich.SandwichSection, sound_speed: float) -> float:
     """Frequency where the sandwich bending phase speed equals the sound speed [Hz].
 
-    Root of :func:`seatool.physics.structural.sandwich_phase_speed` ``(f) = c0`` (the
+    Root of :func:`seatool.physics.sandwich.sandwich_phase_speed` ``(f) = c0`` (the
     phase speed rises monotonically from 0 to the face-sheet bending speed, which grows
     without bound), found with :func:`scipy.optimize.brentq` on ln f.
     """
 
     def g(x: float) -> float:
-        return float(st.sandwich_phase_speed(math.exp(x), section)) - sound_speed
+        return float(sandwich.sandwich_phase_speed(math.exp(x), section)) - sound_speed
 
     lo, hi = math.log(1e-3), math.log(1e9)
     if g(lo) > 0 or g(hi) < 0:
@@ -624,7 +630,7 @@ def _read_sandwich(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] 
         return None
     assert mat is not None and t is not None and gc is not None and c is not None
     assert rc is not None and geom is not None and fluid is not None
-    sec0 = st.sandwich_section(
+    sec0 = sandwich.sandwich_section(
         mat["youngs_modulus"], mat["poisson_ratio"], t, mat["density"], gc, c, rc
     )
     b = _bands(rd)
@@ -633,17 +639,17 @@ def _read_sandwich(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] 
 
     def bending(m: float) -> tuple[Array, dict[str, Any], str]:
         sec = dataclasses.replace(sec0, surface_density=m)
-        k = st.sandwich_wavenumber(b.centre, sec)
+        k = sandwich.sandwich_wavenumber(b.centre, sec)
         props = {
             "wavenumber": k,
-            "phase_speed": st.sandwich_phase_speed(b.centre, sec),
-            "group_speed": st.sandwich_group_speed(b.centre, sec),
+            "phase_speed": sandwich.sandwich_phase_speed(b.centre, sec),
+            "group_speed": sandwich.sandwich_group_speed(b.centre, sec),
             # effective bending stiffness per band, m'' omega^2 = D_eff k^4
             "bending_stiffness": m * b.omega**2 / k**4,
             "critical_frequency": sandwich_critical_frequency(sec, c0),
             "section": sec,
         }
-        n = st.sandwich_modal_density(b.centre, area, sec)
+        n = sandwich.sandwich_modal_density(b.centre, area, sec)
         return n, props, "sandwich_modal_density (Nilsson 1990 dispersion)"
 
     extra = {"core_thickness": c, "face_thickness": t}
@@ -684,8 +690,8 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
     geom = (lx, ly, lx * ly, perimeter)
     b = _bands(rd)
     e, rho, nu = mat["youngs_modulus"], mat["density"], mat["poisson_ratio"]
-    d = float(st.bending_stiffness(e, h, nu))
-    c_l = float(st.plate_longitudinal_speed(e, rho, nu))
+    d = float(plates.bending_stiffness(e, h, nu))
+    c_l = float(elastic.plate_longitudinal_speed(e, rho, nu))
     c0 = fluid["sound_speed"]
     # Band average of the shell modal density. Its continuous form has a logarithmic
     # singularity at f_m = sqrt(E/rho)/(2 pi a) (shell_bending_modal_density): split each
@@ -701,7 +707,7 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
         fq = split[:, None] + sign * span[:, None] * u[None, :] ** 3
         fq = np.clip(fq, b.lower[:, None], b.upper[:, None])
         fq = np.where(span[:, None] > 0, fq, b.centre[:, None])  # empty half: weight 0
-        n_nodes = st.shell_bending_modal_density(fq, geom[2], a, h, e, rho, nu)
+        n_nodes = shells.shell_bending_modal_density(fq, geom[2], a, h, e, rho, nu)
         total += (wu[None, :] * 3.0 * span[:, None] * u[None, :] ** 2 * n_nodes).sum(axis=1)
     n_shell = np.asarray(total / (b.upper - b.lower), dtype=float)
 
@@ -711,7 +717,7 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
         props = {
             **_bending_fields(b.centre, d, m, c0),
             "bending_stiffness": d,
-            "critical_frequency": float(st.critical_frequency(d, m, c0)),
+            "critical_frequency": float(plates.critical_frequency(d, m, c0)),
         }
         return (
             n,
@@ -722,7 +728,7 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
             ),
         )
 
-    extra = {"radius": a, "ring_frequency": float(st.ring_frequency(a, c_l)), "closed": closed}
+    extra = {"radius": a, "ring_frequency": float(shells.ring_frequency(a, c_l)), "closed": closed}
     return _finish_plate(
         rd, name, s, path, kind="cylindrical_shell", mat=mat, geom=geom, thickness=h,
         m_bare=rho * h, fluid=fluid, bending=bending, extra=extra, fields=["bending"],
@@ -733,7 +739,7 @@ def _read_shell(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | N
 # beams
 
 
-def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
+def _read_section(rd: Reader, value: Any, path: str) -> beams.BeamSection | None:
     t = rd.table(value, path)
     if t is None:
         return None
@@ -751,7 +757,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
             return None
         wd = _number(rd, t, path, "width", "m")
         ht = _number(rd, t, path, "height", "m")
-        return None if wd is None or ht is None else st.rectangular_section(wd, ht)
+        return None if wd is None or ht is None else beams.rectangular_section(wd, ht)
     if shape == "circular":
         if not rd.keys(t, path, ("shape", "outer_diameter", "inner_diameter"), ("outer_diameter",)):
             return None
@@ -766,7 +772,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
         if di >= do:
             rd.error(f"{path}.inner_diameter", f"must be smaller than outer_diameter ({do:g} m)")
             return None
-        return st.circular_section(do, di)
+        return beams.circular_section(do, di)
     keys = ("area", "I_y", "I_z", "J", "I_p")
     if not rd.keys(t, path, ("shape", *keys), keys[:4]):
         return None
@@ -777,7 +783,7 @@ def _read_section(rd: Reader, value: Any, path: str) -> st.BeamSection | None:
     iy, iz = vals["I_y"], vals["I_z"]
     assert iy is not None and iz is not None
     ip = vals.get("I_p") or iy + iz
-    return st.BeamSection(
+    return beams.BeamSection(
         area=float(vals["area"] or 0.0),
         second_moment_y=iy,
         second_moment_z=iz,
@@ -825,18 +831,18 @@ def _read_beam(rd: Reader, name: str, s: dict[str, Any]) -> list[Subsystem] | No
     for field in fields:
         if field in ("bending_y", "bending_z"):
             i = sec.second_moment_y if field == "bending_y" else sec.second_moment_z
-            n = st.beam_bending_modal_density(f, length, e, i, mpl)
-            k = st.beam_bending_wavenumber(f, e, i, mpl)
-            cp = st.beam_bending_phase_speed(f, e, i, mpl)
-            cg = st.beam_bending_group_speed(f, e, i, mpl)
+            n = beams.beam_bending_modal_density(f, length, e, i, mpl)
+            k = beams.beam_bending_wavenumber(f, e, i, mpl)
+            cp = beams.beam_bending_phase_speed(f, e, i, mpl)
+            cg = beams.beam_bending_group_speed(f, e, i, mpl)
             src = "beam_bending_modal_density (Euler-Bernoulli; Lyon & DeJong 1995)"
         else:
             if field == "longitudinal":
-                c = float(st.bar_longitudinal_speed(e, rho))
+                c = float(elastic.bar_longitudinal_speed(e, rho))
             else:
-                g = float(st.shear_modulus(e, nu))
-                c = float(st.torsion_speed(g, sec.torsion_constant, rho, sec.polar_moment))
-            n = st.longitudinal_modal_density(f, length, c)
+                g = float(elastic.shear_modulus(e, nu))
+                c = float(beams.torsion_speed(g, sec.torsion_constant, rho, sec.polar_moment))
+            n = beams.longitudinal_modal_density(f, length, c)
             k, cp, cg = b.omega / c, np.full(len(b), c), np.full(len(b), c)
             src = f"longitudinal_modal_density, 2 L / c ({field})"
         out.append(
@@ -1048,8 +1054,8 @@ def _read_resonator(rd: Reader, name: str, s: dict[str, Any]) -> Subsystem | Non
     if m is None or k is None or eta is None:
         return None
     b = _bands(rd)
-    f0 = float(st.resonator_natural_frequency(m, k))
-    n = st.resonator_modal_density(b.lower, b.upper, f0, loss_factor=eta)
+    f0 = float(resonators.resonator_natural_frequency(m, k))
+    n = resonators.resonator_modal_density(b.lower, b.upper, f0, loss_factor=eta)
     if not np.all(n > 0):
         rd.error(
             f"{path}.loss_factor",
@@ -1150,7 +1156,7 @@ def _critical_in(sub: Subsystem, c0: float) -> float:
     p = sub.properties
     if sub.kind == "sandwich_panel":
         return sandwich_critical_frequency(p["section"], c0)
-    return float(st.critical_frequency(p["bending_stiffness"], p["mass_per_area"], c0))
+    return float(plates.critical_frequency(p["bending_stiffness"], p["mass_per_area"], c0))
 
 
 def _conv_diffuse(  # type: ignore[no-untyped-def]

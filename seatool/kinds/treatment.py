@@ -14,7 +14,7 @@ a subsystem's *internal* damping loss factor besides a spectrum:
     (:func:`seatool.physics.damping.cavity_loss_factor_from_surfaces`).
 
 ``air_absorption = { temperature, relative_humidity, pressure }`` adds the ISO 9613-1 air
-absorption loss factor (:func:`seatool.physics.damping.air_absorption_loss_factor`).
+absorption loss factor (:func:`seatool.physics.air_absorption.air_absorption_loss_factor`).
 
 ``damping`` is internal damping only. Radiation damping (power radiated into a cavity or
 the exterior) comes from the coupling loss factors of radiation connections; a measured
@@ -39,7 +39,6 @@ import math
 import warnings
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from pathlib import Path
 from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
@@ -48,9 +47,10 @@ import numpy.typing as npt
 from seatool.errors import closest
 from seatool.materials import load_materials
 from seatool.modelfile import DAMPING_FORMS, DEFAULT_FLUID, Reader
+from seatool.physics import air_absorption, damping_layers, porous, tmm, tmm_transmission
 from seatool.physics import damping as dmp
-from seatool.physics import porous, tmm
-from seatool.physics.damping import ModulusTable
+from seatool.physics.air import AIR_DENSITY, AIR_SOUND_SPEED
+from seatool.physics.damping_layers import ModulusTable
 from seatool.treatments import Treatment, load_treatments
 
 if TYPE_CHECKING:
@@ -518,7 +518,7 @@ def _air_absorption(
     if not ok:
         return None
     assert temp is not None and rh is not None and pa is not None
-    return dmp.air_absorption_loss_factor(
+    return air_absorption.air_absorption_loss_factor(
         f, temperature=temp, relative_humidity=rh, pressure=pa, c0=c
     )
 
@@ -650,7 +650,7 @@ def _read_surfaces_form(
 
 
 def lining_absorption(
-    f: Array, layers: Sequence[TrimLayer], *, rho0: float = 1.204, c0: float = 343.2
+    f: Array, layers: Sequence[TrimLayer], *, rho0: float = AIR_DENSITY, c0: float = AIR_SOUND_SPEED
 ) -> Array:
     """Diffuse-field absorption coefficient of a rigid-backed lining at band centres.
 
@@ -946,7 +946,7 @@ def read_plate_treatment(
             h3 = rd.number(ct["thickness"], _join(cp, "thickness"), unit="m")
             if cmat is None or h3 is None:
                 return None
-            res = dmp.constrained_layer_damping(
+            res = damping_layers.constrained_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 h3, float(cmat["youngs_modulus"]), float(cmat["density"]),
                 base_loss_factor=eta1, cover_loss_factor=_prop(cmat, "loss_factor", 0.0),
@@ -958,7 +958,7 @@ def read_plate_treatment(
                 f"{1000 * h3:.3g} mm cover ({vt.density * layer.thickness + m_cover:.3g} kg/m^2)"
             )
         else:
-            res = dmp.free_layer_damping(
+            res = damping_layers.free_layer_damping(
                 f, h1, e1, rho1, layer.thickness, vt.density, vt.modulus,
                 base_loss_factor=eta1, base_poisson=nu1, layer_poisson=nu2,
             )  # fmt: skip
@@ -1011,7 +1011,9 @@ def read_plate_treatment(
         else:
             rd.error(_join(path, "trim"), "the plate has no mass per area to put the trim on")
             return None
-        res_il = _quiet(tmm.insertion_loss, f, base, _tmm_layers(trim), rho0=rho0, c0=c0)
+        res_il = _quiet(
+            tmm_transmission.insertion_loss, f, base, _tmm_layers(trim), rho0=rho0, c0=c0
+        )
         il = np.asarray(res_il.insertion_loss, dtype=np.float64)
         notes.extend(_validity_notes(trim, f, rho0))
         parts.append(
@@ -1094,103 +1096,3 @@ def _report_lining(
         f"{surface.get('area', '?')} m^2: {_buildup_text(layers)} ({m:.3g} kg/m^2)"
     )
     rd.notes.extend(f"{name} lining: {n}" for n in _validity_notes(layers, f, rho0))
-
-
-# ------------------------------------------------------------------------------------------
-# seatool panel: --damping-layer, --cover, --trim
-
-
-def _panel_arguments(p: Any) -> None:
-    g = p.add_argument_group("treatment (seatool.kinds.treatment)")
-    g.add_argument(
-        "--damping-layer",
-        metavar="NAME",
-        help="viscoelastic layer of the treatment library bonded to the panel: adds the "
-        "composite_loss_factor column ("
-        + ", ".join(n for n, t in _library().items() if t.kind == "viscoelastic")
-        + ")",
-    )
-    g.add_argument(
-        "--cover",
-        metavar="MATERIAL:THICKNESS",
-        help="constraining cover over the damping layer (constrained layer), e.g. steel:0.0005",
-    )
-    g.add_argument(
-        "--trim",
-        metavar="NAME",
-        help="trim layer or build-up of the treatment library on one face: adds its "
-        "diffuse rigid-backed absorption and its field-incidence insertion loss ("
-        + ", ".join(_library())
-        + ")",
-    )
-
-
-_PANEL_OPTIONS = {"damping_layer": "--damping-layer", "cover": "--cover", "trim": "--trim"}
-
-
-def _panel_columns(spec: Any, bands: Any) -> dict[str, Array]:
-    """Treatment columns of ``seatool panel`` (none unless a treatment option is given)."""
-    from seatool.errors import InputError, Problem
-
-    opts = spec.options
-    value: dict[str, Any] = {}
-    if opts.get("damping_layer"):
-        value["damping_layer"] = opts["damping_layer"]
-    if opts.get("trim"):
-        value["trim"] = opts["trim"]
-        value["face"] = "treated side"
-    if opts.get("cover"):
-        mat, _, thick = str(opts["cover"]).partition(":")
-        try:
-            h3: Any = float(thick)
-        except ValueError:
-            raise InputError(
-                [Problem("", "--cover", f"give MATERIAL:THICKNESS_M, got {opts['cover']!r}")]
-            ) from None
-        value["cover"] = {"material": mat, "thickness": h3}
-    if not value:
-        return {}
-    m = spec.material
-    plate = {
-        "thickness": spec.thickness,
-        "material": {
-            "density": m.density,
-            "youngs_modulus": m.youngs_modulus,
-            "poisson_ratio": m.poisson_ratio,
-            "loss_factor": m.loss_factor,
-        },
-        "mass_per_area": spec.mass_per_area,
-        "fluid": {"density": spec.fluid.density, "sound_speed": spec.fluid.sound_speed},
-    }
-    rd = Reader(file="", base_dir=Path("."), bands=bands)
-    got = read_plate_treatment(rd, value, "", plate)
-    if rd.problems or got is None:
-        problems = []
-        for pr in rd.problems:
-            key, _, rest = pr.path.partition(".")
-            option = _PANEL_OPTIONS.get(key, key)
-            problems.append(Problem("", option + (f" ({rest})" if rest else ""), pr.message))
-        raise InputError(problems or [Problem("", "--trim", "treatment could not be read")])
-    out: dict[str, Array] = {}
-    if got.loss_factor is not None:
-        out["composite_loss_factor"] = np.asarray(got.loss_factor)
-        out["bonded_mass_kg_m2"] = np.full(len(bands), got.added_mass_per_area)
-    if got.insertion_loss_db is not None:
-        out["trim_absorption"] = lining_absorption(
-            bands.centre, got.trim, rho0=spec.fluid.density, c0=spec.fluid.sound_speed
-        )
-        out["trim_insertion_loss_dB"] = np.asarray(got.insertion_loss_db)
-        out["trim_mass_kg_m2"] = np.full(len(bands), got.trim_mass_per_area)
-    return out
-
-
-def _register_panel() -> None:
-    from seatool import panel
-
-    if _panel_columns not in panel.PANEL_COLUMNS:
-        panel.PANEL_COLUMNS.append(_panel_columns)
-    if _panel_arguments not in panel.PANEL_ARGUMENTS:
-        panel.PANEL_ARGUMENTS.append(_panel_arguments)
-
-
-_register_panel()

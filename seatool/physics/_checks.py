@@ -24,3 +24,24 @@ def nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
         msg = f"{name} must be finite and >= 0, got {value!r}"
         raise ValueError(msg)
     return arr
+
+
+def poisson(value: npt.ArrayLike) -> FloatArray:
+    """Return Poisson's ratio as a float array; raise ValueError outside (-1, 0.5)."""
+    arr = np.asarray(value, dtype=np.float64)
+    if not np.all(np.isfinite(arr)) or np.any(arr <= -1.0) or np.any(arr >= 0.5):
+        msg = f"poisson_ratio must lie in (-1, 0.5), got {value!r}"
+        raise ValueError(msg)
+    return arr
+
+
+def full(value: FloatArray, *others: npt.ArrayLike) -> FloatArray:
+    """Broadcast a frequency-independent result to the broadcast shape of ``others``."""
+    shape = np.broadcast_shapes(np.shape(value), *(np.shape(o) for o in others))
+    return np.array(np.broadcast_to(value, shape), dtype=np.float64)
+
+
+def fluid(rho0: float, c0: float) -> None:
+    """Raise ValueError unless the fluid density ``rho0`` and sound speed ``c0`` are > 0."""
+    positive("rho0", rho0)
+    positive("c0", c0)

@@ -1,4 +1,4 @@
-"""Acoustic SEA subsystems: fluid properties, cavity and duct modal densities.
+"""Acoustic SEA subsystems: characteristic impedance, cavity and duct modal densities.
 
 Pure, vectorised functions in SI units; modal densities in modes per hertz. The formulas
 and their sources are collected in ``docs/theory/subsystems.md``.
@@ -11,14 +11,10 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
-from seatool.physics.structural import _full, _positive
+from ._checks import full as _full
+from ._checks import positive as _positive
 
 __all__ = [
-    "GAS_CONSTANT",
-    "MOLAR_MASS_DRY_AIR",
-    "RATIO_OF_SPECIFIC_HEATS_AIR",
-    "air_density",
-    "air_sound_speed",
     "cavity_modal_density",
     "cavity_mode_count",
     "characteristic_impedance",
@@ -30,84 +26,7 @@ __all__ = [
 
 FloatArray = npt.NDArray[np.float64]
 
-#: Molar gas constant R [J/(mol K)] (exact in the 2019 SI, CODATA 2018).
-GAS_CONSTANT = 8.314462618
-#: Molar mass of dry air [kg/mol] (CIPM-2007 air-density formula, Picard et al. 2008;
-#: from memory).
-MOLAR_MASS_DRY_AIR = 0.0289647
-#: Ratio of specific heats of dry air near room temperature [-] (common practice).
-RATIO_OF_SPECIFIC_HEATS_AIR = 1.4
-_KELVIN = 273.15
 _SOUND_PRESSURE_RIGID_DUCT_BESSEL_ZERO = 1.84118  # first zero of J1'(x), A&S Table 9.5
-
-
-def _temperature_kelvin(temperature_C: npt.ArrayLike) -> FloatArray:
-    t = np.asarray(temperature_C, dtype=np.float64)
-    if not np.all(np.isfinite(t)) or np.any(t <= -_KELVIN):
-        msg = f"temperature_C must be finite and above -273.15 C, got {temperature_C!r}"
-        raise ValueError(msg)
-    return np.asarray(t + _KELVIN, dtype=np.float64)
-
-
-def air_sound_speed(temperature_C: npt.ArrayLike) -> FloatArray:
-    """Speed of sound in dry air, ideal gas.
-
-    Parameters
-    ----------
-    temperature_C : float or array_like
-        Air temperature [deg C].
-
-    Returns
-    -------
-    numpy.ndarray
-        c = sqrt(gamma R T / M) [m/s] with gamma = 1.4, R = 8.314462618 J/(mol K),
-        M = 0.0289647 kg/mol; 343.2 m/s at 20 C. Independent of static pressure for an
-        ideal gas.
-
-    Notes
-    -----
-    Humidity is neglected (it raises c by up to about 0.3 % at room temperature).
-    ISO 9613-1 writes the same law as c = 343.2 sqrt(T / 293.15 K).
-
-    References
-    ----------
-    .. [1] Bies, D.A., Hansen, C.H. (2009). Engineering Noise Control, 4th ed., Spon,
-       ISBN 978-0-415-48707-8, sec. 1.4.2, eq. (1.6) (speed of sound in an ideal gas;
-       equation number from memory).
-    .. [2] ISO 9613-1:1993. Acoustics - Attenuation of sound during propagation outdoors -
-       Part 1: Calculation of the absorption of sound by the atmosphere (reference speed
-       of sound; from memory).
-    """
-    t = _temperature_kelvin(temperature_C)
-    return np.asarray(
-        np.sqrt(RATIO_OF_SPECIFIC_HEATS_AIR * GAS_CONSTANT * t / MOLAR_MASS_DRY_AIR),
-        dtype=np.float64,
-    )
-
-
-def air_density(temperature_C: npt.ArrayLike, pressure_Pa: npt.ArrayLike = 101325.0) -> FloatArray:
-    """Density of dry air, ideal gas.
-
-    Parameters
-    ----------
-    temperature_C : float or array_like
-        Air temperature [deg C].
-    pressure_Pa : float or array_like, optional
-        Static pressure [Pa]; default 101325 Pa.
-
-    Returns
-    -------
-    numpy.ndarray
-        rho = p M / (R T) [kg/m^3]; 1.204 kg/m^3 at 20 C and 101.325 kPa.
-
-    References
-    ----------
-    .. [1] Bies, D.A., Hansen, C.H. (2009). Engineering Noise Control, 4th ed., Spon,
-       ISBN 978-0-415-48707-8, sec. 1.4.2 (ideal gas law; from memory).
-    """
-    t = _temperature_kelvin(temperature_C)
-    p = _positive("pressure_Pa", pressure_Pa)
-    return np.asarray(p * MOLAR_MASS_DRY_AIR / (GAS_CONSTANT * t), dtype=np.float64)
 
 
 def characteristic_impedance(density: npt.ArrayLike, sound_speed: npt.ArrayLike) -> FloatArray:

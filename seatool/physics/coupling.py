@@ -25,6 +25,8 @@ from scipy import special
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
+from .air import AIR_DENSITY as _RHO0
+from .air import AIR_SOUND_SPEED as _C0
 
 __all__ = [
     "aperture_transmission_circular",
@@ -41,8 +43,6 @@ __all__ = [
 FloatArray = npt.NDArray[np.float64]
 ComplexArray = npt.NDArray[np.complex128]
 
-_RHO0 = 1.21
-_C0 = 343.0
 _F_REF = 1000.0
 
 

@@ -37,7 +37,7 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
-from . import structural
+from . import plates
 
 __all__ = [
     "WAVE_TYPES",
@@ -106,8 +106,8 @@ class JunctionPlate:
 
 
 def _bending_stiffness(p: JunctionPlate) -> float:
-    """D = E h^3 / (12 (1 - nu^2)) [N m] (:func:`seatool.physics.structural.bending_stiffness`)."""
-    return float(structural.bending_stiffness(p.youngs_modulus, p.thickness, p.poisson))
+    """D = E h^3 / (12 (1 - nu^2)) [N m] (:func:`seatool.physics.plates.bending_stiffness`)."""
+    return float(plates.bending_stiffness(p.youngs_modulus, p.thickness, p.poisson))
 
 
 def _membrane_stiffness(p: JunctionPlate) -> float:

@@ -14,7 +14,10 @@ from __future__ import annotations
 import numpy as np
 import numpy.typing as npt
 
-from seatool.physics.structural import _nonnegative, _positive, beam_bending_phase_speed
+from seatool.physics.beams import beam_bending_phase_speed
+
+from ._checks import nonnegative as _nonnegative
+from ._checks import positive as _positive
 
 __all__ = [
     "beam_end_mobility",

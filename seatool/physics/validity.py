@@ -14,7 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 import numpy.typing as npt
 
-from seatool.physics.structural import _positive
+from ._checks import positive as _positive
 
 __all__ = [
     "BandValidity",

@@ -29,7 +29,7 @@ def test_radiation_clf_reproduces_radiated_power_definition():
     # Definition of radiation efficiency (Lyon & DeJong 1995; Fahy 1985):
     # W_rad = rho0 c0 S sigma <v^2>; SEA: W = omega eta E with E = m'' S <v^2>.
     f, sigma, m, s, v2 = 1000.0, 3.1e-3, 7.85, 1.5, 1e-6
-    eta = cp.clf_radiation(f, sigma, m)
+    eta = cp.clf_radiation(f, sigma, m, rho0=RHO0, c0=C0)
     w_sea = 2 * math.pi * f * float(eta) * m * s * v2
     assert w_sea == pytest.approx(RHO0 * C0 * s * sigma * v2, rel=1e-12)
 
@@ -37,14 +37,14 @@ def test_radiation_clf_reproduces_radiated_power_definition():
 @pytest.mark.regression
 def test_radiation_clf_regression_value():
     # [C] PHYSICS.md sec. 5.1: steel 1 mm, 1 kHz, sigma = 3.1009e-3 -> eta_pc = 2.609e-5.
-    assert float(cp.clf_radiation(1000.0, 3.1009e-3, 7.85)) == pytest.approx(2.609e-5, rel=1e-3)
+    assert float(cp.clf_radiation(1000.0, 3.1009e-3, 7.85, rho0=RHO0, c0=C0)) == pytest.approx(2.609e-5, rel=1e-3)
 
 
 def test_nonresonant_clf_reproduces_diffuse_field_intensity():
     # Diffuse-field intensity on a wall I = <p^2>/(4 rho0 c0) and cavity energy
     # E = V <p^2>/(rho0 c0^2) (Kuttruff, Room Acoustics): W = S tau I = omega eta E.
     f, s, tau, v, p2 = 500.0, 10.0, 1e-3, 50.0, 1.0
-    eta = cp.clf_nonresonant(f, s, tau, v)
+    eta = cp.clf_nonresonant(f, s, tau, v, c0=C0)
     e = v * p2 / (RHO0 * C0**2)
     assert 2 * math.pi * f * float(eta) * e == pytest.approx(s * tau * p2 / (4 * RHO0 * C0))
 
@@ -53,7 +53,7 @@ def test_nonresonant_clf_reproduces_diffuse_field_intensity():
 def test_nonresonant_clf_regression_value():
     # [C] PHYSICS.md sec. 5.2: 10 kg/m^2, 1 m^2, 50 m^3, 500 Hz, R = 20 lg(f m) - 47 dB.
     tau = 10 ** (-(20 * math.log10(500 * 10) - 47) / 10)
-    assert float(cp.clf_nonresonant(500.0, 1.0, tau, 50.0)) == pytest.approx(1.094e-6, rel=2e-3)
+    assert float(cp.clf_nonresonant(500.0, 1.0, tau, 50.0, c0=C0)) == pytest.approx(1.094e-6, rel=2e-3)
 
 
 def test_cavity_clf_reciprocity_with_volume_modal_density():
@@ -62,14 +62,14 @@ def test_cavity_clf_reciprocity_with_volume_modal_density():
     f, s, tau, v1, v2 = 250.0, 8.0, 1e-4, 30.0, 75.0
     n1 = 4 * math.pi * f**2 * v1 / C0**3
     n2 = 4 * math.pi * f**2 * v2 / C0**3
-    e12 = cp.clf_nonresonant(f, s, tau, v1)
-    e21 = cp.clf_nonresonant(f, s, tau, v2)
+    e12 = cp.clf_nonresonant(f, s, tau, v1, c0=C0)
+    e21 = cp.clf_nonresonant(f, s, tau, v2, c0=C0)
     assert float(n1 * e12) == pytest.approx(float(n2 * e21), rel=1e-12)
 
 
 def test_aperture_clf_large_opening():
     # Large opening, tau = 1 (PHYSICS.md 5.5): eta = c0 S_a / (4 omega V).
-    eta = cp.clf_aperture(1000.0, 0.01, 3.0)
+    eta = cp.clf_aperture(1000.0, 0.01, 3.0, c0=C0)
     assert float(eta) == pytest.approx(C0 * 0.01 / (4 * 2 * math.pi * 1000.0 * 3.0))
 
 
@@ -84,17 +84,17 @@ def test_piston_impedance_limits():
     a = 0.01
     f = 50.0
     ka = 2 * math.pi * f / C0 * a
-    z = complex(cp.piston_radiation_impedance(f, a)) / (RHO0 * C0)
+    z = complex(cp.piston_radiation_impedance(f, a, rho0=RHO0, c0=C0)) / (RHO0 * C0)
     assert z.real == pytest.approx(ka**2 / 2, rel=1e-3)
     assert z.imag == pytest.approx(8 * ka / (3 * math.pi), rel=1e-3)
-    zh = complex(cp.piston_radiation_impedance(2e5, a)) / (RHO0 * C0)
+    zh = complex(cp.piston_radiation_impedance(2e5, a, rho0=RHO0, c0=C0)) / (RHO0 * C0)
     assert zh.real == pytest.approx(1.0, abs=0.02)
     assert abs(zh.imag) < 0.05
 
 
 def test_aperture_large_thin_hole_transmits_fully():
     # k a >> 1, thin wall: geometric limit tau -> 1 (Wilson & Soroka 1965).
-    tau = cp.aperture_transmission_circular(2e5, 0.05, 0.0)
+    tau = cp.aperture_transmission_circular(2e5, 0.05, 0.0, rho0=RHO0, c0=C0)
     assert float(tau) == pytest.approx(1.0, abs=0.02)
 
 
@@ -104,7 +104,7 @@ def test_aperture_small_thin_hole_against_rayleigh_conductivity():
     # lumped model gives tau -> 8/pi^2 = 0.81 at k a << 1. The piston-end model uses the
     # end correction 8a/(3 pi) per side instead of the exact pi a/4 (0.85a vs 0.785a), so it
     # is lower (0.69); tolerance 1 dB.
-    tau = cp.aperture_transmission_circular(20.0, 0.005, 0.0)
+    tau = cp.aperture_transmission_circular(20.0, 0.005, 0.0, rho0=RHO0, c0=C0)
     assert 10 * math.log10(float(tau) / (8 / math.pi**2)) == pytest.approx(0.0, abs=1.0)
 
 
@@ -113,7 +113,7 @@ def test_aperture_first_tube_resonance_with_end_corrections():
     # sec. 10): f_1 = c0 / (2 (d + 2 * 8a/(3 pi))), within 1 %.
     a, d = 0.004, 0.12
     f = np.linspace(500.0, 2500.0, 40001)
-    tau = cp.aperture_transmission_circular(f, a, d)
+    tau = cp.aperture_transmission_circular(f, a, d, rho0=RHO0, c0=C0)
     f_peak = f[np.argmax(tau)]
     assert f_peak == pytest.approx(C0 / (2 * (d + 16 * a / (3 * math.pi))), rel=0.01)
     assert float(np.max(tau)) > 1.0  # the lossless model exceeds 1 at resonance
@@ -124,9 +124,9 @@ def test_aperture_thick_wall_lumped_mass_limit():
     # (Helmholtz-type plug model, Kinsler et al. 2000 sec. 10):
     # tau = 4 rho c R / |2 Z_r + j omega rho0 d|^2.
     f, a, d = 100.0, 0.003, 0.01
-    zr = complex(cp.piston_radiation_impedance(f, a))
+    zr = complex(cp.piston_radiation_impedance(f, a, rho0=RHO0, c0=C0))
     lump = 4 * RHO0 * C0 * zr.real / abs(2 * zr + 1j * 2 * math.pi * f * RHO0 * d) ** 2
-    assert float(cp.aperture_transmission_circular(f, a, d)) == pytest.approx(lump, rel=1e-3)
+    assert float(cp.aperture_transmission_circular(f, a, d, rho0=RHO0, c0=C0)) == pytest.approx(lump, rel=1e-3)
 
 
 # ------------------------------------------------------------------------------------------
@@ -200,19 +200,19 @@ def test_vibration_reduction_index_matches_definition_on_two_plate_sea(f, h_i, h
     expect, eta_ij = k_from_two_plate_sea(f, h_i, h_j, s_i, s_j, length, tau, 0.02, 0.03)
     fc_i, fc_j = plate(h_i)["fc"], plate(h_j)["fc"]
     k_tau = cp.vibration_reduction_index(tau, fc_j)
-    k_clf = cp.vibration_reduction_index_from_clf(f, eta_ij, s_i, length, fc_i, fc_j)
+    k_clf = cp.vibration_reduction_index_from_clf(f, eta_ij, s_i, length, fc_i, fc_j, c0=C0)
     assert float(k_tau) == pytest.approx(expect, abs=1e-9)
     assert float(k_clf) == pytest.approx(expect, abs=1e-9)
-    back = cp.clf_from_vibration_reduction_index(f, k_clf, s_i, length, fc_i, fc_j)
+    back = cp.clf_from_vibration_reduction_index(f, k_clf, s_i, length, fc_i, fc_j, c0=C0)
     assert float(back) == pytest.approx(eta_ij, rel=1e-12)
 
 
 def test_validation():
     with pytest.raises(ValueError, match="m_area"):
-        cp.clf_radiation(100.0, 0.1, 0.0)
+        cp.clf_radiation(100.0, 0.1, 0.0, rho0=RHO0, c0=C0)
     with pytest.raises(ValueError, match="tau"):
-        cp.clf_nonresonant(100.0, 1.0, -0.1, 1.0)
+        cp.clf_nonresonant(100.0, 1.0, -0.1, 1.0, c0=C0)
     with pytest.raises(ValueError, match="depth"):
-        cp.aperture_transmission_circular(100.0, 0.01, -1.0)
+        cp.aperture_transmission_circular(100.0, 0.01, -1.0, rho0=RHO0, c0=C0)
     with pytest.raises(ValueError, match="k_ij"):
-        cp.clf_from_vibration_reduction_index(100.0, np.nan, 1.0, 1.0, 100.0, 100.0)
+        cp.clf_from_vibration_reduction_index(100.0, np.nan, 1.0, 1.0, 100.0, 100.0, c0=C0)

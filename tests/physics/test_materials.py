@@ -7,7 +7,7 @@ import dataclasses
 import pytest
 
 from seatool.materials import Fluid, Material, air_at, load_fluids, load_materials
-from seatool.physics import structural as st
+from seatool.physics import elastic
 
 REQUIRED_MATERIALS = {
     "steel",
@@ -74,7 +74,7 @@ def test_invalid_fluid_raises() -> None:
 def test_shear_modulus_property() -> None:
     alu = load_materials()["aluminium"]
     assert alu.shear_modulus == pytest.approx(
-        float(st.shear_modulus(alu.youngs_modulus, alu.poisson_ratio))
+        float(elastic.shear_modulus(alu.youngs_modulus, alu.poisson_ratio))
     )
 
 
@@ -109,5 +109,5 @@ def test_water_values_plausible() -> None:
 )
 def test_table_materials_reproduce_long_coincidence_products(material: str, fch: float) -> None:
     m = load_materials()[material]
-    cl = st.plate_longitudinal_speed(m.youngs_modulus, m.density, m.poisson_ratio)
+    cl = elastic.plate_longitudinal_speed(m.youngs_modulus, m.density, m.poisson_ratio)
     assert 343.0**2 * 12**0.5 / (2 * 3.141592653589793 * cl) == pytest.approx(fch, rel=0.10)

@@ -9,8 +9,8 @@ import pytest
 from scipy import integrate
 
 from seatool.physics import acoustic as ac
+from seatool.physics import beams, plates
 from seatool.physics import mobility as mob
-from seatool.physics import structural as st
 
 E_ST, RHO_ST, NU_ST = 210e9, 7850.0, 0.30
 
@@ -39,7 +39,7 @@ def test_plate_mobility_vs_wavenumber_integral_of_greens_function() -> None:
     # Independent: Y = (j w / (2 pi)) int_0^inf k dk / (D (1 + j eta) k^4 - m'' w^2)
     # (2-D Fourier transform of the damped Kirchhoff plate equation, exp(+j w t)).
     h = 2e-3
-    d = float(st.bending_stiffness(E_ST, h, NU_ST))
+    d = float(plates.bending_stiffness(E_ST, h, NU_ST))
     m = RHO_ST * h
     eta = 1e-4
     w = 2 * np.pi * 1000.0
@@ -61,7 +61,7 @@ def test_plate_mobility_vs_band_averaged_modal_sum_of_finite_plate() -> None:
     # a 1/3-octave band: Re(Y) -> pi n(omega) / (2 M) = 1 / (8 sqrt(D m''))
     # (Cremer, Heckl & Petersson ch. 4; Lyon & DeJong ch. 5).
     a, b, h, eta = 1.5, 1.2, 1e-3, 0.05
-    d = float(st.bending_stiffness(E_ST, h, NU_ST))
+    d = float(plates.bending_stiffness(E_ST, h, NU_ST))
     m = RHO_ST * h
     mass = m * a * b
     mm, nn = np.meshgrid(np.arange(1, 120), np.arange(1, 120), indexing="ij")
@@ -75,7 +75,7 @@ def test_plate_mobility_vs_band_averaged_modal_sum_of_finite_plate() -> None:
     y_inf = complex(mob.plate_point_mobility(d, m)).real
     assert re_avg == pytest.approx(y_inf, rel=0.05)
     # the same identity with the modal density: Re Y = pi n(omega) / (2M), n(omega) = n(f)/2pi
-    n_f = float(st.plate_bending_modal_density(fm, a * b, d, m))
+    n_f = float(plates.plate_bending_modal_density(fm, a * b, d, m))
     assert y_inf == pytest.approx(np.pi * (n_f / (2 * np.pi)) / (2 * mass), rel=1e-12)
     assert y_inf != pytest.approx(np.pi * n_f / (2 * mass), rel=0.5)  # the 2 pi trap
 
@@ -83,7 +83,7 @@ def test_plate_mobility_vs_band_averaged_modal_sum_of_finite_plate() -> None:
 @pytest.mark.regression
 def test_plate_mobility_regression() -> None:
     # [C] PHYSICS.md 5.4: steel 1 mm, Y_inf = 0.010174 m/(N s)
-    d = st.bending_stiffness(E_ST, 1e-3, NU_ST)
+    d = plates.bending_stiffness(E_ST, 1e-3, NU_ST)
     assert complex(mob.plate_point_mobility(d, RHO_ST * 1e-3)).real == pytest.approx(
         0.010174, rel=1e-4
     )
@@ -92,7 +92,7 @@ def test_plate_mobility_regression() -> None:
 # ---------------------------------------------------------------------------------------
 # beams
 # ---------------------------------------------------------------------------------------
-SEC = st.rectangular_section(0.03, 0.01)
+SEC = beams.rectangular_section(0.03, 0.01)
 MPRIME = RHO_ST * SEC.area
 EI = E_ST * SEC.second_moment_y
 
@@ -139,7 +139,7 @@ def _finite_beam_end_mobility(f: float, eta: float, length: float) -> complex:
 def test_beam_end_mobility_vs_boundary_value_solution() -> None:
     for f in (200.0, 2000.0):
         eta = 0.01
-        kb = float(st.beam_bending_wavenumber(f, E_ST, SEC.second_moment_y, MPRIME))
+        kb = float(beams.beam_bending_wavenumber(f, E_ST, SEC.second_moment_y, MPRIME))
         length = 8000.0 / kb  # far-end reflection exp(-eta k L / 2) negligible
         y_num = _finite_beam_end_mobility(f, eta, length)
         y = complex(mob.beam_end_mobility(f, E_ST, SEC.second_moment_y, MPRIME))
@@ -185,14 +185,14 @@ def test_rod_mobilities_vs_boundary_value_solution() -> None:
 
 
 def test_torsion_mobilities_vs_boundary_value_solution() -> None:
-    sec = st.rectangular_section(0.04, 0.01)
+    sec = beams.rectangular_section(0.04, 0.01)
     g = E_ST / (2 * (1 + NU_ST))
     y_num = _finite_rod_end_mobility(
         g * sec.torsion_constant, RHO_ST * sec.polar_moment, 3000.0, 0.01
     )
     y_end = complex(mob.torsion_end_mobility(g, sec.torsion_constant, RHO_ST, sec.polar_moment))
     assert abs(y_num - y_end) < 0.01 * abs(y_end)
-    c_t = float(st.torsion_speed(g, sec.torsion_constant, RHO_ST, sec.polar_moment))
+    c_t = float(beams.torsion_speed(g, sec.torsion_constant, RHO_ST, sec.polar_moment))
     assert y_end.real == pytest.approx(1 / (RHO_ST * sec.polar_moment * c_t))
     y_inf = complex(mob.torsion_point_mobility(g, sec.torsion_constant, RHO_ST, sec.polar_moment))
     assert y_inf == pytest.approx(0.5 * y_end)
@@ -220,13 +220,13 @@ def test_diffuse_field_power_reproduces_cremer_above_coincidence() -> None:
     # radiated power W = rho c sigma S E / M into the far side, tau = W / (S <p^2>/(4 rho c)).
     rho, c = 1.21, 343.0
     h, eta, area = 1e-3, 0.01, 4.0
-    d = float(st.bending_stiffness(E_ST, h, NU_ST))
+    d = float(plates.bending_stiffness(E_ST, h, NU_ST))
     m = RHO_ST * h
-    fc = float(st.critical_frequency(d, m, c))
+    fc = float(plates.critical_frequency(d, m, c))
     p2 = 1.0
     for f in (3 * fc, 10 * fc):
         w = 2 * np.pi * f
-        n = float(st.plate_bending_modal_density(f, area, d, m))
+        n = float(plates.plate_bending_modal_density(f, area, d, m))
         sigma = 1.0  # well above coincidence
         p_in = float(mob.diffuse_field_power_input(f, p2, sigma, n, m, c))
         energy = p_in / (w * eta)
@@ -241,9 +241,9 @@ def test_diffuse_field_power_gives_modal_energy_equipartition() -> None:
     # cavity reaches the cavity's modal energy, E_p / n_p = E_c / n_c (Lyon & DeJong).
     rho, c = 1.21, 343.0
     h, area, f = 2e-3, 1.5, 1000.0
-    d = float(st.bending_stiffness(E_ST, h, NU_ST))
+    d = float(plates.bending_stiffness(E_ST, h, NU_ST))
     m = RHO_ST * h
-    n_p = float(st.plate_bending_modal_density(f, area, d, m))
+    n_p = float(plates.plate_bending_modal_density(f, area, d, m))
     v = 10.0
     n_c = float(ac.cavity_modal_density(f, v, 1.0, 1.0, c, terms="volume"))
     sigma, p2 = 0.3, 0.5

@@ -7,18 +7,15 @@ import warnings
 
 import numpy as np
 import pytest
-from scipy.integrate import quad, solve_ivp
-from scipy.optimize import minimize_scalar
 from scipy.special import jv
 
+from seatool.physics import air, surface_absorption
 from seatool.physics import porous as por
 
 RHO0, C0 = 1.21, 343.0
-Z0 = RHO0 * C0
 
-# ------------------------------------------------------------------------------------------
-# Delany-Bazley and Miki
-# ------------------------------------------------------------------------------------------
+
+Z0 = RHO0 * C0
 
 
 @pytest.mark.parametrize("sigma", [5e3, 2e4, 6e4])
@@ -60,7 +57,7 @@ def test_miki_published_coefficients(sigma):
     # k = (omega/c0)(1 + 7.81 F^-0.618 - j 11.41 F^-0.618)
     # (coefficients as quoted in PHYSICS.md 8.2 [S]); checks our conversion to f/sigma.
     f = np.array([0.02, 0.2, 0.8]) * sigma / RHO0
-    z, k = por.miki(f, sigma)
+    z, k = por.miki(f, sigma, rho0=RHO0, c0=C0)
     ff = 1e3 * f / sigma
     z_ref = Z0 * (1 + 5.50 * ff**-0.632 - 1j * 8.43 * ff**-0.632)
     k_ref = 2 * np.pi * f / C0 * (1 + 7.81 * ff**-0.618 - 1j * 11.41 * ff**-0.618)
@@ -86,143 +83,11 @@ def test_miki_removes_negative_resistance():
     # thin layer at low X; Miki's model stays positive-real.
     f, sigma, d = 125.0, 2e4, 0.025
     with pytest.warns(por.ValidityWarning):
-        zs_db = por.rigid_backed_impedance(f, *por.delany_bazley(f, sigma), d)
+        zs_db = surface_absorption.rigid_backed_impedance(f, *por.delany_bazley(f, sigma), d)
     with pytest.warns(por.ValidityWarning):
-        zs_mi = por.rigid_backed_impedance(f, *por.miki(f, sigma), d)
+        zs_mi = surface_absorption.rigid_backed_impedance(f, *por.miki(f, sigma), d)
     assert zs_db.real < 0 < zs_mi.real
 
-
-def test_similarity_property():
-    # exact invariance of the empirical laws: alpha(f, sigma, d) = alpha(l f, l sigma, d/l)
-    f = np.array([250.0, 500.0, 1000.0])
-    a1 = por.absorption_coefficient(por.rigid_backed_impedance(f, *por.delany_bazley(f, 1e4), 0.05))
-    f2 = 2 * f
-    a2 = por.absorption_coefficient(
-        por.rigid_backed_impedance(f2, *por.delany_bazley(f2, 2e4), 0.025)
-    )
-    np.testing.assert_allclose(a1, a2, rtol=1e-12)
-
-
-@pytest.mark.regression
-def test_rigid_backed_regression_table():
-    # regression: PHYSICS.md 8.3 table [C] (sigma = 10 kPa s/m^2, d = 50 mm), not published
-    f = np.array([250.0, 500.0, 1000.0, 2000.0, 4000.0])
-    a_db = por.absorption_coefficient(
-        por.rigid_backed_impedance(f, *por.delany_bazley(f, 1e4), 0.05)
-    )
-    a_mi = por.absorption_coefficient(por.rigid_backed_impedance(f, *por.miki(f, 1e4), 0.05))
-    np.testing.assert_allclose(a_db, [0.172, 0.496, 0.885, 0.986, 0.973], atol=1.5e-3)
-    np.testing.assert_allclose(a_mi, [0.192, 0.485, 0.883, 0.982, 0.971], atol=1.5e-3)
-
-
-# ------------------------------------------------------------------------------------------
-# rigid-backed layer: closed form vs an ODE solve
-# ------------------------------------------------------------------------------------------
-
-
-def _surface_impedance_by_ode(f, zc, kc, d):
-    """Independent: integrate p'' + kc^2 p = 0 from the rigid wall (p'=0) to the surface."""
-    w = 2 * math.pi * f
-    rho = zc * kc / w  # equivalent density of the fluid layer
-
-    def rhs(_x, y):
-        return [y[1], -(kc**2) * y[0]]
-
-    sol = solve_ivp(rhs, (d, 0.0), [1.0 + 0j, 0.0 + 0j], rtol=1e-11, atol=1e-13)
-    p, dp = sol.y[0, -1], sol.y[1, -1]
-    v = -dp / (1j * w * rho)  # Euler: j omega rho v = -dp/dx, v along +x (into the layer)
-    return p / v
-
-
-@pytest.mark.parametrize("f", [300.0, 1000.0, 3000.0])
-def test_rigid_backed_closed_form_vs_ode(f):
-    zc, kc = por.delany_bazley(f, 1.5e4)
-    d = 0.04
-    zs = por.rigid_backed_impedance(f, zc, kc, d)
-    zs_ode = _surface_impedance_by_ode(f, complex(zc), complex(kc), d)
-    np.testing.assert_allclose(zs, zs_ode, rtol=1e-7)
-    # Allard & Atalla (2009) ch. 3: Z_s = -j Z_c cot(k_c d)
-    np.testing.assert_allclose(zs, -1j * zc / np.tan(kc * d), rtol=1e-12)
-    a = por.absorption_coefficient(zs)
-    a_ode = 1 - abs((zs_ode - Z0) / (zs_ode + Z0)) ** 2
-    np.testing.assert_allclose(a, a_ode, rtol=1e-6)
-
-
-def test_extended_reaction_tends_to_local_for_dense_layer():
-    # Snell refraction: for |k_c| >> k0 the wave inside travels normally -> local reaction
-    f = 1000.0
-    k0 = 2 * math.pi * f / C0
-    kc = 40 * k0 * (1 - 0.3j)
-    zc = 20 * Z0 * (1 - 0.5j)
-    th = np.array([0.3, 0.8, 1.3])
-    z_loc = por.rigid_backed_impedance(f, zc, kc, 0.03, angle=th, reaction="local")
-    z_ext = por.rigid_backed_impedance(f, zc, kc, 0.03, angle=th, reaction="extended")
-    np.testing.assert_allclose(z_ext, z_loc, rtol=1e-3)
-
-
-# ------------------------------------------------------------------------------------------
-# Paris diffuse-field absorption
-# ------------------------------------------------------------------------------------------
-
-
-def test_paris_quadrature_matches_closed_form_local():
-    # London (1950) / Morse & Bolt (1944) closed form vs Paris integral by scipy.integrate.quad
-    for zeta in (1.0, 2.0 - 1.0j, 0.5 + 3.0j, 4.0 + 0.2j):
-        zs = zeta * Z0
-        closed = por.statistical_absorption_local(zs)
-        num = quad(
-            lambda t, zs=zs: por.absorption_coefficient(zs, angle=t) * math.sin(2 * t),
-            0,
-            math.pi / 2,
-        )[0]
-        np.testing.assert_allclose(closed, num, rtol=1e-9)
-        np.testing.assert_allclose(
-            por.paris_integral(lambda t, zs=zs: por.absorption_coefficient(zs, angle=t)),
-            num,
-            rtol=1e-8,
-        )
-    # analytic value at zeta = 1 from the closed form: 8 (3/2 - 2 ln 2) = 0.9096
-    np.testing.assert_allclose(
-        por.statistical_absorption_local(Z0), 8 * (1.5 - 2 * math.log(2)), rtol=1e-12
-    )
-
-
-def test_paris_maximum_0951():
-    # from memory (PHYSICS.md 8.3 [M]): max over real zeta of the locally reacting diffuse
-    # absorption is 0.951 near zeta = 1.6. Independent method: numerical optimisation of the
-    # quadrature (not the closed form).
-    def neg(r):
-        return -float(
-            quad(
-                lambda t: por.absorption_coefficient(r * Z0, angle=t) * math.sin(2 * t),
-                0,
-                math.pi / 2,
-            )[0]
-        )
-
-    res = minimize_scalar(neg, bounds=(0.5, 5.0), method="bounded", options={"xatol": 1e-8})
-    assert abs(-res.fun - 0.951) < 6e-4
-    assert 1.5 < res.x < 1.65
-    # and over complex zeta: the optimum is real (adding reactance only lowers it)
-    assert por.statistical_absorption_local((res.x + 0.3j) * Z0) < -res.fun
-
-
-def test_diffuse_absorption_local_vs_extended_and_bounds():
-    f = np.array([250.0, 1000.0, 4000.0])
-    zc, kc = por.delany_bazley(f, 1e4)
-    a_loc = por.diffuse_absorption(f, zc, kc, 0.05, reaction="local")
-    a_ext = por.diffuse_absorption(f, zc, kc, 0.05, reaction="extended")
-    zs = por.rigid_backed_impedance(f, zc, kc, 0.05)
-    np.testing.assert_allclose(a_loc, por.statistical_absorption_local(zs), rtol=1e-6)
-    assert a_loc.shape == a_ext.shape == f.shape
-    assert np.all((a_ext > 0) & (a_ext < 1))
-    # a light fibrous layer is not locally reacting: the two differ noticeably somewhere
-    assert np.max(np.abs(a_ext - a_loc)) > 0.01
-
-
-# ------------------------------------------------------------------------------------------
-# Johnson-Champoux-Allard
-# ------------------------------------------------------------------------------------------
 
 PHI, ALPHA_INF, SIGMA, LAM, LAM_T = 0.97, 1.05, 2e4, 80e-6, 160e-6
 
@@ -231,9 +96,9 @@ def test_jca_density_limits():
     # Johnson et al. (1987): omega -> 0, rho_eq -> sigma/(j omega) (Darcy);
     # omega -> inf, rho_eq -> alpha_inf rho0 / phi
     f_lo = np.array([1e-3, 1e-2])
-    rho_lo = por.jca_effective_density(f_lo, PHI, ALPHA_INF, SIGMA, LAM)
+    rho_lo = por.jca_effective_density(f_lo, PHI, ALPHA_INF, SIGMA, LAM, rho0=RHO0)
     np.testing.assert_allclose(rho_lo * 1j * 2 * np.pi * f_lo / SIGMA, 1.0, rtol=1e-4)
-    rho_hi = por.jca_effective_density(1e9, PHI, ALPHA_INF, SIGMA, LAM)
+    rho_hi = por.jca_effective_density(1e9, PHI, ALPHA_INF, SIGMA, LAM, rho0=RHO0)
     np.testing.assert_allclose(rho_hi, ALPHA_INF * RHO0 / PHI, rtol=2e-3)
     assert np.all(rho_lo.imag < 0)  # passive, exp(+j omega t)
 
@@ -254,7 +119,7 @@ def test_jca_vs_exact_circular_pores():
     # JCA matches both limits exactly and interpolates between them; Johnson et al. (1987)
     # report errors of a few per cent for this geometry (from memory) -> tolerances 6 % and 2 %.
     a, phi = 100e-6, 0.9
-    eta, pr = por.AIR_VISCOSITY, por.AIR_PRANDTL
+    eta, pr = air.AIR_VISCOSITY, air.AIR_PRANDTL
     sigma = 8 * eta / (phi * a**2)
     f = np.logspace(0, 6, 61)
     w = 2 * np.pi * f
@@ -277,7 +142,7 @@ def test_jca_vs_exact_circular_pores():
 
 def test_jca_wave_properties_and_high_frequency_speed():
     f = np.array([100.0, 1000.0, 1e11])  # boundary-layer corrections fall only as f^-1/2
-    zc, kc = por.johnson_champoux_allard(f, PHI, ALPHA_INF, SIGMA, LAM, LAM_T)
+    zc, kc = por.johnson_champoux_allard(f, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, rho0=RHO0)
     assert np.all(zc.real > 0) and np.all(kc.imag < 0)
     # high-frequency limit: c = c_adiabatic/sqrt(alpha_inf), c_ad = sqrt(gamma P0/rho0)
     c_ad = math.sqrt(1.4 * 101325.0 / RHO0)
@@ -288,13 +153,13 @@ def test_jca_wave_properties_and_high_frequency_speed():
 
 def test_limp_frame_limits():
     # Panneton (2007) limp model: heavy frame -> rigid-frame density; locked fluid -> rho_t
-    rho_eq = por.jca_effective_density(np.array([50.0, 500.0]), PHI, ALPHA_INF, SIGMA, LAM)
-    np.testing.assert_allclose(por.limp_frame_density(rho_eq, 1e9, PHI), rho_eq, rtol=1e-6)
+    rho_eq = por.jca_effective_density(np.array([50.0, 500.0]), PHI, ALPHA_INF, SIGMA, LAM, rho0=RHO0)
+    np.testing.assert_allclose(por.limp_frame_density(rho_eq, 1e9, PHI, rho0=RHO0), rho_eq, rtol=1e-6)
     np.testing.assert_allclose(
-        por.limp_frame_density(1e12 * (1 - 1j), 30.0, PHI), 30.0 + PHI * RHO0, rtol=1e-9
+        por.limp_frame_density(1e12 * (1 - 1j), 30.0, PHI, rho0=RHO0), 30.0 + PHI * RHO0, rtol=1e-9
     )
     with pytest.raises(ValueError, match="bulk_density"):
-        por.johnson_champoux_allard(100.0, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, frame="limp")
+        por.johnson_champoux_allard(100.0, PHI, ALPHA_INF, SIGMA, LAM, LAM_T, frame="limp", rho0=RHO0)
 
 
 def test_invalid_inputs():
@@ -305,4 +170,4 @@ def test_invalid_inputs():
     with pytest.raises(ValueError, match="tortuosity"):
         por.jca_effective_density(100.0, 0.9, 0.5, 1e4, 1e-4)
     with pytest.raises(ValueError, match="thickness"):
-        por.rigid_backed_impedance(100.0, Z0, 1.0, 0.0)
+        surface_absorption.rigid_backed_impedance(100.0, Z0, 1.0, 0.0)

@@ -15,9 +15,14 @@ import pytest
 from scipy import integrate
 
 from seatool.physics import radiation as rad
+from seatool.physics import radiation_curved, radiation_modal
 
 C0 = 343.0
+
+
 E_STEEL, RHO_STEEL, NU_STEEL = 210e9, 7850.0, 0.3
+
+
 G10 = 10.0**0.3  # base-10 octave ratio, IEC 61260-1
 
 
@@ -45,97 +50,6 @@ def resonant_modes(a: float, b: float, h: float, f_lo: float, f_hi: float):
     return list(zip(ii.tolist(), jj.tolist(), f[sel].tolist(), strict=True))
 
 
-def freq_for_ka(ka: float, a: float) -> float:
-    return ka * C0 / (2.0 * math.pi * a)
-
-
-# ------------------------------------------------------------------------------------------
-# Wallace (1972) modal radiation efficiency against its published low-frequency asymptotes
-# ------------------------------------------------------------------------------------------
-
-
-def wallace_asymptote(k: float, m: int, n: int, a: float, b: float) -> float:
-    """Wallace (1972) low-frequency asymptotes with first corrections (from memory;
-    PHYSICS.md sec. 4.4, even-even correction coefficient 1/28 as corrected there)."""
-    cm = 1.0 - (8.0 if m % 2 else 24.0) / (m * math.pi) ** 2
-    cn = 1.0 - (8.0 if n % 2 else 24.0) / (n * math.pi) ** 2
-    pre = 1.0 / (math.pi**5 * m**2 * n**2)
-    if m % 2 and n % 2:
-        return 32 * k**2 * a * b * pre * (1 - k**2 * a * b / 12 * (cm * a / b + cn * b / a))
-    if m % 2 and not n % 2:
-        return (8 * k**4 * a * b**3 / 3 * pre
-                * (1 - k**2 * a * b / 20 * (cm * a / b + cn * b / a)))
-    if n % 2 and not m % 2:
-        return (8 * k**4 * a**3 * b / 3 * pre
-                * (1 - k**2 * a * b / 20 * (cm * a / b + cn * b / a)))
-    return 2 * k**6 * a**3 * b**3 / 15 * pre * (1 - k**2 * a * b / 28 * (cm * a / b + cn * b / a))
-
-
-@pytest.mark.parametrize(
-    ("m", "n", "a", "b", "ka", "rtol"),
-    [
-        (1, 1, 1.0, 1.0, 0.05, 1e-4),   # odd-odd, Wallace 1972 (from memory)
-        (1, 1, 1.0, 1.0, 0.3, 2e-4),    # first correction term matters here
-        (1, 1, 1.0, 0.6, 0.3, 2e-4),
-        (3, 1, 1.0, 0.7, 0.2, 1e-3),
-        (1, 2, 1.0, 1.0, 0.1, 1e-3),    # odd-even
-        (2, 1, 1.2, 0.8, 0.1, 1e-3),    # even-odd
-        (2, 2, 1.0, 1.0, 0.1, 1e-3),    # even-even (correction coefficient 1/28)
-    ],
-)
-def test_wallace_low_frequency_asymptotes(m, n, a, b, ka, rtol):
-    f = freq_for_ka(ka, a)
-    k = 2 * math.pi * f / C0
-    got = rad.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0)
-    assert got == pytest.approx(wallace_asymptote(k, m, n, a, b), rel=rtol)
-
-
-def test_wallace_quadrature_matches_adaptive_scipy_integral():
-    # Independent numerical method: scipy adaptive dblquad on the Vigran (2008) eq. 6.46 form,
-    # at k a = 12 with a mode whose x-wavenumber is supersonic (integrand peak inside).
-    a, b, m, n = 1.0, 0.8, 3, 6
-    f = freq_for_ka(12.0, a)
-    k = 2 * math.pi * f / C0
-
-    def factor(arg: float, q: int) -> float:
-        trig = math.cos if q % 2 else math.sin
-        x = arg / (q * math.pi)
-        if abs(x - 1.0) < 1e-9:
-            return q * math.pi / 4.0
-        return trig(arg / 2.0) / (x * x - 1.0)
-
-    def integrand(theta: float, phi: float) -> float:
-        al = k * a * math.sin(theta) * math.cos(phi)
-        be = k * b * math.sin(theta) * math.sin(phi)
-        return (factor(al, m) * factor(be, n)) ** 2 * math.sin(theta)
-
-    val, _ = integrate.dblquad(integrand, 0.0, math.pi / 2, 0.0, math.pi / 2,
-                               epsabs=0.0, epsrel=1e-9)
-    ref = 64 * k**2 * a * b / (math.pi**6 * m**2 * n**2) * val
-    got = rad.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0)
-    assert got == pytest.approx(ref, rel=1e-6)
-
-
-def test_wallace_single_mode_tends_to_one_well_above_its_coincidence():
-    # A (1,1) mode at k a >> pi radiates like a piston-ish plane wave: sigma -> 1
-    # (Wallace 1972, Fig. 2 trend; values 1.109/1.027/1.006 at k a = 10/20/40 are [C]).
-    vals = [rad.modal_radiation_efficiency_wallace(freq_for_ka(ka, 1.0), 1, 1, 1.0, 1.0)
-            for ka in (10.0, 20.0, 40.0)]
-    assert abs(vals[2] - 1.0) < abs(vals[1] - 1.0) < abs(vals[0] - 1.0) < 0.15
-    assert vals[2] == pytest.approx(1.0, abs=0.01)
-
-
-def test_wallace_rejects_bad_input():
-    with pytest.raises(ValueError, match="mode indices"):
-        rad.modal_radiation_efficiency_wallace(100.0, 0, 1, 1.0, 1.0)
-    with pytest.raises(ValueError, match="a must be"):
-        rad.modal_radiation_efficiency_wallace(100.0, 1, 1, -1.0, 1.0)
-
-
-# ------------------------------------------------------------------------------------------
-# Leppington band value against the equal-weight average of Wallace modal values
-# ------------------------------------------------------------------------------------------
-
 # deterministic ensemble of simply supported steel panels, a in [1.2, 2.0] m, b in [0.8, 1.2] m
 PANELS = [(1.2 + 0.8 * x, 0.8 + 0.4 * y) for x, y in
           [(0.1, 0.7), (0.35, 0.2), (0.6, 0.9), (0.85, 0.4),
@@ -156,7 +70,7 @@ def test_leppington_band_matches_modal_average_below_coincidence(f_mid):
     for a, b in PANELS:
         modes = resonant_modes(a, b, h, lo, hi)
         assert len(modes) >= 5
-        modal = np.mean([rad.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
+        modal = np.mean([radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
                          for i, j, fm in modes])
         band = rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
         ratios.append(modal / band)
@@ -174,17 +88,13 @@ def test_above_coincidence_asymptote_from_modal_average(a, b, f_mid):
     lo, hi = f_mid * G10 ** (-1 / 6), f_mid * G10 ** (1 / 6)
     modes = resonant_modes(a, b, h, lo, hi)
     assert len(modes) >= 10
-    modal = np.mean([rad.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
+    modal = np.mean([radiation_modal.modal_radiation_efficiency_wallace(fm, i, j, a, b, c0=C0)
                      for i, j, fm in modes])
     asymptote = 1.0 / math.sqrt(1.0 - fc / f_mid)
     assert modal == pytest.approx(asymptote, rel=0.03)
     band = rad.radiation_efficiency_band(f_mid, a, b, fc, f_lower=lo, f_upper=hi, c0=C0)
     assert band == pytest.approx(asymptote, rel=0.03)
 
-
-# ------------------------------------------------------------------------------------------
-# relations between the published formulas
-# ------------------------------------------------------------------------------------------
 
 F_BANDS = np.array([100.0, 251.19, 501.19, 1000.0, 1995.26, 3981.07, 7943.28])
 
@@ -241,11 +151,11 @@ def test_forced_radiation_en12354_regression():
     # Annex B formula as recalled): 1.5 m x 1.0 m panel.
     f = np.array([100.0, 501.19, 1995.26, 3981.07])
     expect = np.array([0.4843, 1.2826, 1.9731, 2.0])
-    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0), expect,
+    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0), expect,
                                atol=1e-4)
     # symmetric in the side lengths
-    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.0, 1.5),
-                               rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0))
+    np.testing.assert_allclose(rad.forced_radiation_efficiency_en12354(f, 1.0, 1.5, c0=C0),
+                               rad.forced_radiation_efficiency_en12354(f, 1.5, 1.0, c0=C0))
 
 
 @pytest.mark.regression
@@ -253,17 +163,12 @@ def test_single_frequency_regression_table():
     # [C] regression values of PHYSICS.md sec. 4.5 (steel 1 mm, 1.5 x 1.0 m, f_c = 11 963 Hz).
     fc = 11963.0
     f = np.array([100.0, 1000.0, 7943.28, 19952.6])
-    np.testing.assert_allclose(rad.radiation_efficiency_leppington(f, 1.5, 1.0, fc),
+    np.testing.assert_allclose(rad.radiation_efficiency_leppington(f, 1.5, 1.0, fc, c0=C0),
                                [8.9405e-4, 3.1009e-3, 2.9787e-2, 1.5803], rtol=2e-4)
-    np.testing.assert_allclose(rad.radiation_efficiency_maidanik(f, 1.5, 1.0, fc),
+    np.testing.assert_allclose(rad.radiation_efficiency_maidanik(f, 1.5, 1.0, fc, c0=C0),
                                [1.1371e-3, 3.1686e-3, 2.9787e-2, 1.5803], rtol=2e-4)
-    np.testing.assert_allclose(rad.radiation_efficiency_en12354(f, 1.5, 1.0, fc),
+    np.testing.assert_allclose(rad.radiation_efficiency_en12354(f, 1.5, 1.0, fc, c0=C0),
                                [1.3801e-3, 3.2363e-3, 2.9787e-2, 1.5803], rtol=2e-4)
-
-
-# ------------------------------------------------------------------------------------------
-# band averaging
-# ------------------------------------------------------------------------------------------
 
 
 def test_band_average_equals_adaptive_integral():
@@ -300,6 +205,4 @@ def test_input_validation():
     with pytest.raises(ValueError, match="corner_factor"):
         rad.radiation_efficiency_maidanik(100.0, 1.0, 1.0, 1000.0, corner_factor=-1.0)
     with pytest.raises(ValueError, match="radius"):
-        rad.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3)
-
-# curved panels: tests/physics/test_radiation_curved.py
+        radiation_curved.radiation_efficiency_curved_panel(100.0, 1.0, 1.0, 1000.0, 0.0, longitudinal_speed=5e3)

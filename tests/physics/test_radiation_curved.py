@@ -1,6 +1,6 @@
 """Radiation efficiency of curved panels and cylinders (Szechenyi's statistical method).
 
-Checks of :func:`seatool.physics.radiation.radiation_efficiency_curved_panel`:
+Checks of :func:`seatool.physics.radiation_curved.radiation_efficiency_curved_panel`:
 
 1. radius -> infinity gives the flat band value (Leppington et al. 1982, band-averaged);
 2. far above the ring frequency the flat value is recovered;
@@ -26,6 +26,7 @@ import numpy as np
 import pytest
 
 from seatool.physics import radiation as rad
+from seatool.physics import radiation_curved, radiation_modal
 
 C0 = 343.0
 E_AL, RHO_AL, NU_AL = 70e9, 2700.0, 0.33
@@ -58,7 +59,7 @@ def test_infinite_radius_reproduces_leppington_band(h, l1, l2):
     # coincidence band.
     fc, cl = wall(h)
     fm, lo, hi = third_octaves(17, 43)
-    got = rad.radiation_efficiency_curved_panel(
+    got = radiation_curved.radiation_efficiency_curved_panel(
         fm, l1, l2, fc, 1e7, longitudinal_speed=cl, poisson_ratio=NU_AL,
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
@@ -76,7 +77,7 @@ def test_closed_cylinder_flat_limit_is_maidanik_edge_term_with_end_perimeter():
     fc, cl = wall(1.5e-3)
     l1, l2 = 1.5, 1.0
     fm, lo, hi = third_octaves(20, 35)
-    got = rad.radiation_efficiency_curved_panel(
+    got = radiation_curved.radiation_efficiency_curved_panel(
         fm, l1, l2, fc, 1e7, longitudinal_speed=cl, poisson_ratio=NU_AL, closed=True,
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
@@ -104,7 +105,7 @@ def test_far_above_ring_frequency_tends_to_flat_value(closed):
     f_r = cl / (2 * math.pi * radius)
     fm, lo, hi = third_octaves(33, 37)  # 2 ... 5 kHz
     assert lo[0] > 4 * f_r and hi[-1] < 0.8 * fc
-    got = rad.radiation_efficiency_curved_panel(
+    got = radiation_curved.radiation_efficiency_curved_panel(
         fm, l1, l2, fc, radius, longitudinal_speed=cl, poisson_ratio=NU_AL, closed=closed,
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
@@ -131,7 +132,7 @@ def donnell_panel_modes(
     """(m, n, f_mn) of the flexural modes of a shear-diaphragm curved panel.
 
     Donnell-Mushtari frequency matrix (Leissa 1973, Vibration of Shells, NASA SP-288, ch. 2,
-    from memory; as in tests/physics/test_structural.py) for w ~ sin(m pi x/lx) sin(n pi y/ly)
+    from memory; as in tests/physics/test_plates.py) for w ~ sin(m pi x/lx) sin(n pi y/ly)
     on all four edges: lambda = m pi a/lx, circumferential parameter n pi a/ly,
     k = h^2/(12 a^2); the lowest eigenvalue Omega^2 = rho (1 - nu^2) a^2 omega^2 / E is the
     flexural mode.
@@ -162,9 +163,9 @@ def modal_reference(f_mid: float) -> tuple[float, float, float, int]:
     for lx, ly in PANELS:
         mm, nn, ff = donnell_panel_modes(lx, ly)
         sel = (ff >= lo) & (ff < hi)
-        modal = np.mean([rad.modal_radiation_efficiency_wallace(f, i, j, lx, ly, c0=C0)
+        modal = np.mean([radiation_modal.modal_radiation_efficiency_wallace(f, i, j, lx, ly, c0=C0)
                          for i, j, f in zip(mm[sel], nn[sel], ff[sel], strict=True)])  # fmt: skip
-        stat = rad.radiation_efficiency_curved_panel(
+        stat = radiation_curved.radiation_efficiency_curved_panel(
             f_mid, lx, ly, fc, R_P, longitudinal_speed=cl, poisson_ratio=NU_AL,
             f_lower=lo, f_upper=hi, c0=C0,
         )  # fmt: skip
@@ -230,10 +231,10 @@ def test_edge_mode_class_value_against_wallace_for_lattice_modes():
         short, long_ = min(lx, ly), max(lx, ly)
         cap = (0.5 - 0.15 * short / long_) * math.sqrt(k * short)
         s = np.array(kx**2 + ky**2)
-        formula = rad._mode_class_sigma(
+        formula = radiation_curved._mode_class_sigma(
             s, np.array(kx**2 / s), np.array(k), np.array(lx), np.array(ly), np.array(cap), False
         )
-        ratios.append(rad.modal_radiation_efficiency_wallace(f, int(i), int(j), lx, ly, c0=C0)
+        ratios.append(radiation_modal.modal_radiation_efficiency_wallace(f, int(i), int(j), lx, ly, c0=C0)
                       / float(formula))  # fmt: skip
     assert len(ratios) >= 10
     r = np.array(ratios)
@@ -254,11 +255,11 @@ def test_curved_radiates_more_than_flat_below_ring_frequency(closed):
     fc, cl = wall(h)
     f_r = cl / (2 * math.pi * radius)
     fm, lo, hi = third_octaves(17, 39)
-    curved = rad.radiation_efficiency_curved_panel(
+    curved = radiation_curved.radiation_efficiency_curved_panel(
         fm, l1, l2, fc, radius, longitudinal_speed=cl, poisson_ratio=NU_AL, closed=closed,
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
-    flat = rad.radiation_efficiency_curved_panel(
+    flat = radiation_curved.radiation_efficiency_curved_panel(
         fm, l1, l2, fc, 1e7, longitudinal_speed=cl, poisson_ratio=NU_AL, closed=closed,
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
@@ -273,22 +274,22 @@ def test_curved_radiates_more_than_flat_below_ring_frequency(closed):
 def test_broadcasting_and_default_band_edges():
     fc, cl = wall(1.5e-3)
     f = np.array([[200.0, 400.0], [800.0, 1600.0]])
-    got = rad.radiation_efficiency_curved_panel(f, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl)
+    got = radiation_curved.radiation_efficiency_curved_panel(f, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl)
     assert got.shape == f.shape
     lo, hi = f * G10 ** (-1 / 6), f * G10 ** (1 / 6)
-    explicit = rad.radiation_efficiency_curved_panel(
+    explicit = radiation_curved.radiation_efficiency_curved_panel(
         f, 1.5, 1.0, fc, 2.0, longitudinal_speed=cl, f_lower=lo, f_upper=hi
     )
     np.testing.assert_allclose(got, explicit, rtol=1e-12)
     radii = np.array([1.0, 2.0, 4.0])
-    per_radius = rad.radiation_efficiency_curved_panel(
+    per_radius = radiation_curved.radiation_efficiency_curved_panel(
         300.0, 1.5, 1.0, fc, radii, longitudinal_speed=cl
     )
-    single = [float(rad.radiation_efficiency_curved_panel(300.0, 1.5, 1.0, fc, r,
+    single = [float(radiation_curved.radiation_efficiency_curved_panel(300.0, 1.5, 1.0, fc, r,
                                                           longitudinal_speed=cl))
               for r in radii]  # fmt: skip
     np.testing.assert_allclose(per_radius, single, rtol=1e-12)
-    assert np.ndim(rad.radiation_efficiency_curved_panel(300.0, 1.5, 1.0, fc, 2.0,
+    assert np.ndim(radiation_curved.radiation_efficiency_curved_panel(300.0, 1.5, 1.0, fc, 2.0,
                                                          longitudinal_speed=cl)) == 0
 
 
@@ -297,8 +298,8 @@ def test_quadrature_converged():
     fc, cl = wall(1.5e-3)
     fm, lo, hi = third_octaves(20, 30)
     kw: dict[str, Any] = {"longitudinal_speed": cl, "poisson_ratio": NU_AL, "f_lower": lo, "f_upper": hi}
-    got = rad.radiation_efficiency_curved_panel(fm, 1.5, 1.0, fc, 2.0, **kw)
-    fine = rad.radiation_efficiency_curved_panel(
+    got = radiation_curved.radiation_efficiency_curved_panel(fm, 1.5, 1.0, fc, 2.0, **kw)
+    fine = radiation_curved.radiation_efficiency_curved_panel(
         fm, 1.5, 1.0, fc, 2.0, n_angle=96, n_wavenumber=48, **kw
     )
     np.testing.assert_allclose(got, fine, rtol=0.01)
@@ -319,4 +320,4 @@ def test_invalid_input_raises_value_error_naming_argument(kwargs, name):
     args = {"f": 250.0, "l1": 1.5, "l2": 1.0, "f_c": 8000.0, "radius": 2.0,
             "longitudinal_speed": 5400.0} | kwargs  # fmt: skip
     with pytest.raises(ValueError, match=name):
-        rad.radiation_efficiency_curved_panel(**args)
+        radiation_curved.radiation_efficiency_curved_panel(**args)

@@ -57,6 +57,7 @@ import pytest
 from scipy import integrate, optimize
 
 from seatool.physics import radiation as rad
+from seatool.physics import radiation_modal
 
 C0 = 343.0
 E_STEEL, RHO_STEEL, NU_STEEL = 210e9, 7850.0, 0.3
@@ -294,7 +295,7 @@ def test_rayleigh_integral_reproduces_wallace_for_simply_supported_modes(m, n, a
     # Rayleigh integral of the same mode (Fahy & Gardonio 2007): two different formulations.
     f = ka * C0 / (2.0 * math.pi * a)
     got = sigma_modal(f, m, n, a, b, "simply_supported")
-    ref = rad.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0, n_theta=160, n_phi=160)
+    ref = radiation_modal.modal_radiation_efficiency_wallace(f, m, n, a, b, c0=C0, n_theta=160, n_phi=160)
     assert got == pytest.approx(ref, rel=1e-6)
 
 

@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 
 from seatool import treatments as trt
-from seatool.physics import damping, tmm
+from seatool.physics import damping_layers, tmm
 
 
 @pytest.fixture(scope="module")
@@ -67,7 +67,7 @@ def test_modulus_tables(lib):
     core = lib["vem_core_constrained"].modulus
     assert sheet is not None and sheet.kind == "young"
     assert core is not None and core.kind == "shear"
-    g = damping.complex_modulus(np.array([10.0, 10000.0]), core)
+    g = damping_layers.complex_modulus(np.array([10.0, 10000.0]), core)
     np.testing.assert_allclose(g.real, [2.0e5, 8.0e6])
 
 
@@ -110,7 +110,7 @@ def test_damping_sheet_gives_typical_loss_factor(lib):
     # common practice (PHYSICS.md 7.4): bitumen-type treatments on vehicle sheet metal give
     # composite loss factors of about 0.05-0.3
     s = lib["damping_sheet_free"]
-    res = damping.free_layer_damping(
+    res = damping_layers.free_layer_damping(
         np.array([100.0, 1000.0]), 0.8e-3, 210e9, 7850.0, s.thickness, s.density, s.modulus
     )
     assert np.all((res.loss_factor > 0.02) & (res.loss_factor < 0.3))

@@ -7,7 +7,7 @@ import pytest
 from scipy.linalg import eigvalsh_tridiagonal
 
 from seatool.physics import acoustic as ac
-from seatool.physics import structural as st
+from seatool.physics import elastic, plates
 from seatool.physics import validity as va
 
 
@@ -27,8 +27,8 @@ def test_modal_overlap_same_in_hz_and_rad() -> None:
 @pytest.mark.regression
 def test_reference_sheet_plate_table() -> None:
     # [C] PHYSICS.md 1.2: steel 1 mm, 1 m^2, eta = 0.01 (computed by the sheet's author)
-    d = st.bending_stiffness(210e9, 1e-3, 0.3)
-    n = st.plate_bending_modal_density(100.0, 1.0, d, 7.85)
+    d = plates.bending_stiffness(210e9, 1e-3, 0.3)
+    n = plates.plate_bending_modal_density(100.0, 1.0, d, 7.85)
     bw = (10 ** (1 / 20) - 10 ** (-1 / 20)) * 100.0
     assert va.modes_in_band(n, bw) == pytest.approx(7.37, rel=2e-3)
     assert va.modal_overlap(1000.0, n, 0.01) == pytest.approx(3.19, rel=2e-3)
@@ -97,10 +97,10 @@ def test_level_spread_db_vs_lognormal_sampling() -> None:
 
 def test_thin_plate_upper_frequency_gives_six_thicknesses_per_wavelength() -> None:
     h, e, rho, nu = 0.01, 210e9, 7850.0, 0.3
-    cl = st.plate_longitudinal_speed(e, rho, nu)
+    cl = elastic.plate_longitudinal_speed(e, rho, nu)
     f_max = va.thin_plate_upper_frequency(h, cl)
-    d = st.bending_stiffness(e, h, nu)
-    lam = st.plate_bending_phase_speed(f_max, d, rho * h) / f_max
+    d = plates.bending_stiffness(e, h, nu)
+    lam = plates.plate_bending_phase_speed(f_max, d, rho * h) / f_max
     assert lam == pytest.approx(6 * h, rel=1e-12)
     assert f_max == pytest.approx(0.0504 * cl / h, rel=1e-3)  # PHYSICS.md 2.1 form
 
