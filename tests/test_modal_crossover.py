@@ -30,8 +30,8 @@ from seatool.model import Connection, Excitation, Model, Subsystem
 from seatool.physics import acoustic as ac
 from seatool.physics import coupling as cp
 from seatool.physics import mobility as mob
+from seatool.physics import plates as st
 from seatool.physics import radiation as rad
-from seatool.physics import structural as st
 from seatool.results import Result
 from seatool.solve import solve
 
