@@ -38,7 +38,7 @@ class Command:
 
 
 #: Modules that add subcommands: each defines ``add_commands(registry: dict[str, Command])``.
-COMMAND_MODULES: list[str] = ["seatool.panel", "seatool.analysis.commands"]
+COMMAND_MODULES: list[str] = ["seatool.panel", "seatool.analysis.commands", "seatool.lowfreq"]
 
 
 def _commands() -> dict[str, Command]:

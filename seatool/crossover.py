@@ -27,7 +27,9 @@ import numpy as np
 import numpy.typing as npt
 import pandas as pd
 
+from . import levels
 from .modal import (
+    DiffuseField,
     Excitation,
     ModalBox,
     ModalPanel,
@@ -90,16 +92,23 @@ def _outside_loss(model: Model, members: set[str]) -> dict[str, Array]:
 def modal_box_from_model(
     model: Model,
     cavity: str,
-    dims: tuple[float, float, float],
+    dims: tuple[float, float, float] | None,
     panels: Mapping[str, PanelPlacement],
 ) -> ModalBox:
-    """The modal description of cavity ``cavity`` (box ``dims`` [m]) and its ``panels``.
+    """The modal description of cavity ``cavity`` (box ``dims`` [m]; None: the cavity's
+    ``dimensions`` property) and its ``panels``.
 
     Panels need the plate properties ``lx``, ``ly``, ``bending_stiffness`` and
     ``mass_per_area`` (plate readers store them); ``lx`` runs along the face's u axis.
     Raises ValueError naming what is missing or inconsistent.
     """
     sub = model.subsystem(cavity)
+    if dims is None:
+        if "dimensions" not in sub.properties:
+            msg = f"{cavity}: give the box dimensions (the cavity has none)"
+            raise ValueError(msg)
+        d = [float(x) for x in sub.properties["dimensions"]]
+        dims = (d[0], d[1], d[2])
     if sub.density is None or sub.sound_speed is None or sub.volume is None:
         msg = f"{cavity}: the modal solution needs a cavity with a fluid and a volume"
         raise ValueError(msg)
@@ -142,6 +151,13 @@ def crossover_band(model: Model, members: Sequence[str]) -> int:
     return j
 
 
+def _force_point(box: ModalBox, panels: Mapping[str, PanelPlacement], name: str
+                 ) -> tuple[float, float]:  # fmt: skip
+    panel = box.panel(name)
+    return panels[name].force_point or (DEFAULT_FORCE_POINT[0] * panel.size[0],
+                                        DEFAULT_FORCE_POINT[1] * panel.size[1])  # fmt: skip
+
+
 def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacement]
                  ) -> tuple[list[Excitation], list[str]]:  # fmt: skip
     exs: list[Excitation] = []
@@ -150,11 +166,18 @@ def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacemen
         if e.kind == "power" and e.subsystem == box.name:
             pt = tuple(f * d for f, d in zip(DEFAULT_SOURCE_POINT, box.dims, strict=True))
             exs.append(PointSource(e.name, (pt[0], pt[1], pt[2]), np.asarray(e.power)))
+        elif e.kind == "power" and e.subsystem in panels and e.level is not None and (
+            e.quantity in ("force", "diffuse_sound_pressure_level")
+        ):
+            if e.quantity == "force":
+                fp = _force_point(box, panels, e.subsystem)
+                exs.append(PointForce(e.name, e.subsystem, fp, np.asarray(e.level)))
+            else:
+                p2 = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (np.asarray(e.level) / 10)
+                exs.append(DiffuseField(e.name, e.subsystem, p2))
         elif e.kind == "power" and e.subsystem in panels:
             panel = box.panel(e.subsystem)
-            place = panels[e.subsystem]
-            fp = place.force_point or (DEFAULT_FORCE_POINT[0] * panel.size[0],
-                                       DEFAULT_FORCE_POINT[1] * panel.size[1])  # fmt: skip
+            fp = _force_point(box, panels, e.subsystem)
             re_y = float(mobility.plate_point_mobility(panel.bending_stiffness,
                                                        panel.mass_per_area).real)  # fmt: skip
             # SEA input power of a point force: W = F^2 Re(Y_inf) (Cremer, Heckl & Petersson)
@@ -206,7 +229,7 @@ def merge_tables(sea: Result, modal: ModalResult, modal_bands: npt.ArrayLike) ->
 def solve_crossover(
     model: Model,
     cavity: str,
-    dims: tuple[float, float, float],
+    dims: tuple[float, float, float] | None,
     panels: Mapping[str, PanelPlacement],
     *,
     up_to: float | None = None,

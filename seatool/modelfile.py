@@ -54,6 +54,7 @@ _TOP_KEYS = (
     "connections",
     "excitations",
     "uncertainty",  # read by seatool.analysis (parameter spreads), ignored by the solve
+    "low_frequency",  # read by seatool.lowfreq (modal box solution), ignored by the solve
 )
 
 _MISSING = object()
