@@ -21,6 +21,7 @@ __all__ = [
     "BandError",
     "a_weighting",
     "band_index",
+    "c_weighting",
     "exact_mid_frequency",
 ]
 
@@ -265,3 +266,29 @@ def a_weighting(f: npt.ArrayLike) -> npt.NDArray[np.float64]:
     )
     with np.errstate(divide="ignore"):
         return 20.0 * np.log10(ra) + 2.000
+
+
+def c_weighting(f: npt.ArrayLike) -> npt.NDArray[np.float64]:
+    """C-weighting [dB] at frequency ``f`` [Hz].
+
+    Notes
+    -----
+    IEC 61672-1:2013, eq. (E.1):
+
+    .. math:: C(f) = 20\\lg\\frac{f_4^2 f^2}{(f^2+f_1^2)(f^2+f_4^2)} - C_{1000}
+
+    with the same pole frequencies f1 = 20.598997 Hz and f4 = 12194.217 Hz as the
+    A-weighting and C_1000 = -0.062 dB, the value that makes C(1 kHz) = 0 dB
+    (IEC 61672-1:2013, Annex E, eqs. E.1-E.3).
+
+    References
+    ----------
+    IEC 61672-1:2013, Electroacoustics - Sound level meters - Part 1: Specifications,
+    Annex E, eq. (E.1); nominal values in Table 3.
+    """
+    f = np.asarray(f, dtype=float)
+    f1, f4 = 20.598997, 12194.217
+    f_sq = f * f
+    rc = (f4**2 * f_sq) / ((f_sq + f1**2) * (f_sq + f4**2))
+    with np.errstate(divide="ignore"):
+        return 20.0 * np.log10(rc) + 0.062

@@ -15,7 +15,7 @@ import numpy as np
 
 from .errors import InputError, Problem, closest
 from .model import Model
-from .results import CAUTION
+from .results import CAUTION, write_text_atomic
 
 __all__ = ["main"]
 
@@ -83,6 +83,17 @@ def _parser() -> argparse.ArgumentParser:
         "--balance", action="store_true", help="also print each subsystem's power balance"
     )
     sp.add_argument("--digits", type=int, default=1, help="decimals in the level table (default 1)")
+    sp.add_argument(
+        "--field",
+        choices=["diffuse", "free"],
+        default="diffuse",
+        help="sound field for the loudness of the cavities (default diffuse, as in a cabin)",
+    )
+    sp.add_argument(
+        "--metrics-csv",
+        metavar="FILE",
+        help="write the cavities' dB, dB(A), dB(C), SIL, sone and phon to FILE",
+    )
     cp = sub.add_parser(
         "check",
         help="validate a model and print a summary",
@@ -135,8 +146,26 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         raise InputError(
             [Problem(str(csv_path), "--csv", f"folder {str(csv_path.parent)!r} does not exist")]
         )
+    metrics_path = Path(args.metrics_csv) if args.metrics_csv else None
+    if metrics_path is not None and not metrics_path.parent.exists():
+        raise InputError(
+            [
+                Problem(
+                    str(metrics_path),
+                    "--metrics-csv",
+                    f"folder {str(metrics_path.parent)!r} does not exist",
+                )
+            ]
+        )
     result = run(model)
     print(result.render(names, digits=args.digits))
+    from .analysis import comfort
+
+    comfort_table = comfort.receiver_metrics(result, args.field)
+    shown = comfort_table[comfort_table["subsystem"].isin(names or model.names)]
+    if len(shown):
+        print()
+        print(comfort.render(shown, digits=args.digits))
     if args.balance:
         pb = result.power_balance()
         pb = pb[pb["subsystem"].isin(names or model.names)]
@@ -157,6 +186,18 @@ def _cmd_solve(args: argparse.Namespace) -> int:
                 [Problem(str(csv_path), "--csv", f"cannot write: {exc.strerror or exc}")]
             ) from None
         print(f"wrote {csv_path}")
+    if metrics_path is not None:
+        try:
+            write_text_atomic(metrics_path, comfort_table.to_csv(index=False, float_format="%.10g"))
+        except OSError as exc:
+            raise InputError(
+                [
+                    Problem(
+                        str(metrics_path), "--metrics-csv", f"cannot write: {exc.strerror or exc}"
+                    )
+                ]
+            ) from None
+        print(f"wrote {metrics_path}")
     if plot_path is not None:
         from .plot import plot_levels
 
