@@ -53,6 +53,7 @@ _TOP_KEYS = (
     "excitations",
     "uncertainty",
     "targets",  # noise limits per receiver (seatool.targetfile)
+    "low_frequency",  # read by seatool.lowfreq (modal box solution), ignored by the solve
 )
 
 _MISSING = object()

@@ -38,7 +38,7 @@ import seatool
 from .._version import __version__
 from ..errors import InputError
 from ..levels import CAUTION
-from . import analysis, decisions, measured, model, panel, report
+from . import analysis, decisions, lowfreq, measured, model, panel, report
 from ._common import EXIT_INPUT, EXIT_INTERNAL, Command
 
 __all__ = ["COMMANDS", "main"]
@@ -54,6 +54,7 @@ COMMANDS: tuple[Command, ...] = (
     decisions.VARIANTS,
     decisions.LIGHTEST,
     measured.LOSS_FACTORS,
+    lowfreq.LOWFREQ,
     report.REPORT,
 )
 

@@ -1,0 +1,84 @@
+"""Benchmark: the coupled modal equations, about 1,000 modes x 2,000 frequency lines.
+
+A rigid-walled box with one simply supported panel (synthetic sizes chosen for the mode
+counts: a benchmark, not a design) driven by a point force. Times, in one run:
+
+* reduced: :func:`seatool.physics.modal_coupled.solve_coupled` with the smaller mode set
+  kept (the larger, diagonal set eliminated: two real matrix products per block of lines
+  form the reduced matrices, batched LU solves them);
+* full: :func:`seatool.physics.modal_coupled.solve_coupled_full`, the plain alternative,
+  one dense (K + N) complex system per line with batched LU, timed on a subset of lines and
+  scaled to all of them (it takes minutes for all lines);
+
+and checks that both give the same answer on the subset.
+
+Run: ``python benchmarks/bench_modal.py [--lines 2000] [--split 150 850] [--subset 40]``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import time
+
+import numpy as np
+
+from seatool.physics import modal_box as mb
+from seatool.physics import modal_coupled as mc
+
+
+def case(n_plate: int, n_cavity: int) -> tuple[mb.PlateModes, mb.CavityModes, np.ndarray]:
+    """Panel and box with about the asked mode counts below a common truncation."""
+    dims, c = (1.6, 1.2, 1.0), 343.0
+    volume = dims[0] * dims[1] * dims[2]
+    f_top = (3.0 * n_cavity * c**3 / (4.0 * np.pi * volume)) ** (1.0 / 3.0)
+    cav = mb.cavity_modes(*dims, c, f_top)
+    cav = mb.CavityModes(cav.index[:n_cavity], cav.frequency[:n_cavity], cav.norm[:n_cavity],
+                         cav.dims)  # fmt: skip
+    a, b, m = 0.8, 0.6, 7.85
+    # asymptotic plate mode count N(f) = (S / 2) sqrt(m'' / D) f  ->  D for n_plate modes
+    d = m * (a * b * f_top / (2.0 * n_plate)) ** 2
+    plate = mb.plate_modes(a, b, d, m, 3.0 * f_top)
+    plate = mb.PlateModes(plate.p[:n_plate], plate.q[:n_plate], plate.frequency[:n_plate],
+                          plate.modal_mass, a, b)  # fmt: skip
+    return plate, cav, mb.coupling_matrix(plate, cav, "z0", (0.4, 0.3))
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser(description=__doc__)
+    ap.add_argument("--lines", type=int, default=2000)
+    ap.add_argument("--split", type=int, nargs=2, default=(150, 850),
+                    metavar=("PLATE", "CAVITY"))  # fmt: skip
+    ap.add_argument("--subset", type=int, default=40)
+    ap.add_argument("--repeat", type=int, default=3)
+    args = ap.parse_args()
+    plate, cav, c = case(*args.split)
+    f_hi = float(cav.frequency[-1]) / 2.0
+    f = np.linspace(f_hi / 20.0, f_hi, args.lines)
+    w = 2 * np.pi * f
+    force = mb.plate_mode_shape(plate, 0.31 * plate.a, 0.27 * plate.b)
+    t0 = time.perf_counter()
+    z = mc.modal_impedance(w, plate.frequency, plate.modal_mass, 0.01)
+    y = mc.cavity_modal_admittance_term(w, cav.frequency, cav.norm, 0.01, density=1.2,
+                                        sound_speed=343.0)  # fmt: skip
+    t_setup = time.perf_counter() - t0
+    best = cpu = np.inf
+    for _ in range(args.repeat):
+        t0, c0 = time.perf_counter(), time.process_time()
+        v, p = mc.solve_coupled(z, y, c, force)
+        best = min(best, time.perf_counter() - t0)
+        cpu = min(cpu, time.process_time() - c0)
+    sub = np.linspace(0, args.lines - 1, args.subset).astype(int)
+    t0 = time.perf_counter()
+    v_full, p_full = mc.solve_coupled_full(z[sub], y[sub], c, force)
+    t_full = (time.perf_counter() - t0) * args.lines / args.subset
+    err = float(np.max(np.abs(v[sub] - v_full)) / np.max(np.abs(v_full)))
+    n_modes = len(plate) + len(cav)
+    print(f"{len(plate)} plate + {len(cav)} cavity = {n_modes} modes, {args.lines} lines")
+    print(f"impedances: {t_setup:.3f} s")
+    print(f"reduced (best of {args.repeat}): {best:.2f} s wall, {cpu:.2f} s CPU (all threads)")
+    print(f"full system (scaled from {args.subset} lines): {t_full:.1f} s")
+    print(f"full / reduced: {t_full / best:.1f}x; largest relative difference {err:.1e}")
+
+
+if __name__ == "__main__":
+    main()

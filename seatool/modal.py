@@ -1,0 +1,424 @@
+"""The low-frequency (modal) solution of a rectangular cavity with flexible panels, per band.
+
+Below the SEA range a box-shaped cavity and the simply supported panels in its walls are
+described by their uncoupled modes (:mod:`seatool.physics.modal_box`) coupled through the
+panel surfaces and solved per frequency line (:mod:`seatool.physics.modal_coupled`). This
+module describes such a box (:class:`ModalBox`, :class:`ModalPanel`), its excitations
+(:class:`PointForce`, :class:`DiffuseField`, :class:`PointSource`), picks the modes and the
+frequency lines, and averages the responses into the model's bands (:func:`solve_modal`).
+
+Mode truncation rule: every plate and cavity mode with natural frequency up to
+``truncation_factor`` (default 2) times the upper edge of the highest solved band. A mode
+of natural frequency f_n driven at f <= f_n / 2 responds below resonance with a dynamic
+amplification 1 / (1 - (f/f_n)^2) <= 4/3, i.e. nearly statically; the modes left out only
+add such stiffness-like residual terms, whose sum decays like 1/N (the one-dimensional
+check of the tests shows 0.86/N). The convergence check re-solves with
+``check_factor`` (default 1.5) times the upper edge and reports the largest level change
+in any band; it is stored in :attr:`ModalResult.convergence_db` and in the notes.
+
+Excitations are uncorrelated with each other; their mean-square responses add. Band values
+are means over frequency lines that resolve the narrowest modal peak
+(:func:`seatool.physics.modal_coupled.band_lines`), i.e. the response to a band-limited
+white-noise source of the given band value.
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+import numpy.typing as npt
+import pandas as pd
+
+from . import levels
+from .bands import BandAxis
+from .physics import modal_box as mb
+from .physics import modal_coupled as mc
+
+__all__ = [
+    "DiffuseField",
+    "ModalBox",
+    "ModalPanel",
+    "ModalResult",
+    "PointForce",
+    "PointSource",
+    "solve_modal",
+]
+
+Array = npt.NDArray[np.float64]
+
+#: Diffuse-field plane-wave directions: Gauss nodes in cos(theta) x azimuths.
+DIFFUSE_DIRECTIONS = (6, 12)
+
+
+def _per_band(value: npt.ArrayLike, nb: int, what: str) -> Array:
+    a = np.array(value, dtype=np.float64)
+    if a.ndim == 0:
+        a = np.full(nb, float(a))
+    if a.shape != (nb,) or not np.all(np.isfinite(a)) or np.any(a < 0):
+        msg = f"{what}: expected {nb} finite values >= 0 (one per band)"
+        raise ValueError(msg)
+    a.setflags(write=False)
+    return a
+
+
+@dataclass(frozen=True)
+class ModalPanel:
+    """A simply supported rectangular panel set into one face of the box.
+
+    ``size`` (a, b) runs along the face's (u, v) axes, ``offset`` is its corner on the face
+    (see :mod:`seatool.physics.modal_box` for the axes). ``loss_factor`` per band is the
+    panel's modal damping: its own damping plus every loss to subsystems outside the modal
+    model (e.g. radiation to the exterior) [-].
+    """
+
+    name: str
+    face: str
+    size: tuple[float, float]
+    offset: tuple[float, float]
+    bending_stiffness: float
+    mass_per_area: float
+    loss_factor: npt.ArrayLike
+
+
+@dataclass(frozen=True)
+class ModalBox:
+    """A rigid-walled rectangular cavity with flexible panels, on a band axis.
+
+    ``loss_factor`` per band is the cavity's modal damping (absorption and losses to
+    subsystems outside the modal model) [-].
+    """
+
+    name: str
+    dims: tuple[float, float, float]
+    density: float
+    sound_speed: float
+    loss_factor: npt.ArrayLike
+    panels: tuple[ModalPanel, ...]
+    bands: BandAxis
+
+    def __post_init__(self) -> None:
+        nb = len(self.bands)
+        if len(self.dims) != 3 or min(self.dims) <= 0:
+            msg = f"{self.name}: dims must be three positive lengths [m]"
+            raise ValueError(msg)
+        object.__setattr__(self, "loss_factor", _per_band(self.loss_factor, nb, self.name))
+        names = [self.name]
+        panels = []
+        for p in self.panels:
+            if p.name in names:
+                msg = f"duplicate name {p.name!r} in the modal box"
+                raise ValueError(msg)
+            names.append(p.name)
+            u, v, _, _ = mb.face_axes(p.face)
+            for side, off, ax in ((p.size[0], p.offset[0], u), (p.size[1], p.offset[1], v)):
+                if side <= 0 or off < 0 or off + side > self.dims[ax] * (1 + 1e-12):
+                    msg = (
+                        f"{p.name}: a {side:g} m side at {off:g} m does not fit on face "
+                        f"{p.face} ({self.dims[ax]:g} m)"
+                    )
+                    raise ValueError(msg)
+            lf = _per_band(p.loss_factor, nb, p.name)
+            panels.append(
+                ModalPanel(p.name, p.face, p.size, p.offset, p.bending_stiffness,
+                           p.mass_per_area, lf)  # fmt: skip
+            )
+        for i, p in enumerate(panels):
+            for q in panels[i + 1 :]:
+                if p.face == q.face and _overlap(p, q):
+                    msg = f"panels {p.name!r} and {q.name!r} overlap on face {p.face}"
+                    raise ValueError(msg)
+        object.__setattr__(self, "panels", tuple(panels))
+
+    @property
+    def volume(self) -> float:
+        return float(self.dims[0] * self.dims[1] * self.dims[2])
+
+    def panel(self, name: str) -> ModalPanel:
+        for p in self.panels:
+            if p.name == name:
+                return p
+        msg = f"no panel {name!r} in the modal box {self.name!r}"
+        raise KeyError(msg)
+
+
+def _overlap(p: ModalPanel, q: ModalPanel) -> bool:
+    return all(
+        p.offset[i] < q.offset[i] + q.size[i] and q.offset[i] < p.offset[i] + p.size[i]
+        for i in range(2)
+    )
+
+
+@dataclass(frozen=True)
+class PointForce:
+    """A point force on a panel at (u, v) in panel coordinates [m]; rms force per band [N]."""
+
+    name: str
+    panel: str
+    position: tuple[float, float]
+    force: npt.ArrayLike
+
+
+@dataclass(frozen=True)
+class DiffuseField:
+    """A diffuse sound field on a panel's outer face; space-averaged <p^2> per band [Pa^2]."""
+
+    name: str
+    panel: str
+    mean_square_pressure: npt.ArrayLike
+
+
+@dataclass(frozen=True)
+class PointSource:
+    """A point monopole in the cavity at (x, y, z) [m]; free-field sound power per band [W]."""
+
+    name: str
+    position: tuple[float, float, float]
+    sound_power: npt.ArrayLike
+
+
+Excitation = PointForce | DiffuseField | PointSource
+
+
+@dataclass(frozen=True)
+class ModalResult:
+    """Band-averaged responses of a modal box.
+
+    Attributes
+    ----------
+    box : ModalBox
+    band_positions : numpy.ndarray of int
+        Positions in ``box.bands`` of the solved bands.
+    mean_square : dict
+        Per subsystem name (cavity, panels): <p^2> [Pa^2] or <v^2> [m^2/s^2] per solved band.
+    quantity : dict
+        Per name: 'sound_pressure' or 'velocity'.
+    truncation_hz : float
+        Highest natural frequency kept.
+    modes : dict
+        Number of modes per subsystem.
+    lines : int
+        Number of frequency lines solved.
+    convergence_db : float
+        Largest level change [dB] between the ``check_factor`` and ``truncation_factor``
+        truncations (NaN if not checked).
+    seconds : float
+        Time of the main solve.
+    """
+
+    box: ModalBox
+    band_positions: npt.NDArray[np.int64]
+    mean_square: dict[str, Array]
+    quantity: dict[str, str]
+    truncation_hz: float
+    modes: dict[str, int]
+    lines: int
+    convergence_db: float
+    seconds: float
+    notes: tuple[str, ...] = field(default=())
+
+    def level(self, name: str) -> Array:
+        """Level [dB] of ``name`` per solved band (ISO 1683 references, seatool.levels)."""
+        ms = self.mean_square[name]
+        if self.quantity[name] == "sound_pressure":
+            return levels.sound_pressure_level(ms)
+        return levels.velocity_level(ms)
+
+    def table(self) -> pd.DataFrame:
+        """Tidy table: ``subsystem, band_hz, band_exact_hz, mean_square, level_dB, level_ref,
+        quantity, method`` (method 'modal')."""
+        b = self.box.bands
+        pos = self.band_positions
+        frames = []
+        for name, q in self.quantity.items():
+            frames.append(
+                pd.DataFrame(
+                    {
+                        "subsystem": name,
+                        "band_hz": b.nominal[pos],
+                        "band_exact_hz": b.centre[pos],
+                        "mean_square": self.mean_square[name],
+                        "level_dB": self.level(name),
+                        "level_ref": levels.reference_label(q),
+                        "quantity": q,
+                        "method": "modal",
+                    }
+                )
+            )
+        return pd.concat(frames, ignore_index=True)
+
+
+@dataclass
+class _Modes:
+    plates: list[mb.PlateModes]
+    cavity: mb.CavityModes
+    coupling: Array
+    slices: list[slice]
+
+
+def _modes(box: ModalBox, f_trunc: float) -> _Modes:
+    cav = mb.cavity_modes(*box.dims, box.sound_speed, f_trunc)
+    plates, cols, slices, start = [], [], [], 0
+    for p in box.panels:
+        pm = mb.plate_modes(p.size[0], p.size[1], p.bending_stiffness, p.mass_per_area, f_trunc)
+        plates.append(pm)
+        cols.append(mb.coupling_matrix(pm, cav, p.face, p.offset))
+        slices.append(slice(start, start + len(pm)))
+        start += len(pm)
+    coupling = np.concatenate(cols, axis=1) if cols else np.zeros((len(cav), 0))
+    return _Modes(plates, cav, coupling, slices)
+
+
+def _mode_loss(f_modes: Array, bands: BandAxis, eta: Array) -> Array:
+    """Band loss factor at each mode's natural frequency (log-frequency interpolation,
+    held constant beyond the first and last band centres)."""
+    fm = np.maximum(f_modes, bands.centre[0])
+    return np.asarray(np.interp(np.log(fm), np.log(bands.centre), eta), dtype=np.float64)
+
+
+def _solve_once(
+    box: ModalBox,
+    excitations: Sequence[Excitation],
+    pos: npt.NDArray[np.int64],
+    f_trunc: float,
+    lines: tuple[Array, Array, npt.NDArray[np.int64]],
+) -> tuple[dict[str, Array], dict[str, int]]:
+    md = _modes(box, f_trunc)
+    f, weight, band_of_line = lines
+    w = 2.0 * np.pi * f
+    bands = box.bands
+    zs = [
+        mc.modal_impedance(w, pm.frequency, pm.modal_mass,
+                           _mode_loss(pm.frequency, bands, np.asarray(p.loss_factor)))
+        for p, pm in zip(box.panels, md.plates, strict=True)
+    ]  # fmt: skip
+    z = np.concatenate(zs, axis=1) if zs else np.zeros((w.size, 0), dtype=complex)
+    cav = md.cavity
+    y = mc.cavity_modal_admittance_term(
+        w, cav.frequency, cav.norm, _mode_loss(cav.frequency, bands, np.asarray(box.loss_factor)),
+        density=box.density, sound_speed=box.sound_speed,
+    )  # fmt: skip
+    nk, nn, nl = z.shape[1], y.shape[1], w.size
+    forces, sources, col_weight = [], [], []
+    line_band = pos[band_of_line]
+    for e in excitations:
+        if isinstance(e, PointForce):
+            i = [p.name for p in box.panels].index(e.panel)
+            fk = np.zeros(nk)
+            fk[md.slices[i]] = mb.plate_mode_shape(md.plates[i], *e.position)
+            forces.append(np.broadcast_to(fk[None, :, None], (nl, nk, 1)))
+            sources.append(np.zeros((nl, nn, 1)))
+            amp = _per_band(e.force, len(bands), e.name)
+            col_weight.append((amp**2)[line_band][:, None])
+        elif isinstance(e, DiffuseField):
+            i = [p.name for p in box.panels].index(e.panel)
+            dirs, wd = mb.diffuse_field_directions(*DIFFUSE_DIRECTIONS)
+            fk = np.zeros((nl, nk, len(wd)), dtype=complex)
+            fk[:, md.slices[i], :] = mb.plane_wave_modal_forces(md.plates[i], w / box.sound_speed,
+                                                                dirs)  # fmt: skip
+            forces.append(fk)
+            sources.append(np.zeros((nl, nn, len(wd))))
+            p2 = _per_band(e.mean_square_pressure, len(bands), e.name)
+            col_weight.append(0.5 * p2[line_band][:, None] * wd[None, :])
+        else:
+            q = mb.cavity_mode_shape(cav, e.position)
+            forces.append(np.zeros((nl, nk, 1)))
+            sources.append(np.broadcast_to(q[None, :, None], (nl, nn, 1)))
+            pw = _per_band(e.sound_power, len(bands), e.name)
+            q2 = mb.monopole_volume_velocity_squared(f, pw[line_band], density=box.density,
+                                                     sound_speed=box.sound_speed)  # fmt: skip
+            col_weight.append(q2[:, None])
+    rhs_f = np.concatenate(forces, axis=2)
+    rhs_q = np.concatenate(sources, axis=2)
+    cw = np.concatenate(col_weight, axis=1)  # (L, R)
+    vel, prs = mc.solve_coupled(z, y, md.coupling, rhs_f, rhs_q)
+    ms_p = np.einsum("n,lnr->lr", cav.norm / box.volume, np.abs(prs) ** 2)
+    out = {box.name: mc.line_average(np.sum(cw * ms_p, axis=1), weight, band_of_line, pos.size)}
+    counts = {box.name: len(cav)}
+    for p, sl, pm in zip(box.panels, md.slices, md.plates, strict=True):
+        ms_v = 0.25 * np.sum(np.abs(vel[:, sl, :]) ** 2, axis=1)
+        out[p.name] = mc.line_average(np.sum(cw * ms_v, axis=1), weight, band_of_line, pos.size)
+        counts[p.name] = len(pm)
+    return out, counts
+
+
+def solve_modal(
+    box: ModalBox,
+    excitations: Sequence[Excitation],
+    f_max: float,
+    *,
+    f_min: float | None = None,
+    truncation_factor: float = 2.0,
+    check_factor: float | None = 1.5,
+    lines_per_bandwidth: float = 4.0,
+) -> ModalResult:
+    """Band-averaged modal solution of ``box`` for the bands with centre up to ``f_max`` [Hz].
+
+    Parameters
+    ----------
+    box : ModalBox
+    excitations : sequence of PointForce, DiffuseField, PointSource
+        Uncorrelated sources (at least one).
+    f_max : float
+        Highest band centre solved [Hz].
+    f_min : float or None, optional
+        Lowest band centre solved [Hz] (default: the lowest band).
+    truncation_factor : float, optional
+        Modes up to this factor times the upper edge of the highest solved band (default 2;
+        see the module docstring for the reason).
+    check_factor : float or None, optional
+        Truncation factor of the convergence check (default 1.5; None skips the check).
+    lines_per_bandwidth : float, optional
+        Lines per half-power bandwidth of the most lightly damped mode (default 4).
+
+    Returns
+    -------
+    ModalResult
+    """
+    if not excitations:
+        msg = "the modal solution needs at least one excitation"
+        raise ValueError(msg)
+    names = {p.name for p in box.panels}
+    for e in excitations:
+        if isinstance(e, PointForce | DiffuseField) and e.panel not in names:
+            msg = f"{e.name}: no panel {e.panel!r} in the modal box {box.name!r}"
+            raise ValueError(msg)
+    bands = box.bands
+    low = bands.centre[0] if f_min is None else f_min * (1 - 1e-9)
+    pos = np.flatnonzero((bands.centre <= f_max * (1 + 1e-9)) & (bands.centre >= low))
+    pos = pos.astype(np.int64)
+    if pos.size == 0:
+        msg = f"no band with centre between f_min and f_max = {f_max:g} Hz"
+        raise ValueError(msg)
+    if truncation_factor < 1.0:
+        msg = "truncation_factor must be >= 1"
+        raise ValueError(msg)
+    f_top = float(bands.upper[pos[-1]])
+    etas = [np.asarray(box.loss_factor)[pos]] + [np.asarray(p.loss_factor)[pos] for p in box.panels]
+    eta_min = max(float(np.min(np.concatenate(etas))), 1e-4)
+    lines = mc.band_lines(bands.lower[pos], bands.upper[pos], eta_min,
+                          lines_per_bandwidth=lines_per_bandwidth)  # fmt: skip
+    t0 = time.perf_counter()
+    ms, counts = _solve_once(box, excitations, pos, truncation_factor * f_top, lines)
+    seconds = time.perf_counter() - t0
+    conv = float("nan")
+    notes = [
+        f"{box.name}: modal solution up to {bands.label(int(pos[-1]))} with "
+        + ", ".join(f"{n} {k} modes" for k, n in counts.items())
+        + f" (natural frequencies up to {truncation_factor:g} x {f_top:.4g} Hz), "
+        f"{lines[0].size} frequency lines"
+    ]
+    if check_factor is not None and check_factor < truncation_factor:
+        ms2, _ = _solve_once(box, excitations, pos, check_factor * f_top, lines)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            diffs = [np.abs(10 * np.log10(ms[k] / ms2[k])) for k in ms]
+        conv = float(np.nanmax(np.concatenate(diffs)))
+        notes.append(
+            f"{box.name}: convergence check, largest band-level change {conv:.2g} dB between "
+            f"modes up to {check_factor:g} x and {truncation_factor:g} x the top band edge"
+        )
+    quantity = {box.name: "sound_pressure", **{p.name: "velocity" for p in box.panels}}
+    return ModalResult(box, pos, ms, quantity, truncation_factor * f_top, counts,
+                       int(lines[0].size), conv, seconds, tuple(notes))  # fmt: skip
