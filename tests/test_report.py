@@ -253,3 +253,23 @@ def test_a_structure_as_receiver(tmp_path):
     assert main(["report", RAIL, "-o", str(tmp_path / "x.html"), "--to", "outside",
                  "--quiet"]) == 2  # fmt: skip
     assert not (tmp_path / "x.html").exists()
+
+
+def test_report_shows_what_the_occupants_hear(tmp_path):
+    # the cabin's comfort metrics in the report equal the analysis function's (one source of
+    # each number: seatool.analysis.comfort, checked against ISO 532-1 / IEC 61672-1 there)
+    import seatool
+    from seatool.analysis import comfort
+
+    out = tmp_path / "cab.html"
+    assert main(["report", RAIL, "-o", str(out), "--quiet"]) == 0
+    text = out.read_text(encoding="utf-8")
+    assert "What the occupants hear" in text
+    assert "ISO 532-1" in text and "ISO 9921" in text
+    hear = comfort.receiver_metrics(seatool.run(seatool.load(RAIL)))
+    sone = float(hear.loc[hear["subsystem"] == "cab_air", "loudness_sone"].iloc[0])
+    companion = json.loads(out.with_suffix(".json").read_text(encoding="utf-8"))
+    t = companion["tables"]["comfort"]
+    got = pd.DataFrame(t["data"], columns=t["columns"]).set_index("subsystem")
+    got = got.loc["cab_air", "loudness_sone"]
+    assert got == pytest.approx(sone, rel=1e-9)

@@ -22,9 +22,9 @@ from tqdm import tqdm
 
 from .. import plot
 from .. import progress as progress_bars
+from ..analysis import comfort, uncertainty
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
-from ..analysis import uncertainty
 from ..errors import InputError, Problem, closest
 from ..model import Model, Subsystem
 from ..modelfile import build
@@ -77,6 +77,7 @@ class Content:
     figures: dict[str, str] = field(default_factory=dict)
     validity_lines: list[str] = field(default_factory=list)
     treatment_lines: list[str] = field(default_factory=list)
+    comfort_notes: list[str] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
     references: list[Reference] = field(default_factory=list)
     spread_note: str = ""
@@ -306,6 +307,11 @@ def collect(
     content.tables["levels"] = _levels(result, receivers)
     ov = result.overall()
     content.tables["overall"] = ov[ov["subsystem"].isin(receivers)].reset_index(drop=True)
+    hear = comfort.receiver_metrics(result)
+    hear = hear[hear["subsystem"].isin(receivers)].reset_index(drop=True)
+    if len(hear):
+        content.tables["comfort"] = hear.drop(columns="notes")
+        content.comfort_notes = sorted({n for x in hear["notes"] for n in str(x).split("; ") if n})
     limits = targets(result) if targets is not None else None
     if limits is not None:
         content.tables["margins"] = _margins(result, limits, receivers)
