@@ -32,6 +32,7 @@ from scipy import integrate
 
 from seatool.physics.radiation import forced_radiation_efficiency_en12354
 
+from . import resonators
 from ._checks import fluid as _check_fluid
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
@@ -476,7 +477,9 @@ def mass_air_mass_frequency(
 
     Notes
     -----
-    ``f_0 = (1/(2 pi)) sqrt( (rho0 c0^2/d) (m1 + m2)/(m1 m2) )``, about
+    ``f_0 = (1/(2 pi)) sqrt( (rho0 c0^2/d) (m1 + m2)/(m1 m2) )``
+    (:func:`seatool.physics.resonators.mass_spring_mass_frequency` with the air layer's
+    stiffness per area ``s' = rho0 c0^2 / d``), about
     ``60 sqrt((m1 + m2)/(m1 m2 d))`` Hz for air at 20 C (adiabatic).
 
     References
@@ -486,10 +489,7 @@ def mass_air_mass_frequency(
     .. [2] Fahy, F.J. (1985). Sound and Structural Vibration. Academic Press, ch. 4.
     """
     _check_fluid(rho0, c0)
-    a = _positive("m1", m1)
-    b = _positive("m2", m2)
     dd = _positive("d", d)
     _positive("gamma", gamma)
     stiff = rho0 * c0**2 / (gamma if isothermal else 1.0)
-    out: FloatArray = np.sqrt(stiff / dd * (a + b) / (a * b)) / (2.0 * np.pi)
-    return out
+    return resonators.mass_spring_mass_frequency(stiff / dd, m1, m2)
