@@ -73,7 +73,7 @@ def test_cavity_modal_density_is_derivative_of_count() -> None:
 
 
 @pytest.mark.regression
-def test_box_exact_counts_match_reference_sheet() -> None:
+def test_box_exact_counts_regression() -> None:
     # exact counts 12 / 64 / 401 computed by hand outside the code (not published)
     f_modes = _box_mode_frequencies(*BOX, C0, 1100.0)
     counts = [np.count_nonzero(f_modes <= f) for f in (250.0, 500.0, 1000.0)]

@@ -48,7 +48,7 @@ def test_beam_bending_modal_density_vs_exact_ss_beam_count() -> None:
 
 
 @pytest.mark.regression
-def test_beam_regression_values_from_reference_sheet() -> None:
+def test_beam_regression_values() -> None:
     # computed by hand outside the code (not published): steel, h = 10 mm (bending in the thickness), L = 1 m
     sec = beams.rectangular_section(0.05, 0.01)
     m = RHO_ST * sec.area

@@ -235,6 +235,7 @@ def k_ij(tau: float, h_j: float) -> float:
     return -10 * math.log10(tau) + 5 * math.log10(critical_frequency(h_j) / 1000.0)
 
 
+@pytest.mark.measured
 def test_vibration_reduction_index_against_en12354_annex_e():
     # EN ISO 12354-1 Annex E empirical K_ij of rigid cross and T junctions of homogeneous
     # heavy elements, M = lg(m'_perp / m'_i) (from memory):

@@ -118,7 +118,7 @@ def test_bending_wave_group_speed_is_numerical_derivative() -> None:
 
 
 @pytest.mark.regression
-def test_plate_regression_values_from_reference_sheet() -> None:
+def test_plate_regression_values() -> None:
     # computed by hand outside the code (not published)
     d = plates.bending_stiffness(E_ST, 1e-3, NU_ST)
     m = RHO_ST * 1e-3

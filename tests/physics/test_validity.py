@@ -24,7 +24,7 @@ def test_modal_overlap_same_in_hz_and_rad() -> None:
 
 
 @pytest.mark.regression
-def test_reference_sheet_plate_table() -> None:
+def test_plate_validity_table_regression() -> None:
     # computed by hand outside the code (not published): steel 1 mm, 1 m^2, eta = 0.01
     d = plates.bending_stiffness(210e9, 1e-3, 0.3)
     n = plates.plate_bending_modal_density(100.0, 1.0, d, 7.85)
