@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from seatool.analysis import rating
 from seatool.analysis.rating import rating_of_bands, weighted_sound_reduction_index
 from seatool.bands import BandAxis
 
@@ -86,3 +87,15 @@ def test_bands_are_picked_from_a_longer_axis_or_none():
 def test_bad_curve_is_refused(bad):
     with pytest.raises(ValueError, match="r_db"):
         weighted_sound_reduction_index(bad)
+
+
+def test_remembered_spectra_are_consistent():
+    # The spectra of ISO 717-1 Table 4 (from memory) checked against two properties the
+    # standard gives them: each third-octave spectrum is normalised to an A-weighted total
+    # of 0 dB (within 0.02 dB after rounding to whole decibels), and each octave value is the
+    # energetic sum of its three third-octave values, rounded to a whole decibel.
+    for spectra in (rating._SPECTRUM_C, rating._SPECTRUM_CTR):
+        third, octave = spectra["third-octave"], spectra["octave"]
+        assert abs(10 * np.log10(np.sum(10 ** (third / 10)))) < 0.02
+        sums = 10 * np.log10(np.sum(10 ** (third[0:15].reshape(5, 3) / 10), axis=1))
+        np.testing.assert_array_equal(np.round(sums), octave)
