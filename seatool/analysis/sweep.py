@@ -35,6 +35,8 @@ from __future__ import annotations
 
 import itertools
 import math
+import os
+import tempfile
 import warnings
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
@@ -47,10 +49,11 @@ import pandas as pd
 from scipy.stats import qmc
 
 from ..errors import InputError, Problem, closest
+from ..levels import CAUTION
 from ..metrics import METRICS
 from ..model import Model, Uncertain
 from ..modelfile import build
-from ..results import Result
+from ..results import Result, csv_text, write_text_atomic
 from ..solve import solve as core_solve
 from ._keypath import read_data, resolve
 from .sweep_run import Job, evaluate_rows, run
@@ -68,6 +71,7 @@ __all__ = [
     "sobol_indices",
     "sweep",
     "sweep_file",
+    "write_table",
 ]
 
 Array = npt.NDArray[np.float64]
@@ -352,6 +356,40 @@ def sobol_indices(result: Sweep, metric: str = "dBA") -> pd.DataFrame:
     return pd.DataFrame(
         rows, columns=["receiver", "metric", "parameter", "S1", "S1_conf", "ST", "ST_conf"]
     )
+
+
+def write_table(result: Sweep, path: str | Path) -> Path:
+    """Write :meth:`Sweep.table` atomically as Parquet (``.parquet``) or CSV (otherwise).
+
+    The caution and each receiver's level reference travel with the numbers: CSV as ``#``
+    lines before the header (``pandas.read_csv(path, comment="#")``), Parquet in the schema
+    metadata (keys ``seatool.caution`` and ``seatool.levels``).
+    """
+    out = Path(path)
+    refs = "; ".join(f"{r}: {q}" for r, q in zip(result.receivers, result.references, strict=True))
+    table = result.table()
+    if out.suffix.lower() != ".parquet":
+        text = csv_text(table)
+        head, _, rest = text.partition("\n")
+        write_text_atomic(out, f"{head}\n# levels: {refs}\n{rest}")
+        return out
+    import pyarrow as pa  # optional heavy dependency, used here only
+    import pyarrow.parquet as pq
+
+    tab = pa.Table.from_pandas(table, preserve_index=False)
+    meta = dict(tab.schema.metadata or {})
+    meta[b"seatool.caution"] = CAUTION.encode()
+    meta[b"seatool.levels"] = refs.encode()
+    tab = tab.replace_schema_metadata(meta)
+    fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=".parquet", dir=out.parent)
+    os.close(fd)
+    try:
+        pq.write_table(tab, tmp)
+        os.replace(tmp, out)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+    return out
 
 
 # -- the driver -----------------------------------------------------------------------------
