@@ -68,7 +68,9 @@ __all__ = [
     "SweepSpec",
     "design",
     "read_spec",
+    "saltelli_unit",
     "sobol_indices",
+    "sobol_of",
     "sweep",
     "sweep_file",
     "write_table",
@@ -234,7 +236,7 @@ def design(
         unit = gen.random(spec.samples)
         values = np.column_stack([_unit_to_range(unit[:, k], p) for k, p in enumerate(ps)])
     else:
-        unit = _saltelli_unit(n, spec.samples, spec.seed)
+        unit = saltelli_unit(n, spec.samples, spec.seed)
         values = np.column_stack([_unit_to_range(unit[:, k], p) for k, p in enumerate(ps)])
     cols_modes = [_columns(data, p.path) for p in ps]
     return Design(
@@ -247,16 +249,6 @@ def design(
 
 def _salib_problem(n: int) -> dict[str, Any]:
     return {"num_vars": n, "names": [f"x{k}" for k in range(n)], "bounds": [[0.0, 1.0]] * n}
-
-
-def _saltelli_unit(n: int, base: int, seed: int) -> Array:
-    """Saltelli's scheme on the unit cube (SALib), ``base * (n + 2)`` rows."""
-    from SALib.sample import sobol as salib_sample  # optional heavy dependency, used here only
-
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", FutureWarning)
-        u = salib_sample.sample(_salib_problem(n), base, calc_second_order=False, seed=seed)
-    return np.asarray(u, dtype=float)
 
 
 # -- the result -----------------------------------------------------------------------------
@@ -314,41 +306,72 @@ class Sweep:
         return pd.DataFrame(cols)
 
 
-def sobol_indices(result: Sweep, metric: str = "dBA") -> pd.DataFrame:
-    """First-order and total Sobol' indices of each receiver's overall level.
+def saltelli_unit(n: int, base: int, seed: int) -> Array:
+    """Saltelli's sampling scheme on the unit cube [0, 1]^n: ``base * (n + 2)`` rows.
 
-    Needs a ``saltelli`` design. Estimates of Saltelli et al. (2010) and Jansen (1999) as
-    implemented by SALib (``SALib.analyze.sobol``, bootstrap 95 % confidence half-widths
-    with the sweep's seed).
-
-    Returns
-    -------
-    DataFrame
-        ``receiver, metric, parameter, S1, S1_conf, ST, ST_conf``.
+    Rows come in blocks of ``n + 2``: A, then A with column i from B (i = 1..n), then B,
+    A and B being two scrambled Sobol' sequences (SALib ``sample.sobol``, no second-order
+    terms). ``base`` must be a power of 2.
 
     References
     ----------
     Saltelli, A. et al. (2010). Variance based sensitivity analysis of model output. Design
     and estimator for the total sensitivity index. Computer Physics Communications 181(2),
-    259-270. Herman, J. & Usher, W. (2017). SALib: An open-source Python library for
-    sensitivity analysis. Journal of Open Source Software 2(9), 97.
+    259-270, section 3. Herman, J. & Usher, W. (2017). SALib: An open-source Python library
+    for sensitivity analysis. Journal of Open Source Software 2(9), 97.
+    """
+    from SALib.sample import sobol as salib_sample  # optional heavy dependency, used here only
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", FutureWarning)
+        u = salib_sample.sample(_salib_problem(n), base, calc_second_order=False, seed=seed)
+    return np.asarray(u, dtype=float)
+
+
+def sobol_of(y: npt.ArrayLike, n: int, seed: int) -> dict[str, Array]:
+    """First-order (S1) and total (ST) Sobol' indices of outputs ``y`` of a
+    :func:`saltelli_unit` design over ``n`` inputs, with bootstrap 95 % confidence
+    half-widths (``S1_conf``, ``ST_conf``; resampled with ``seed``).
+
+    Notes
+    -----
+    S1_i = V[E(Y|X_i)] / V(Y) and ST_i = E[V(Y|X_~i)] / V(Y), estimated with Saltelli's
+    (2010, table 2 (b)) estimator for S1 and Jansen's (1999; Saltelli 2010, table 2 (f))
+    for ST, as implemented by SALib (``analyze.sobol``).
+
+    References
+    ----------
+    Saltelli, A. et al. (2010), see :func:`saltelli_unit`. Jansen, M. J. W. (1999).
+    Analysis of variance designs for model output. Computer Physics Communications
+    117(1-2), 35-43. Herman & Usher (2017), see :func:`saltelli_unit`.
     """
     from SALib.analyze import sobol as salib_analyze  # optional heavy dependency
 
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", FutureWarning)
+        si = salib_analyze.analyze(
+            _salib_problem(n), np.asarray(y, dtype=float), calc_second_order=False, seed=seed
+        )
+    return {k: np.asarray(si[k], dtype=float) for k in ("S1", "S1_conf", "ST", "ST_conf")}
+
+
+def sobol_indices(result: Sweep, metric: str = "dBA") -> pd.DataFrame:
+    """First-order and total Sobol' indices (:func:`sobol_of`) of each receiver's overall
+    level ``metric`` over a ``saltelli`` sweep.
+
+    Returns
+    -------
+    DataFrame
+        ``receiver, metric, parameter, S1, S1_conf, ST, ST_conf``.
+    """
     d = result.design
     if d.spec.method != "saltelli":
         raise InputError(
             [Problem(result.model.source, "method", "Sobol' indices need method = 'saltelli'")]
         )
-    n = len(d.columns)
     rows = []
     for r in result.receivers:
-        y = result.overall(r, metric)
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore", FutureWarning)
-            si = salib_analyze.analyze(
-                _salib_problem(n), y, calc_second_order=False, seed=d.spec.seed
-            )
+        si = sobol_of(result.overall(r, metric), len(d.columns), d.spec.seed)
         for k, c in enumerate(d.columns):
             rows.append(
                 [r, metric, c, si["S1"][k], si["S1_conf"][k], si["ST"][k], si["ST_conf"][k]]
