@@ -1,8 +1,10 @@
 """Running a sweep's evaluations: in this process, on the local cores or on a dask cluster.
 
 The work is cut into batches of consecutive samples (many evaluations per task). The
-model data and what to change (:class:`Job`) travel to each worker once (``scatter`` with
-``broadcast``); each task carries only its block of sample values and returns its block of
+model data and what to change (:class:`Job`) travel to each worker once: the job is the
+result of one task that every batch depends on (a worker fetches it once and keeps it;
+unlike scattered data, the scheduler can recompute it when the worker holding it is lost);
+each task carries only its block of sample values and returns its block of
 levels with its first sample number, so the table is put together by sample number: a
 task retried after a lost worker replaces nothing and adds nothing, and serial, local and
 distributed runs give the same numbers.
@@ -119,6 +121,11 @@ def _task(job: Job, start: int, values: Array) -> tuple[int, Array | list[str]]:
         return start, [p.path, p.message]
 
 
+def _shared(job: Job) -> Job:
+    """The job, as a task's result (see :func:`_run_dask`)."""
+    return job
+
+
 def _batches(n: int, batch: int) -> list[tuple[int, int]]:
     return [(s, min(n, s + batch)) for s in range(0, n, batch)]
 
@@ -173,7 +180,7 @@ def _client(scheduler: Any, workers: int) -> tuple[Any, Any, bool]:
             threads_per_worker=1,
             processes=True,
             host="127.0.0.1",
-            dashboard_address=None,
+            dashboard_address="127.0.0.1:0",  # its status page: loopback, any free port
         )
         return Client(cluster, timeout=CONNECT_TIMEOUT), cluster, True
     try:
@@ -199,7 +206,10 @@ def _run_dask(
     client, cluster, owned = _client(scheduler, workers)
     token = uuid.uuid4().hex[:12]
     try:
-        shared = client.scatter(job, broadcast=True, hash=False)
+        # The job is the result of a task (not scattered data): each worker fetches it once
+        # and keeps it while its batches run, and if the worker holding it is lost the
+        # scheduler recomputes it from the task instead of failing the run.
+        shared = client.submit(_shared, job, key=f"sweep-{token}-model", pure=False)
         futures = [
             client.submit(
                 _task, shared, a, values[a:b], key=f"sweep-{token}-{a}", retries=3, pure=False
