@@ -37,6 +37,7 @@ import itertools
 import math
 import os
 import tempfile
+import time
 import warnings
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
@@ -61,6 +62,7 @@ from .targets import margins_of_levels
 from .variants import _receivers
 
 __all__ = [
+    "LOCAL_WORTH_S",
     "METHODS",
     "Design",
     "Parameter",
@@ -77,6 +79,11 @@ __all__ = [
 ]
 
 Array = npt.NDArray[np.float64]
+
+#: Below this estimated work [s] (the first sample's time x samples) a ``local`` sweep
+#: without a stated number of workers runs in this process: starting worker processes
+#: and importing the program in each takes some seconds.
+LOCAL_WORTH_S = 10.0
 
 #: The designs a sweep can use.
 METHODS = ("grid", "list", "lhs", "sobol", "saltelli", "uncertainty")
@@ -441,7 +448,8 @@ def sweep(
     scheduler : {'serial', 'local'}, str or distributed.Client
         ``serial``: in this process. ``local`` (default): a dask ``LocalCluster`` of
         ``workers`` processes on 127.0.0.1 (this machine's cores), started and stopped
-        here; a small sweep (one batch) runs serially. An address (``tcp://host:8786``)
+        here; without ``workers``, a sweep whose first sample suggests less than
+        :data:`LOCAL_WORTH_S` of work in all runs serially instead. An address (``tcp://host:8786``)
         or a ``Client``: an existing dask.distributed cluster.
     workers : int, optional
         Worker processes of the local cluster (default: the number of cores).
@@ -461,7 +469,11 @@ def sweep(
     idx = [model.names.index(r) for r in receivers]
     job = Job(dict(data), file, str(base_dir), dsg.columns, dsg.changes, tuple(receivers))
     if len(dsg.values):  # the first sample in this process: a bad design fails before any cluster
+        t0 = time.perf_counter()
         evaluate_rows(job, 0, dsg.values[:1])
+        guess = (time.perf_counter() - t0) * len(dsg.values)
+        if scheduler == "local" and workers is None and guess < LOCAL_WORTH_S:
+            scheduler = "serial"  # quicker than starting the worker processes
     lv = run(job, dsg.values, scheduler=scheduler, workers=workers, batch=batch, on_batch=on_batch)
     return Sweep(dsg, model, receivers, lv, [refs[i] for i in idx], [quantity[i] for i in idx])
 
