@@ -240,6 +240,10 @@ def test_read_spec(tmp_path):
         read_spec(f)
     text = str(e.value)
     assert "did you mean 'method'" in text and "did you mean 'high'" in text
+    f.write_text('samples = "many"\nvary = 3\n')
+    with pytest.raises(InputError) as e:
+        read_spec(f)
+    assert [p.path for p in e.value.problems] == ["vary", "samples"]
 
 
 def test_command(tmp_path, capsys):

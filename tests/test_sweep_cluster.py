@@ -52,8 +52,8 @@ def cluster():
         processes=True,
         host="127.0.0.1",
         dashboard_address="127.0.0.1:0",  # loopback, any free port (no fixed 8787)
-        death_timeout=10,
-    ) as c, distributed.Client(c, timeout=20) as client:
+        death_timeout=60,
+    ) as c, distributed.Client(c, timeout=60) as client:
         yield c, client
 
 
@@ -91,7 +91,7 @@ def test_killed_worker_loses_and_duplicates_nothing(cluster, serial):
     t = s.table()
     assert list(t["sample"]) == list(range(16))
     assert not t.duplicated(subset=list(s.design.columns)).any()
-    client.wait_for_workers(2, timeout=20)  # the nanny restarts it
+    client.wait_for_workers(2, timeout=60)  # the nanny restarts it
 
 
 def test_local_default_starts_and_stops_its_own_cluster(serial):

@@ -364,7 +364,8 @@ def sobol_of(y: npt.ArrayLike, n: int, seed: int) -> dict[str, Array]:
 
 def sobol_indices(result: Sweep, metric: str = "dBA") -> pd.DataFrame:
     """First-order and total Sobol' indices (:func:`sobol_of`) of each receiver's overall
-    level ``metric`` over a ``saltelli`` sweep.
+    level ``metric`` over a ``saltelli`` sweep (``dB`` for a receiver that is not a sound
+    pressure, whose weighted levels are not defined).
 
     Returns
     -------
@@ -377,12 +378,12 @@ def sobol_indices(result: Sweep, metric: str = "dBA") -> pd.DataFrame:
             [Problem(result.model.source, "method", "Sobol' indices need method = 'saltelli'")]
         )
     rows = []
-    for r in result.receivers:
-        si = sobol_of(result.overall(r, metric), len(d.columns), d.spec.seed)
+    for k_r, r in enumerate(result.receivers):
+        q = result.quantities[k_r] if result.quantities else "sound_pressure"
+        used = "dB" if metric != "dB" and q != "sound_pressure" else metric
+        si = sobol_of(result.overall(r, used), len(d.columns), d.spec.seed)
         for k, c in enumerate(d.columns):
-            rows.append(
-                [r, metric, c, si["S1"][k], si["S1_conf"][k], si["ST"][k], si["ST_conf"][k]]
-            )
+            rows.append([r, used, c, si["S1"][k], si["S1_conf"][k], si["ST"][k], si["ST_conf"][k]])
     return pd.DataFrame(
         rows, columns=["receiver", "metric", "parameter", "S1", "S1_conf", "ST", "ST_conf"]
     )
@@ -495,7 +496,11 @@ def read_spec(path: str | Path) -> SweepSpec:
         if k not in known:
             problems.append(Problem(file, k, "unknown key" + closest(k, known)))
     params = []
-    for name, t in (data.get("vary") or {}).items():
+    vary = data.get("vary", {})
+    if not isinstance(vary, Mapping):
+        problems.append(Problem(file, "vary", 'must be tables: [vary."KEY.PATH"]'))
+        vary = {}
+    for name, t in vary.items():
         if not isinstance(t, Mapping):
             problems.append(Problem(file, f"vary.{name}", "must be a table (low, high or values)"))
             continue
@@ -518,13 +523,20 @@ def read_spec(path: str | Path) -> SweepSpec:
             problems.append(
                 Problem(file, f"vary.{name}", "low, high, values and points must be numbers")
             )
+    rec = data.get("receivers")
+    for key in ("samples", "seed"):
+        if key in data and (isinstance(data[key], bool) or not isinstance(data[key], int)):
+            problems.append(Problem(file, key, "must be a whole number"))
+    if "method" in data and not isinstance(data["method"], str):
+        problems.append(Problem(file, "method", f"must be one of {', '.join(METHODS)}"))
+    if rec is not None and (not isinstance(rec, list) or not all(isinstance(r, str) for r in rec)):
+        problems.append(Problem(file, "receivers", 'must be a list of names, e.g. ["cab_air"]'))
     if problems:
         raise InputError(problems)
-    rec = data.get("receivers")
     return SweepSpec(
         tuple(params),
         str(data.get("method", "lhs")),
         int(data.get("samples", 64)),
         int(data.get("seed", 0)),
-        None if rec is None else tuple(str(r) for r in rec),
+        None if rec is None else tuple(rec),
     )
