@@ -264,11 +264,15 @@ def test_curved_radiates_more_than_flat_below_ring_frequency(closed):
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
     ratio = curved / flat
-    below = hi < f_r
+    # An acoustically fast mode needs k > k_x >= pi/l1 (the first axial mode of the
+    # supported ends): in lower bands (below 100 Hz here) a closed cylinder has none, and
+    # the first cell of the mode lattice (Xie, Thompson & Jones 2004) is left empty.
+    fast_possible = 2 * math.pi * fm / C0 > math.pi / l1
+    below = (hi < f_r) & fast_possible
     assert np.all(ratio[below] > 2.0)
     far = lo > 4 * f_r
     assert np.all(np.abs(ratio[far] - 1.0) < (0.05 if closed else 0.03))
-    assert np.all(ratio >= 0.99)
+    assert np.all(ratio[fast_possible] >= 0.99)
 
 
 def test_broadcasting_and_default_band_edges():
