@@ -166,6 +166,10 @@ def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacemen
     exs: list[Excitation] = []
     skipped = []
     for e in model.excitations:
+        if e.through and e.through in panels:
+            # A diffuse field's non-resonant part: the modal solution's plane-wave response
+            # of the panel's modes already contains the forced (off-resonance) transmission.
+            continue
         if e.kind == "power" and e.subsystem == box.name:
             pt = tuple(f * d for f, d in zip(DEFAULT_SOURCE_POINT, box.dims, strict=True))
             exs.append(PointSource(e.name, (pt[0], pt[1], pt[2]), np.asarray(e.power)))

@@ -128,6 +128,8 @@ class Excitation:
     ``kind == 'power'``: ``power`` is the band input power [W].
     ``kind == 'prescribed'``: ``energy`` is the band energy [J] the subsystem is held at
     (converted from a measured level), ``level`` and ``quantity`` keep what was given.
+    ``through``: the panel a diffuse field's non-resonant (mass-law) part crosses to reach
+    ``subsystem`` (empty for every other excitation).
     """
 
     name: str
@@ -138,6 +140,7 @@ class Excitation:
     level: Array | None = None
     quantity: str | None = None
     description: str = ""
+    through: str = ""
 
 
 @dataclass(frozen=True)

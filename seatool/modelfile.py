@@ -15,7 +15,7 @@ function builds the subsystems or couplings from the validated values.
 from __future__ import annotations
 
 import tomllib
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -24,6 +24,7 @@ import numpy as np
 from . import progress
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
+from .kinds.excitations import NONRESONANT_SUFFIX, diffuse_nonresonant
 from .kinds.media import FLUID_PARAMS
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
@@ -340,12 +341,31 @@ def _read_connections(
 # Excitations ----------------------------------------------------------------------------
 
 
+def _declared_nonresonant(data: Any) -> list[tuple[str, str, tuple[str, ...]]]:
+    """(name, through, between) of each ``nonresonant`` connection table as written."""
+    out: list[tuple[str, str, tuple[str, ...]]] = []
+    if not isinstance(data, Mapping):
+        return out
+    for name, spec in data.items():
+        if isinstance(spec, Mapping) and spec.get("kind") == "nonresonant":
+            btw = spec.get("between")
+            ends = tuple(str(x) for x in btw) if isinstance(btw, list) else ()
+            out.append((str(name), str(spec.get("through", "")), ends))
+    return out
+
+
 def _read_excitations(
-    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: Mapping[str, None]
+    rd: Reader,
+    data: Any,
+    subs: dict[str, Subsystem],
+    declared: Mapping[str, None],
+    cons: Sequence[Connection] = (),
+    raw_connections: Any = _MISSING,
 ) -> list[Excitation]:
     out: list[Excitation] = []
     if data is _MISSING:
         return out
+    declared_nr = _declared_nonresonant(raw_connections)
     t = rd.table(data, "excitations")
     if t is None:
         return out
@@ -418,6 +438,36 @@ def _read_excitations(
         out.append(
             Excitation(name, sname, "power", power=arr, level=v, quantity=key, description=desc)
         )
+        if key == "diffuse_sound_pressure_level":
+            with np.errstate(all="ignore"):
+                forced = diffuse_nonresonant(rd, sub, v, kpath, s, subs, cons, declared_nr)
+            if forced is None:
+                continue
+            recv, w = forced
+            nr_name = name + NONRESONANT_SUFFIX
+            if nr_name in t:
+                rd.error(
+                    path, f"excitation {nr_name!r} exists; rename it or set nonresonant = false"
+                )
+                continue
+            if recv in held:
+                rd.error(
+                    f"{path}.nonresonant",
+                    f"{recv!r} has the prescribed level {held[recv]!r}; it cannot also take the "
+                    "non-resonant transmission (set nonresonant = false)",
+                )
+                continue
+            if not check_derived(
+                rd, kpath, {"non-resonant power": np.where(w == 0, 1.0, w)}, (kpath,)
+            ):
+                continue
+            powered.setdefault(recv, nr_name)
+            out.append(
+                Excitation(
+                    nr_name, recv, "power", power=w, level=v, quantity=key,
+                    description=desc, through=sname,
+                )
+            )  # fmt: skip
     return out
 
 
@@ -460,7 +510,14 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     declared = dict.fromkeys(rd.declared)
     subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
-    exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
+    exs = _read_excitations(
+        rd,
+        data.get("excitations", _MISSING),
+        subs,
+        declared,
+        cons,
+        data.get("connections", _MISSING),
+    )
     spreads = read_uncertainty_section(rd, data)
     targets = read_targets(rd, data, subs)
     if rd.problems:

@@ -43,6 +43,7 @@ import pandas as pd
 from tqdm import tqdm
 
 from ..errors import InputError, Problem
+from ..kinds.excitations import NONRESONANT_SUFFIX
 from ..model import Model, Target
 from ..modelfile import build
 from ..results import Result
@@ -251,7 +252,9 @@ def _option_arrays(
     power = a0.power.copy()
     idx = base.index()
     for e in base.excitations:
-        if e.name in exs or any(e.name.startswith(t + "[") for t in exs):
+        # a diffuse field's non-resonant part is rebuilt with its table
+        table = e.name.removesuffix(NONRESONANT_SUFFIX) if e.through else e.name
+        if table in exs or any(e.name.startswith(t + "[") for t in exs):
             if e.kind == "power" and e.power is not None:
                 power[idx[e.subsystem]] -= e.power
     for e in m.excitations:

@@ -31,6 +31,10 @@ Definitions (see ``docs/theory/analysis.md``):
   control in statistical energy analysis models", J. Acoust. Soc. Am. 125(6), 3657-3665
   (from memory); their path strengths are products of energy ratios, ours are power
   shares that sum to the total.
+* A diffuse field on a panel face is two sources: its resonant input to the panel and
+  its non-resonant (mass-law) part, named ``NAME (non-resonant)``, which enters the cavity
+  on the other side directly; that part's paths are written from the panel
+  (``panel > cavity > ...``), the first step being the forced wave through it.
 
 Every table carries the receiver's per-band validity (``modes_in_band``,
 ``modal_overlap``, ``valid``: False with fewer than one mode per band or modal overlap
@@ -337,11 +341,16 @@ def paths(
     quantity = ps.dissipated[r] if sink else ps.energy[r]  # (S, B)
     total = quantity.sum(axis=0)
     valid = validity_columns(model, assemble(model), r)
+    idx = model.index()
+    # A diffuse field's non-resonant part enters its receiver through the panel: the path
+    # is written from the panel (a forced wave, not the panel's resonant field).
+    via = {e.name: (idx[e.through],) for e in model.excitations if e.through}
     recs: list[dict[str, object]] = []
     for j in range(len(model.bands)):
         for k, src in enumerate(ps.srcs):
             target = ps.inflow[r, k, j]
-            for path, pw in _band_paths(ps, k, j, r, max_length, max_paths):
+            for path0, pw in _band_paths(ps, k, j, r, max_length, max_paths):
+                path = via.get(src.name, ()) + path0 if path0 else path0
                 frac = pw / target if target > 0 else 0.0
                 part = frac * quantity[k, j]
                 recs.append(

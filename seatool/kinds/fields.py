@@ -245,7 +245,13 @@ def finish_panel(
     """
     lx, ly, area, perimeter = geom
     n, bprops, nsrc = bending(m_bare)
-    plate = {"thickness": thickness, "material": mat, "mass_per_area": m_bare, "fluid": fluid}
+    plate = {
+        "thickness": thickness,
+        "material": mat,
+        "mass_per_area": m_bare,
+        "fluid": fluid,
+        "perimeter_per_area": perimeter / area,
+    }
     ok, treat = _read_treatment(rd, s, path, plate)
     if not ok:
         return None

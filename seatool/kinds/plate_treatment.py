@@ -19,7 +19,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Model
-from ..physics import damping_layers, tmm, tmm_transmission
+from ..physics import bridges, damping_layers, tmm, tmm_transmission
 from .layers import TrimLayer, buildup_text, quiet, read_layers, tmm_layers, validity_notes
 from .params import Kind, Param
 from .reader import DEFAULT_FLUID, Reader, join
@@ -148,7 +148,8 @@ class PlateTreatment:
             )
         if self.insertion_loss_db is not None:
             out["trim_insertion_loss"] = (
-                "transfer-matrix method, field incidence (Allard & Atalla 2009)"
+                "transfer-matrix method, field incidence (Allard & Atalla 2009), in parallel "
+                "with the structure-borne bridges of its fixings and edges (Sharp 1978)"
             )
         return out
 
@@ -365,14 +366,33 @@ def read_plate_treatment(
             return None
         res_il = quiet(tmm_transmission.insertion_loss, f, base, tmm_layers(trim), rho0=rho0, c0=c0)
         il = np.asarray(res_il.insertion_loss, dtype=np.float64)
+        bridged = _bridges(rd, t, path, f, trim, plate, c0)
+        if bridged is None:
+            return None
+        ratio, bridge_text = bridged
+        il = bridges.bridged_insertion_loss(il, ratio)
         notes.extend(validity_notes(trim, f, rho0))
+        if np.max(il) > IL_NOTE_DB:
+            j = int(np.argmax(il))
+            note = (
+                f"trim insertion loss reaches {il[j]:.0f} dB at {f[j]:.0f} Hz, above the "
+                f"about {IL_NOTE_DB:.0f} dB installed trims rarely exceed (leaks, fixings, "
+                "edges): check the fixings and edges stated"
+            )
+            notes.append(note)
+            rd.notes.append(f"{path}: {note}" if path else note)
         parts.append(
             f"trim {buildup_text(trim)} ({tmm.mass_per_area(tmm_layers(trim)):.3g} kg/m^2) "
-            f"facing {face!r}"
+            f"facing {face!r}, {bridge_text}"
         )
     elif "face" in t:
         rd.error(join(path, "face"), "only with a trim")
         return None
+    else:
+        for key in ("fixings_per_area", "fixing_stiffness", "edge_stiffness", "edge_width"):
+            if key in t:
+                rd.error(join(path, key), "only with a trim")
+                ok = False
     if not ok:
         return None
     desc = t.get("description")
@@ -398,6 +418,84 @@ def read_plate_treatment(
     )
 
 
+#: Fixings of a trim when the model does not state them: 4 per m^2 (0.5 m spacing), rigid,
+#: each moving a 20 mm diameter footprint of the trim's cover (invented round numbers,
+#: common practice for clipped or pinned trims; state the real ones).
+DEFAULT_FIXINGS_PER_AREA = 4.0
+FIXING_FOOTPRINT_AREA = math.pi * 0.01**2
+#: Width of the cover strip an edge bridge moves [m] (invented; state the real one).
+DEFAULT_EDGE_WIDTH = 0.02
+#: Insertion loss [dB] above which a trim gets a note: installed trims rarely exceed about
+#: 30-35 dB (common practice).
+IL_NOTE_DB = 35.0
+
+
+def _cover(trim: tuple[TrimLayer, ...]) -> tuple[float, float]:
+    """(mass per area [kg/m^2], bending stiffness [N m]) of the trim's outermost solid layer.
+
+    The outermost limp or elastic layer is the cover the bridges drive; without one (a
+    porous layer alone) the whole trim's mass, limp.
+    """
+    for layer in reversed(tmm_layers(trim)):
+        if isinstance(layer, tmm.LimpLayer):
+            return float(layer.surface_mass), 0.0
+        if isinstance(layer, tmm.PlateLayer):
+            d = layer.young * layer.thickness**3 / (12.0 * (1.0 - layer.poisson**2))
+            return float(layer.density * layer.thickness), float(d)
+    return float(tmm.mass_per_area(tmm_layers(trim))), 0.0
+
+
+def _bridges(
+    rd: Reader,
+    t: Mapping[str, Any],
+    path: str,
+    f: Array,
+    trim: tuple[TrimLayer, ...],
+    plate: Mapping[str, Any],
+    c0: float,
+) -> tuple[Array, str] | None:
+    """Power ratio of the trim's fixings and edges to the bare base, and a description."""
+    got: dict[str, float] = {}
+    for key, default in (
+        ("fixings_per_area", DEFAULT_FIXINGS_PER_AREA),
+        ("fixing_stiffness", math.inf),
+        ("edge_stiffness", 0.0),
+        ("edge_width", DEFAULT_EDGE_WIDTH),
+    ):
+        if key not in t:
+            got[key] = default
+            continue
+        v = t[key]
+        if isinstance(v, bool) or not isinstance(v, (int, float)) or math.isnan(v) or v < 0:
+            rd.error(join(path, key), f"must be a number >= 0, got {v!r}")
+            return None
+        got[key] = float(v)
+    if got["fixing_stiffness"] == 0.0:
+        rd.error(join(path, "fixing_stiffness"), "must be > 0 (leave it out for rigid fixings)")
+        return None
+    m2, d2 = _cover(trim)
+    ratio = np.zeros_like(f)
+    text = []
+    if got["fixings_per_area"] > 0:
+        ratio = ratio + bridges.point_bridge_power_ratio(
+            f, got["fixings_per_area"], got["fixing_stiffness"], m2,
+            cover_bending_stiffness=d2, footprint_area=FIXING_FOOTPRINT_AREA, c0=c0,
+        )  # fmt: skip
+        k = got["fixing_stiffness"]
+        text.append(
+            f"{got['fixings_per_area']:g} fixings/m^2 "
+            + ("rigid" if math.isinf(k) else f"of {k:.3g} N/m")
+        )
+    lpa = plate.get("perimeter_per_area")
+    if got["edge_stiffness"] > 0 and lpa:
+        ratio = ratio + bridges.line_bridge_power_ratio(
+            f, float(lpa), got["edge_stiffness"], m2,
+            cover_bending_stiffness=d2, width=got["edge_width"], c0=c0,
+        )  # fmt: skip
+        text.append(f"edges of {got['edge_stiffness']:.3g} N/m^2")
+    return ratio, ("bridged by " + " and ".join(text)) if text else "no bridges"
+
+
 def _frozen(a: Array | None) -> Array | None:
     if a is None:
         return None
@@ -421,6 +519,10 @@ TREATMENT = Kind(
         Param("cover", "table", doc="{ material, thickness [m] }: the constraining layer"),
         Param("trim", "layers", doc="trim layer(s) or build-up on one face, from the plate outwards"),
         Param("face", "subsystem", doc="the cavity the trimmed face looks into (required with trim)"),
+        Param("fixings_per_area", unit="1/m^2", doc="fixings of the trim per area, each a structure-borne bridge to its cover (0: none)", strict=False, default=DEFAULT_FIXINGS_PER_AREA),
+        Param("fixing_stiffness", unit="N/m", doc="stiffness of one fixing (loss factor 0.1)", default_doc="rigid"),
+        Param("edge_stiffness", unit="N/m^2", doc="stiffness per length of the trim's edges on the panel's perimeter (loss factor 0.1)", default_doc="edges not bridged"),
+        Param("edge_width", unit="m", doc="width of the cover strip an edge bridge moves", default=DEFAULT_EDGE_WIDTH),
     ),
     _no_derive,
     implicit=("description",),

@@ -23,6 +23,7 @@ __all__ = [
     "beam_end_mobility",
     "beam_point_mobility",
     "diffuse_field_power_input",
+    "diffuse_field_transmitted_power",
     "plate_point_mobility",
     "point_force_power",
     "rod_end_mobility",
@@ -366,3 +367,58 @@ def diffuse_field_power_input(
     m = _positive("surface_density", surface_density)
     c = _positive("sound_speed", sound_speed)
     return np.asarray(sigma * n * p2 * c**2 / (4.0 * np.pi * fr**2 * m), dtype=np.float64)
+
+
+def diffuse_field_transmitted_power(
+    mean_square_pressure: npt.ArrayLike,
+    area: npt.ArrayLike,
+    transmission_coefficient: npt.ArrayLike,
+    density: npt.ArrayLike,
+    sound_speed: npt.ArrayLike,
+) -> FloatArray:
+    """Power a diffuse sound field on one face sends through a partition of given ``tau``.
+
+    Parameters
+    ----------
+    mean_square_pressure : float or array_like
+        Space- and time-averaged mean-square pressure of the diffuse field <p^2> [Pa^2]
+        (band value).
+    area : float or array_like
+        Partition area S [m^2].
+    transmission_coefficient : float or array_like
+        Diffuse-field transmission coefficient tau of the path [-], e.g. the non-resonant
+        (forced-wave) :func:`seatool.physics.transmission.transmission_nonresonant`.
+    density, sound_speed : float or array_like
+        Density rho [kg/m^3] and speed of sound c [m/s] of the fluid of the incident field.
+
+    Returns
+    -------
+    numpy.ndarray
+        W = tau S <p^2> / (4 rho c) [W].
+
+    Notes
+    -----
+    In a diffuse field of energy density w = <p^2>/(rho c^2) the power incident on a wall
+    per unit area is I = c w / 4 = <p^2> / (4 rho c) (Kuttruff 2009, ch. 5, the
+    irradiation strength of a diffuse field). The transmission coefficient is by definition
+    the ratio of transmitted to incident power (Fahy & Gardonio 2007, ch. 5), so
+    W = tau S I. This is the power the cavity-to-cavity coupling ``c S tau / (4 omega V)``
+    of :func:`seatool.physics.coupling.clf_nonresonant` carries from a cavity at the same
+    <p^2> (Crocker & Price 1969): a diffuse field stated as a level on a panel face and a
+    source room held at that level give the same forced transmission.
+
+    References
+    ----------
+    .. [1] Kuttruff, H. (2009). Room Acoustics, 5th ed., Spon Press, ISBN 978-0-415-48021-5,
+       ch. 5 (energy incident on a wall in a diffuse field; chapter from memory).
+    .. [2] Fahy, F., Gardonio, P. (2007). Sound and Structural Vibration, 2nd ed., Academic
+       Press, ISBN 978-0-12-373633-8, ch. 5 (transmission coefficient; chapter from memory).
+    .. [3] Crocker, M.J., Price, A.J. (1969). Sound transmission using statistical energy
+       analysis. J. Sound Vib. 9(3), 469-486.
+    """
+    p2 = _nonnegative("mean_square_pressure", mean_square_pressure)
+    s = _positive("area", area)
+    tau = _nonnegative("transmission_coefficient", transmission_coefficient)
+    rho = _positive("density", density)
+    c = _positive("sound_speed", sound_speed)
+    return np.asarray(tau * s * p2 / (4.0 * rho * c), dtype=np.float64)

@@ -21,6 +21,7 @@ from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 
 from .. import bands, levels, modelfile
+from ..kinds.excitations import diffuse_nonresonant
 from ..kinds.registry import EXCITATION_KINDS
 from ..model import Model
 from ..physics import validity as physics_validity
@@ -133,7 +134,9 @@ def _reader_roots(model: Model) -> list[Callable[..., object]]:
         if c.kind in modelfile.CONNECTION_KINDS:
             add(modelfile.CONNECTION_KINDS[c.kind])
     for e in model.excitations:
-        if (e.quantity or "") in EXCITATION_KINDS:
+        if e.through:
+            add(diffuse_nonresonant)
+        elif (e.quantity or "") in EXCITATION_KINDS:
             add(EXCITATION_KINDS[e.quantity or ""])
     return list(dict.fromkeys(roots))
 

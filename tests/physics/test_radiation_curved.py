@@ -179,7 +179,8 @@ def modal_reference(f_mid: float) -> tuple[float, float, float, int]:
 @pytest.mark.parametrize("f_mid", [199.53, 251.19, 316.23])
 def test_below_ring_frequency_against_donnell_wallace_modal_average(f_mid):
     # Bands wholly below f_m = 405 Hz with >= 7 modes per panel. The ensemble mean of
-    # modal/statistical was 0.74, 2.11, 1.25 in development (a few low-order modes such as
+    # modal/statistical was 0.93, 2.46, 1.52 in development (0.74, 2.11, 1.25 with the
+    # continuous count, lattice=False) (a few low-order modes such as
     # (2,1), (3,1) with sigma ~ 1 dominate a band mean and fall in or out of a band; single
     # panels scatter from 0.1 to 6). Tolerance: a factor 2.5 on the ensemble mean.
     to_stat, to_flat, _, count = modal_reference(f_mid)
@@ -195,8 +196,9 @@ def test_band_containing_membrane_frequency_overestimates_modal_average():
     # Known limitation (documented in the docstring and docs/theory/coupling.md): in the band
     # that contains f_m (355-447 Hz) the continuous count places acoustically fast modes near
     # the origin of the wavenumber plane that the mode lattice of a 1.5 m x 1.0 m panel does
-    # not have; the statistical value is about 3.5 times the modal average (modal/statistical
-    # 0.28 in development). Stated tolerance: within a factor 5; the modal average is still
+    # not have; with the first lattice cell left empty for them the statistical value is
+    # about 2 times the modal average (modal/statistical 0.48 in development; 0.28 with the
+    # continuous count). Stated tolerance: within a factor 5; the modal average is still
     # above the flat value (5.5 times).
     to_stat, to_flat, _, count = modal_reference(398.11)
     assert count >= 25
@@ -264,11 +266,15 @@ def test_curved_radiates_more_than_flat_below_ring_frequency(closed):
         f_lower=lo, f_upper=hi, c0=C0,
     )  # fmt: skip
     ratio = curved / flat
-    below = hi < f_r
+    # An acoustically fast mode needs k > k_x >= pi/l1 (the first axial mode of the
+    # supported ends): in lower bands (below 100 Hz here) a closed cylinder has none, and
+    # the first cell of the mode lattice (Xie, Thompson & Jones 2004) is left empty.
+    fast_possible = 2 * math.pi * fm / C0 > math.pi / l1
+    below = (hi < f_r) & fast_possible
     assert np.all(ratio[below] > 2.0)
     far = lo > 4 * f_r
     assert np.all(np.abs(ratio[far] - 1.0) < (0.05 if closed else 0.03))
-    assert np.all(ratio >= 0.99)
+    assert np.all(ratio[fast_possible] >= 0.99)
 
 
 def test_broadcasting_and_default_band_edges():
