@@ -33,6 +33,10 @@ def _args(p: argparse.ArgumentParser) -> None:
     )  # fmt: skip
     p.add_argument("--seed", type=int, default=0, help="random seed of the spread (default 0)")
     p.add_argument("--quiet", action="store_true", help="no progress bar")
+    p.add_argument(
+        "--no-confidence", action="store_true",
+        help="leave out the 5-95 %% confidence bands of the SEA ensemble variance",
+    )  # fmt: skip
 
 
 def _cmd(args: argparse.Namespace) -> int:
@@ -40,7 +44,7 @@ def _cmd(args: argparse.Namespace) -> int:
         seatool.progress.set_quiet(True)
     files = seatool.report.write_report(
         args.model, args.output, receiver=args.to, band=args.band, samples=args.samples,
-        seed=args.seed,
+        seed=args.seed, confidence_bands=not args.no_confidence,
     )  # fmt: skip
     print(f"wrote {files.html}")
     print(f"wrote {files.json}")

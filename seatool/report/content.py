@@ -22,7 +22,7 @@ from tqdm import tqdm
 
 from .. import plot
 from .. import progress as progress_bars
-from ..analysis import comfort, uncertainty
+from ..analysis import comfort, confidence, uncertainty
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
 from ..errors import InputError, Problem, closest
@@ -81,6 +81,7 @@ class Content:
     notes: list[str] = field(default_factory=list)
     references: list[Reference] = field(default_factory=list)
     spread_note: str = ""
+    confidence_note: str = ""
 
 
 def default_receivers(model: Model) -> list[str]:
@@ -181,11 +182,19 @@ def _treatment_lines(model: Model) -> list[str]:
     return lines
 
 
-def _levels(result: Result, receivers: Sequence[str]) -> pd.DataFrame:
+def _levels(
+    result: Result, receivers: Sequence[str], conf: pd.DataFrame | None = None
+) -> pd.DataFrame:
     w = result.wide(list(receivers))
     _, _, refs = result.level_array()
     ref = dict(zip(result.model.names, refs, strict=True))
-    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns})
+    if conf is not None:  # 5 % and 95 % levels beside each receiver's level
+        for n in list(w.columns):
+            lo, hi = confidence.band_limits(conf, str(n), w.index.to_numpy(dtype=float))
+            at = list(w.columns).index(n)
+            w.insert(at + 1, f"{n} 95 % [dB {ref[n]}]", hi)
+            w.insert(at + 1, f"{n} 5 % [dB {ref[n]}]", lo)
+    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in receivers if n in w.columns})
     return w.reset_index().rename(columns={"band_hz": "band [Hz]"})
 
 
@@ -230,6 +239,7 @@ def collect(
     seed: int = 0,
     targets: TargetHook | None = None,
     progress: bool | None = None,
+    confidence_bands: bool = True,
 ) -> Content:
     """Solve the model in ``data`` and gather everything its report shows.
 
@@ -252,6 +262,9 @@ def collect(
     progress : bool, optional
         Progress bar on stderr (default: :func:`seatool.progress.enabled`, i.e. on a
         terminal unless ``--quiet``).
+    confidence_bands : bool, optional
+        Show the 5-95 % confidence bands of the SEA ensemble variance
+        (:mod:`seatool.analysis.confidence`) in the receiver figure and table (default).
     """
     if samples < 1:
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
@@ -304,7 +317,10 @@ def collect(
     content.tables.update(_model_tables(model, result, data))
     content.treatment_lines = _treatment_lines(model)
     content.notes = list(model.notes) + list(result.solution.notes)
-    content.tables["levels"] = _levels(result, receivers)
+    conf = confidence.confidence_bands(model, result) if confidence_bands else None
+    if conf is not None:
+        content.confidence_note = confidence.BAND_NOTE
+    content.tables["levels"] = _levels(result, receivers, conf)
     ov = result.overall()
     content.tables["overall"] = ov[ov["subsystem"].isin(receivers)].reset_index(drop=True)
     hear = comfort.receiver_metrics(result)
@@ -361,7 +377,9 @@ def collect(
             for n, g in limits.groupby("subsystem")
         }
     content.figures["levels"] = _svg(
-        lambda p: plot.plot_receiver_levels(result, receivers, p, limits=lim_map)
+        lambda p: plot.plot_receiver_levels(
+            result, receivers, p, limits=lim_map, confidence=conf
+        )
     )
     content.figures["flow"] = _svg(
         lambda p: plot.plot_energy_flow(result, p, band=band_index, highlight=highlight)
