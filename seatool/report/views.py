@@ -13,6 +13,7 @@ function                 command              tables
 :func:`sensitivity`      ``seatool            ``ranking``, ``bands``
                          sensitivity``
 :func:`level_spread`     ``seatool spread``   ``overall``, ``bands``
+:func:`confidence`       ``seatool solve``    ``bands``, ``targets``
 =======================  ===================  =============================================
 """
 
@@ -25,14 +26,16 @@ from pathlib import Path
 
 import pandas as pd
 
+from ..analysis import confidence as conf_analysis
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
+from ..analysis import targets as target_analysis
 from ..analysis import uncertainty
 from ..model import Model
 from ..results import CAUTION, Result
 from ..solve import solve
 
-__all__ = ["View", "level_spread", "sensitivity", "source_paths"]
+__all__ = ["View", "confidence", "level_spread", "sensitivity", "source_paths"]
 
 #: Rows of each table shown in a notebook (the DataFrames themselves are complete).
 SHOWN_ROWS = 15
@@ -135,4 +138,26 @@ def level_spread(
         f"{sp.model.title or 'model'}: spread of the levels",
         {"overall": sp.overall(), "bands": sp.table()},
         (f"{sp.samples} samples, seed {sp.seed}, {sp.method}",),
+    )
+
+
+def confidence(model: Model, *, samples: int = 4000, seed: int = 0) -> View:
+    """5 / 50 / 95 % levels from the SEA ensemble variance, and the confidence of meeting
+    each target (no sampling of the model; :mod:`seatool.analysis.confidence`).
+
+    Tables: ``bands`` (:func:`seatool.analysis.confidence.confidence_bands`) and, when the
+    model states targets, ``targets``
+    (:func:`seatool.analysis.targets.probability_from_variance` with ``samples`` draws).
+    """
+    result = Result(model, solve(model))
+    r2 = conf_analysis.relative_variances(model, result.energy)
+    tables = {"bands": conf_analysis.confidence_bands(model, result, relative_variance=r2)}
+    if model.targets:
+        tables["targets"] = target_analysis.probability_from_variance(
+            result, samples=samples, seed=seed, relative_variance=r2
+        )
+    return View(
+        f"{model.title or 'model'}: confidence bands of the levels",
+        tables,
+        (conf_analysis.BAND_NOTE,),
     )
