@@ -104,6 +104,7 @@ def test_report_shows_the_band(tmp_path: Path) -> None:
     files = write_report(CAB, tmp_path / "r.html", progress=False)
     html = files.html.read_text(encoding="utf-8")
     assert "Shaded: the 5-95 % confidence band" in html
+    assert "met with" in html and "SEA variance estimate" in html  # verdict confidence
     assert "Gamma-distributed about the SEA mean" in html  # the distribution assumed
     data = json.loads(files.json.read_text(encoding="utf-8"))
     cols = data["tables"]["levels"]["columns"]
