@@ -107,9 +107,8 @@ def test_report_shows_the_band(tmp_path: Path) -> None:
     assert "met with" in html and "SEA variance estimate" in html  # verdict confidence
     assert "Gamma-distributed about the SEA mean" in html  # the distribution assumed
     data = json.loads(files.json.read_text(encoding="utf-8"))
-    cols = data["tables"]["levels"]["columns"]
-    assert any(c.startswith("cab_air 5 %") for c in cols)
-    assert any(c.startswith("cab_air 95 %") for c in cols)
+    cols = data["tables"]["confidence"]["columns"]
+    assert cols == ["band [Hz]", "cab_air 5 %", "cab_air 95 %"]
     off = write_report(CAB, tmp_path / "q.html", progress=False, confidence_bands=False)
     assert "5-95 % band" not in off.html.read_text(encoding="utf-8")
 

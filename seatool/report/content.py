@@ -189,20 +189,25 @@ def _treatment_lines(model: Model) -> list[str]:
     return lines
 
 
-def _levels(
-    result: Result, receivers: Sequence[str], conf: pd.DataFrame | None = None
-) -> pd.DataFrame:
+def _levels(result: Result, receivers: Sequence[str]) -> pd.DataFrame:
     w = result.wide(list(receivers))
     _, _, refs = result.level_array()
     ref = dict(zip(result.model.names, refs, strict=True))
-    if conf is not None:  # 5 % and 95 % levels beside each receiver's level
-        for n in list(w.columns):
-            lo, hi = confidence.band_limits(conf, str(n), w.index.to_numpy(dtype=float))
-            at = list(w.columns).index(n)
-            w.insert(at + 1, f"{n} 95 % [dB {ref[n]}]", hi)
-            w.insert(at + 1, f"{n} 5 % [dB {ref[n]}]", lo)
-    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in receivers if n in w.columns})
+    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns})
     return w.reset_index().rename(columns={"band_hz": "band [Hz]"})
+
+
+def _confidence_table(
+    result: Result, receivers: Sequence[str], conf: pd.DataFrame
+) -> pd.DataFrame:
+    """The 5 % and 95 % levels of each receiver per band (same references as the levels)."""
+    nominal = result.model.bands.nominal
+    cols: dict[str, np.ndarray] = {"band [Hz]": nominal}
+    for n in receivers:
+        lo, hi = confidence.band_limits(conf, n, nominal)
+        cols[f"{n} 5 %"] = lo
+        cols[f"{n} 95 %"] = hi
+    return pd.DataFrame(cols)
 
 
 def _margins(result: Result, limits: pd.DataFrame, receivers: Sequence[str]) -> pd.DataFrame:
@@ -383,7 +388,9 @@ def collect(
     conf = confidence.confidence_bands(model, result) if confidence_bands else None
     if conf is not None:
         content.confidence_note = confidence.BAND_NOTE
-    content.tables["levels"] = _levels(result, receivers, conf)
+    content.tables["levels"] = _levels(result, receivers)
+    if conf is not None:
+        content.tables["confidence"] = _confidence_table(result, receivers, conf)
     ov = result.overall()
     content.tables["overall"] = ov[ov["subsystem"].isin(receivers)].reset_index(drop=True)
     hear = comfort.receiver_metrics(result)
