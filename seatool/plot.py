@@ -17,6 +17,7 @@ import networkx as nx
 import numpy as np
 import pandas as pd
 
+from .analysis.confidence import band_limits
 from .errors import InputError, Problem
 from .levels import CAUTION, power_level
 from .results import Result
@@ -80,13 +81,18 @@ def _weak_bands(result: Result) -> dict[str, np.ndarray]:
 
 
 def plot_levels(
-    result: Result, path: str | os.PathLike[str], names: Sequence[str] | None = None
+    result: Result,
+    path: str | os.PathLike[str],
+    names: Sequence[str] | None = None,
+    *,
+    confidence: pd.DataFrame | None = None,
 ) -> Path:
     """Write a figure of the band levels of ``names`` (default: all with a level) to ``path``.
 
     One panel per quantity (sound pressure, velocity, energy level), each with its
     reference in the axis label. The file type follows the suffix (``.png``, ``.pdf``,
-    ``.svg``). Returns the path written.
+    ``.svg``). ``confidence`` (:func:`seatool.analysis.confidence.confidence_bands`)
+    shades each curve's 5-95 % band. Returns the path written.
     """
     plt = _pyplot()
     model = result.model
@@ -109,6 +115,8 @@ def plot_levels(
             y = np.append(lv[i], lv[i][-1])
             ax.step(edges, y, where="post", label=n, linewidth=1.6,
                     color=PALETTE[k % len(PALETTE)])  # fmt: skip
+            if confidence is not None:
+                _shade_band(ax, bands, confidence, n, PALETTE[k % len(PALETTE)])
             bad = weak.get(n)
             if bad is not None:
                 weak_any |= bad
@@ -126,8 +134,9 @@ def plot_levels(
     ax_last.minorticks_off()
     ax_last.set_xlabel(f"{bands.kind} band")
     title = model.title or "band levels"
+    shaded = "; shaded: 5-95 % confidence band" if confidence is not None else ""
     axes[0, 0].set_title(title + "\n(hatched: bands where SEA validity is weak for a subsystem "
-                         "of that panel)", fontsize=10)  # fmt: skip
+                         f"of that panel{shaded})", fontsize=10)  # fmt: skip
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
@@ -268,6 +277,17 @@ def _steps(bands: Any, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return np.append(bands.lower, bands.upper[-1]), np.append(y, y[-1])
 
 
+def _shade_band(ax: Any, bands: Any, confidence: pd.DataFrame, name: str, colour: str) -> None:
+    """Shade the 5-95 % confidence band of ``name`` (a confidence_bands table)."""
+    lo, hi = band_limits(confidence, name, bands.nominal)
+    if not np.any(np.isfinite(lo)):
+        return
+    x, y_lo = _steps(bands, lo)
+    _, y_hi = _steps(bands, hi)
+    ax.fill_between(x, y_lo, y_hi, step="post", color=colour, alpha=0.18, linewidth=0,
+                    label=f"{name}: 5-95 %")  # fmt: skip
+
+
 def plot_receiver_levels(
     result: Result,
     receivers: Sequence[str],
@@ -275,11 +295,13 @@ def plot_receiver_levels(
     *,
     limits: Mapping[str, np.ndarray] | None = None,
     fmt: str | None = None,
+    confidence: pd.DataFrame | None = None,
 ) -> None:
     """Band levels of the receivers, weak-SEA bands hatched, limits dashed where given.
 
     ``limits`` maps a receiver to its per-band limit [dB, same reference] (NaN: none).
-    Bands are hatched where any shown receiver is weak.
+    Bands are hatched where any shown receiver is weak. ``confidence``
+    (:func:`seatool.analysis.confidence.confidence_bands`) shades each 5-95 % band.
     """
     model = result.model
     bands = model.bands
@@ -292,6 +314,8 @@ def plot_receiver_levels(
         i = idx[name]
         colour = PALETTE[k % len(PALETTE)]
         ax.step(*_steps(bands, lv[i]), where="post", color=colour, linewidth=1.8, label=name)
+        if confidence is not None:
+            _shade_band(ax, bands, confidence, name, colour)
         if limits is not None and name in limits:
             ax.step(*_steps(bands, np.asarray(limits[name], dtype=float)), where="post",
                     color=colour, linewidth=1.2, linestyle="--", label=f"{name}: limit")  # fmt: skip

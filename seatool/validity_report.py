@@ -29,11 +29,13 @@ import pandas as pd
 from .model import Model, Subsystem
 from .physics import elastic
 from .physics import validity as pv
+from .physics.variance import ALPHA_POINT, level_quantiles, relative_variance_band
 from .properties import DuctProps, PanelProps, has_thin_plate_limit, is_resonator
 from .solve import assemble
 
 __all__ = [
     "SubsystemValidity",
+    "band_spread_db",
     "assess_model",
     "check_table",
     "validity_table",
@@ -85,18 +87,59 @@ class SubsystemValidity:
             out.append("+".join(got) if got else "ok")
         return out
 
-    def messages(self) -> list[str]:
-        """Plain-words message per band (:func:`seatool.physics.validity.validity_message`)."""
+    def band_spread(self, sl: slice = slice(None)) -> tuple[Array, Array]:
+        """5 % and 95 % band levels relative to the SEA level [dB] in the bands ``sl``:
+        this subsystem alone, driven at a point (:func:`band_spread_db`)."""
+        return band_spread_db(self.bands.modal_overlap[sl], self.bands.modes_in_band[sl])
+
+    def messages(self, spread: tuple[Array, Array] | None = None) -> list[str]:
+        """Plain-words message per band (:func:`seatool.physics.validity.validity_message`),
+        with the band-level spread (``spread``, default :meth:`band_spread`)."""
         out = []
+        lo, hi = self.band_spread() if spread is None else spread
         for j in range(self.bands.f.size):
             msg = pv.validity_message(
                 float(self.bands.modes_in_band[j]),
                 float(self.bands.modal_overlap[j]),
                 float(self.bands.level_std_db[j]),
+                spread=_spread_words(float(lo[j]), float(hi[j])),
             )
             extra = [text for _, mask, text in self.limits if mask[j]]
             out.append("; ".join([msg, *extra]))
         return out
+
+
+def band_spread_db(modal_overlap: npt.ArrayLike, modes_in_band: npt.ArrayLike) -> tuple[
+    Array, Array
+]:
+    """5 % and 95 % levels of a subsystem's band energy relative to its mean [dB].
+
+    The band-averaged relative variance of a point-driven subsystem
+    (:func:`seatool.physics.variance.relative_variance_band`, GOE natural frequencies,
+    alpha = 3; Langley & Brown 2004b) turned into Gamma quantiles
+    (:func:`seatool.physics.variance.level_quantiles`). NaN where the modal overlap is
+    not positive. The spread of a subsystem inside a solved model, with its actual
+    inputs and the scatter of its neighbours, is :mod:`seatool.analysis.confidence`.
+    """
+    m = np.asarray(modal_overlap, dtype=float)
+    nb = np.asarray(modes_in_band, dtype=float)
+    lo = np.full(m.shape, np.nan)
+    hi = np.full(m.shape, np.nan)
+    ok = (m > 0) & np.isfinite(m) & np.isfinite(nb) & (nb >= 0)
+    if np.any(ok):
+        r2 = relative_variance_band(m[ok], nb[ok], alpha=ALPHA_POINT)
+        q = level_quantiles(r2, [0.05, 0.95])
+        lo[ok], hi[ok] = q[:, 0], q[:, 1]
+    return lo, hi
+
+
+def _spread_words(lo: float, hi: float) -> str:
+    if not (np.isfinite(lo) and np.isfinite(hi)):
+        return "band-level spread unknown"
+    return (
+        f"band levels of nominally identical builds {lo:+.1f}/{hi:+.1f} dB about the SEA "
+        "level (5-95 %, point drive, this subsystem alone)"
+    )
 
 
 def _counted(s: Subsystem) -> bool:
@@ -173,8 +216,10 @@ def validity_table(model: Model) -> pd.DataFrame:
     """Tidy table, one row per subsystem and band.
 
     Columns: ``subsystem, band_hz`` (nominal), ``modes_in_band``, ``modal_overlap``,
-    ``total_loss_factor``, ``level_std_dB`` (GOE single-frequency estimate), ``flag``
-    ('ok' or '+'-joined problems), ``message`` (plain words).
+    ``total_loss_factor``, ``level_std_dB`` (GOE single-frequency estimate),
+    ``band_p05_dB``, ``band_p95_dB`` (band levels at 5 % and 95 % relative to the SEA
+    level, :func:`band_spread_db`), ``flag`` ('ok' or '+'-joined problems), ``message``
+    (plain words).
     """
     rows: dict[str, list[object]] = {
         k: []
@@ -185,12 +230,16 @@ def validity_table(model: Model) -> pd.DataFrame:
             "modal_overlap",
             "total_loss_factor",
             "level_std_dB",
+            "band_p05_dB",
+            "band_p95_dB",
             "flag",
             "message",
         )
     }
     nominal = model.bands.nominal
-    for sv in assess_model(model):
+    svs = assess_model(model)
+    spreads = _spreads(svs, [slice(None)] * len(svs))
+    for sv, (lo, hi) in zip(svs, spreads, strict=True):
         nb = nominal.size
         rows["subsystem"] += [sv.name] * nb
         rows["band_hz"] += list(nominal)
@@ -198,9 +247,24 @@ def validity_table(model: Model) -> pd.DataFrame:
         rows["modal_overlap"] += list(sv.bands.modal_overlap)
         rows["total_loss_factor"] += list(sv.total_loss_factor)
         rows["level_std_dB"] += list(sv.bands.level_std_db)
+        rows["band_p05_dB"] += list(lo)
+        rows["band_p95_dB"] += list(hi)
         rows["flag"] += sv.flags()
-        rows["message"] += sv.messages()
+        rows["message"] += sv.messages((lo, hi))
     return pd.DataFrame(rows)
+
+
+def _spreads(
+    svs: list[SubsystemValidity], slices: list[slice]
+) -> list[tuple[Array, Array]]:
+    """:func:`band_spread_db` of the bands ``slices[i]`` of ``svs[i]``, in one call."""
+    m = [sv.bands.modal_overlap[sl] for sv, sl in zip(svs, slices, strict=True)]
+    n = [sv.bands.modes_in_band[sl] for sv, sl in zip(svs, slices, strict=True)]
+    if not m:
+        return []
+    lo, hi = band_spread_db(np.concatenate(m), np.concatenate(n))
+    cuts = np.cumsum([x.size for x in m])[:-1]
+    return list(zip(np.split(lo, cuts), np.split(hi, cuts), strict=True))
 
 
 def _runs(mask: BoolArray) -> list[tuple[int, int]]:
@@ -243,24 +307,31 @@ def weak_band_notes(model: Model) -> tuple[str, ...]:
     """One compact line per subsystem and run of bands where SEA is weak.
 
     E.g. ``"cabin_air below 250 Hz: 0.4-1.3 modes per band, modal overlap 0.05-0.3;
-    single-frequency spread +-5.6 dB or worse, band levels vary less"``: the range of modes in band over the run's bands with too
-    few modes, the range of modal overlap over its bands with too little overlap, and the
-    smallest spread of the run (at its best band), hence "or worse". Model-specific limits
-    get a line of their own.
+    band levels of nominally identical builds -7.9/+4.4 dB about the SEA level or wider
+    (5-95 %, point drive)"``: the range of modes in band over the run's bands with too few
+    modes, the range of modal overlap over its bands with too little overlap, and the
+    narrowest band-level spread of the run (:func:`band_spread_db`), hence "or wider".
+    Model-specific limits get a line of their own.
     """
     out: list[str] = []
-    for sv in assess_model(model):
+    svs = assess_model(model)
+    runs = [(sv, first, last) for sv in svs for first, last in _runs(~sv.bands.ok)]
+    spreads = _spreads([r[0] for r in runs], [slice(r[1], r[2] + 1) for r in runs])
+    by_run = {(r[0].name, r[1]): sp for r, sp in zip(runs, spreads, strict=True)}
+    for sv in svs:
         bv = sv.bands
         weak = ~bv.ok
         for first, last in _runs(weak):
             sl = slice(first, last + 1)
-            std = bv.level_std_db[sl]
-            best = float(np.min(std))
-            spread = (
-                f"single-frequency spread +-{best:.1f} dB or worse, band levels vary less"
-                if np.isfinite(best)
-                else "spread unknown"
-            )
+            lo, hi = by_run[(sv.name, first)]
+            if np.any(np.isfinite(hi)):
+                k = int(np.nanargmin(hi - lo))  # the band of the narrowest spread
+                spread = (
+                    f"band levels of nominally identical builds {lo[k]:+.1f}/{hi[k]:+.1f} dB "
+                    "about the SEA level or wider (5-95 %, point drive)"
+                )
+            else:
+                spread = "band-level spread unknown"
             few = bv.few_modes[sl]
             low = bv.low_overlap[sl]
             parts = []

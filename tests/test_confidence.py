@@ -110,10 +110,12 @@ def test_built_up_variance_vs_coupled_monte_carlo() -> None:
     # predicted 0.162; tolerance 3 standard errors
     assert abs(pred[0] - r1) <= 3 * se1
     # driven through the point spring: Monte Carlo 0.62 (standard error about 0.06),
-    # predicted 0.72. Observed ratios over other overlaps and spring stiffnesses:
-    # 0.66-1.64 (docs/theory/variance.md); tolerance: a factor of 1.6 beyond 2 standard
-    # errors. Without the junction-point term the prediction is 0.24 (fails).
-    assert r2 / 1.6 - 2 * se2 <= pred[1] <= 1.6 * r2 + 2 * se2
+    # predicted 0.84. The Monte Carlo estimate is heavy-tailed: 400-draw runs of the same
+    # case with seeds 101-103 gave 1.09 +- 0.27, 0.99 +- 0.09, 0.82 +- 0.16 (mean of the
+    # four 0.88; docs/theory/variance.md); tolerance: a factor of 1.4 beyond 2 standard
+    # errors. Without the junction-point term the prediction is 0.24, without the
+    # product term 0.72.
+    assert r2 / 1.4 - 2 * se2 <= pred[1] <= 1.4 * r2 + 2 * se2
     assert r2 > 2.0 * r1  # variance grows along the transmission path
 
 

@@ -73,7 +73,7 @@ def test_result_validity_and_notes():
     notes = [n for n in res.notes if n.startswith("box ")]
     assert len(notes) == 1
     assert notes[0].startswith("box below ")
-    assert "modes per band" in notes[0] and "or worse" in notes[0]
+    assert "modes per band" in notes[0] and "or wider" in notes[0]  # band-level spread (issue 17)
 
 
 def test_check_shows_table_and_solve_shows_notes(tmp_path, capsys):

@@ -21,15 +21,24 @@ modal overlap, modes in band and excitation statistics (Langley & Brown 2004a, b
    point, not its energy: the power it sends, omega eta_sk E_s, gets the extra relative
    variance r^2(m_s, B_s, 3 alpha_s) - r^2(m_s, B_s, alpha_s) (a point response has
    modal coefficients phi_j(x_in)^2 phi_j(x_c)^2, alpha multiplied by 3);
-4. the subsystems scatter independently, so to first order
+4. at a point junction the receiver's energy is the band average of a product, the
+   squared junction force (set by the source's modes) times the receiver's point
+   receptance (set by its own modes); besides the two relative variances that a
+   first-order propagation adds, the product has the second-order term of
+   :func:`seatool.physics.variance.product_variance_band` (both vary over the band on
+   the scale of their half-power bandwidths), added to V_k;
+5. the subsystems scatter independently, so
    ``Var[E_j] = sum_k G_jk^2 [(omega L_kk E_k)^2 r_k^2 + V_k]`` with
-   ``G = (omega L_UU)^-1`` and V_k the junction terms of item 3: the variance of a
+   ``G = (omega L_UU)^-1`` and V_k the junction terms of items 3 and 4: the variance of a
    subsystem driven through others collects the scatter of every subsystem on the way.
 
-The random-matrix Monte Carlo of two point-coupled subsystems in the tests finds the
-directly driven subsystem's variance within a few percent and underestimates the
-indirectly driven one's by 20-40 % (docs/theory/variance.md); without item 3 it would
-be low by a factor of 2 to 4.
+Checks (docs/theory/variance.md): the random-matrix Monte Carlo of a plate radiating into
+a cavity finds both variances within its standard error (distributed coupling, alpha = 1
+for the cavity; treated as point-like the cavity's would be 5.6 times too large); for two
+subsystems joined by a point spring the directly driven one is within a few percent and
+the receiver within about 20 % of Monte Carlo estimates that themselves scatter by 10-30 %
+between seeds (heavy tails); without item 3 the receiver would be low by a factor of 2 to
+4, without item 4 by about 25 %.
 
 Levels are quantiles of a Gamma distribution with the SEA mean and the predicted
 variance (:func:`seatool.physics.variance.level_quantiles`; docs/theory/variance.md says
@@ -38,6 +47,7 @@ why Gamma). Held subsystems (measured levels) and sinks have no spread.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Sequence
 from typing import Literal
 
@@ -52,16 +62,31 @@ from ..physics.variance import (
     ALPHA_RAIN_ON_THE_ROOF,
     combined_alpha,
     level_quantiles,
+    product_variance_band,
+    relative_variance_alpha_slope,
     relative_variance_band,
 )
 from ..results import CAUTION, Result, subsystem_level
 from ..solve import Assembly, assemble
 
 __all__ = [
+    "BAND_NOTE",
     "DISTRIBUTED_CONNECTIONS",
+    "band_limits",
     "confidence_bands",
     "relative_variances",
+    "render_bands",
+    "table_with_confidence",
 ]
+
+#: What a 5-95 % confidence band of this module is, in plain words (shown with every band).
+BAND_NOTE = (
+    "5-95 % band: the levels that 90 % of nominally identical builds fall between, from the "
+    "SEA ensemble variance of each subsystem's band energy (scatter of natural frequencies "
+    "and mode shapes; Langley & Brown 2004, Langley & Cotoni 2004), the energy taken as "
+    "Gamma-distributed about the SEA mean (the distribution of a sum of squared modal "
+    "responses); parameter spreads of an [uncertainty] section are not included."
+)
 
 Array = npt.NDArray[np.float64]
 
@@ -155,25 +180,29 @@ def relative_variances(
     r2[ok] = relative_variance_band(m[ok], n_band[ok], alpha=alpha[ok], spacing=spacing)
     # point-type connections: the power sent from s follows s's response at the junction
     # point, which scatters more than s's energy (alpha of a point response: alpha_s x 3)
+    # r^2 is linear in alpha: r^2(3 alpha) - r^2(alpha) = 2 alpha d r^2 / d alpha
+    xi_all = np.zeros((n, nb))
+    xi_all[ok] = (ALPHA_POINT - 1.0) * alpha[ok] * relative_variance_alpha_slope(m[ok], n_band[ok])
     extra = np.zeros((n, nb))  # variance of the input of each subsystem [W^2]
     for c, (a, b) in enumerate(zip(asm.a, asm.b, strict=True)):
         if model.connections[c].kind in DISTRIBUTED_CONNECTIONS:
             continue
         for src, dst, eta in ((a, b, asm.eta_ab[c]), (b, a, asm.eta_ba[c])):
-            if asm.held[dst] or not ok[src].any():
+            if asm.held[dst]:
                 continue
-            sel = ok[src]
-            xi = np.zeros(nb)
-            xi[sel] = (
-                relative_variance_band(
-                    m[src, sel],
-                    n_band[src, sel],
-                    alpha=alpha[src, sel] * ALPHA_POINT,
-                    spacing=spacing,
-                )
-                - r2[src, sel]
+            both = ok[src] & ok[dst]
+            product = np.zeros(nb)  # the junction force and the receiver's receptance
+            product[both] = product_variance_band(
+                bands.centre[both],
+                bands.width[both],
+                modal[src, both],
+                total[src, both],
+                modal[dst, both],
+                total[dst, both],
+                alpha_1=ALPHA_POINT * alpha[src, both],
+                alpha_2=ALPHA_POINT,
             )
-            extra[dst] += (omega * eta * e[src]) ** 2 * np.maximum(xi, 0.0)
+            extra[dst] += (omega * eta * e[src]) ** 2 * (xi_all[src] + product)
     pos = {int(k): i for i, k in enumerate(free)}
     for j in range(nb):
         lmat = np.zeros((free.size, free.size))
@@ -197,6 +226,7 @@ def confidence_bands(
     *,
     distribution: Literal["gamma", "lognormal"] = "gamma",
     spacing: Literal["goe", "poisson"] = "goe",
+    relative_variance: npt.ArrayLike | None = None,
 ) -> pd.DataFrame:
     """Levels that a given share of nominally identical systems stays below.
 
@@ -212,6 +242,9 @@ def confidence_bands(
         (default Gamma; see :func:`seatool.physics.variance.level_quantiles`).
     spacing : {'goe', 'poisson'}, optional
         Natural-frequency statistics (default GOE).
+    relative_variance : array_like (N, B), optional
+        :func:`relative_variances` of the result if already at hand (``spacing`` is then
+        not used).
 
     Returns
     -------
@@ -224,7 +257,11 @@ def confidence_bands(
         caution shown with every level.
     """
     probs = sorted({float(p) for p in levels} | {0.5})
-    r2 = relative_variances(model, result.energy, spacing=spacing)
+    r2 = (
+        relative_variances(model, result.energy, spacing=spacing)
+        if relative_variance is None
+        else np.asarray(relative_variance, dtype=float)
+    )
     rows = []
     for i, s in enumerate(model.subsystems):
         if s.sink:
@@ -269,14 +306,55 @@ def _level_std(r2: Array, distribution: str) -> Array:
     return np.asarray(np.where(pos, c * np.sqrt(var), 0.0), dtype=float)
 
 
-def table_with_confidence(model: Model, result: Result) -> pd.DataFrame:
+def table_with_confidence(
+    model: Model, result: Result, conf: pd.DataFrame | None = None
+) -> pd.DataFrame:
     """:meth:`seatool.results.Result.table` with the confidence columns added:
     ``relative_variance, level_std_dB, level_p05_dB, level_p50_dB, level_p95_dB``
-    (:func:`confidence_bands`; NaN for sinks)."""
+    (``conf``, default :func:`confidence_bands`; NaN for sinks)."""
     base = result.table()
-    conf = confidence_bands(model, result)
+    conf = confidence_bands(model, result) if conf is None else conf
     keep = ["subsystem", "band_hz", "relative_variance", "level_std_dB"]
     keep += [c for c in conf.columns if c.startswith("level_p")]
     out = base.merge(conf[keep], on=["subsystem", "band_hz"], how="left")
     out.attrs["caution"] = CAUTION
     return out
+
+
+def band_limits(
+    conf: pd.DataFrame, name: str, bands_nominal: npt.ArrayLike
+) -> tuple[Array, Array]:
+    """The 5 % and 95 % levels [dB] of subsystem ``name`` per band (NaN where absent), read
+    from a :func:`confidence_bands` table."""
+    sel = conf[conf["subsystem"] == name].set_index("band_hz").reindex(
+        np.asarray(bands_nominal, dtype=float)
+    )
+    lo = sel[column_name(0.05)].to_numpy(dtype=float)
+    hi = sel[column_name(0.95)].to_numpy(dtype=float)
+    return lo, hi
+
+
+def render_bands(
+    model: Model, conf: pd.DataFrame, names: Sequence[str], *, digits: int = 1
+) -> str:
+    """Text table of the 5 % and 95 % levels of ``names`` per band (``lo..hi`` per cell),
+    headed by :data:`BAND_NOTE`."""
+    shown = [n for n in names if n in set(conf["subsystem"])]
+    if not shown:
+        return ""
+    bands = model.bands
+    cells = {n: band_limits(conf, n, bands.nominal) for n in shown}
+    head = ["band", *shown]
+    rows = [
+        [bands.label(j)]
+        + [f"{cells[n][0][j]:.{digits}f}..{cells[n][1][j]:.{digits}f}" for n in shown]
+        for j in range(len(bands))
+    ]
+    widths = [max(len(r[k]) for r in [head, *rows]) for k in range(len(head))]
+    fmt = "  ".join(f"{{:>{wd}}}" for wd in widths)
+    out = ["confidence bands [dB, same references as the levels]", *textwrap.wrap(BAND_NOTE, 92)]
+    out.append(fmt.format(*head))
+    out.append(fmt.format(*["-" * wd for wd in widths]))
+    out.extend(fmt.format(*r) for r in rows)
+    return "\n".join(out)
+

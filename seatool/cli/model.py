@@ -48,6 +48,12 @@ def _solve_args(sp: argparse.ArgumentParser) -> None:
         help="write the cavities' dB, dB(A), dB(C), SIL, sone and phon to FILE",
     )
     sp.add_argument(
+        "--no-confidence",
+        action="store_true",
+        help="leave out the 5-95 %% confidence bands from the SEA ensemble variance (table, "
+        "CSV columns, figure shading, confidence of meeting the targets)",
+    )
+    sp.add_argument(
         "--fail-on-miss",
         action="store_true",
         help=f"exit with code {EXIT_MISSED} when a target of the model is missed "
@@ -81,6 +87,12 @@ def _cmd_solve(args: argparse.Namespace) -> int:
     metrics_path = output_target(args.metrics_csv, "--metrics-csv")
     result = seatool.run(model)
     print(result.render(names, digits=args.digits, caution=False))
+    confidence = seatool.analysis.confidence
+    r2 = None if args.no_confidence else confidence.relative_variances(model, result.energy)
+    conf = None if r2 is None else confidence.confidence_bands(model, result, relative_variance=r2)
+    if conf is not None:
+        print()
+        print(confidence.render_bands(model, conf, names or model.names, digits=args.digits))
     comfort = seatool.analysis.comfort
     comfort_table = comfort.receiver_metrics(result, args.field)
     shown = comfort_table[comfort_table["subsystem"].isin(names or model.names)]
@@ -101,7 +113,11 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         )
     if csv_path is not None:
         try:
-            table = seatool.analysis.confidence.table_with_confidence(model, result)
+            table = (
+                result.table()
+                if conf is None
+                else confidence.table_with_confidence(model, result, conf)
+            )
             seatool.results.write_csv(table, csv_path)
         except OSError as exc:
             raise cannot_write(csv_path, "--csv", exc) from None
@@ -114,7 +130,7 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         print(f"wrote {metrics_path}")
     if plot_path is not None:
         try:
-            seatool.plot_levels(result, plot_path, names)
+            seatool.plot_levels(result, plot_path, names, confidence=conf)
         except OSError as exc:
             raise cannot_write(plot_path, "--plot", exc) from None
         print(f"wrote {plot_path}")
@@ -126,6 +142,9 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         vs = targets.verdicts(result, field=args.field)
         print()
         print(targets.render_verdicts(vs))
+        if r2 is not None:
+            pm = targets.probability_from_variance(result, field=args.field, relative_variance=r2)
+            print(targets.render_confidence(pm))
         missed = not all(v.met for v in vs)
     print_caution()
     return EXIT_MISSED if missed and args.fail_on_miss else EXIT_OK

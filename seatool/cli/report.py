@@ -41,6 +41,10 @@ def _args(p: argparse.ArgumentParser) -> None:
         help="a candidate-treatments file (.toml) whose lightest answer the report shows",
     )  # fmt: skip
     p.add_argument("--quiet", action="store_true", help="no progress bar")
+    p.add_argument(
+        "--no-confidence", action="store_true",
+        help="leave out the 5-95 %% confidence bands of the SEA ensemble variance",
+    )  # fmt: skip
 
 
 def _cmd(args: argparse.Namespace) -> int:
@@ -49,6 +53,7 @@ def _cmd(args: argparse.Namespace) -> int:
     files = seatool.report.write_report(
         args.model, args.output, receiver=args.to, band=args.band, samples=args.samples,
         seed=args.seed, variants=args.variants, candidates=args.candidates,
+        confidence_bands=not args.no_confidence,
     )  # fmt: skip
     print(f"wrote {files.html}")
     print(f"wrote {files.json}")

@@ -391,6 +391,7 @@ def validity_message(
     *,
     min_modes: float = MIN_MODES,
     min_overlap: float = MIN_OVERLAP,
+    spread: str | None = None,
 ) -> str:
     """Short plain-words assessment of one band.
 
@@ -404,6 +405,9 @@ def validity_message(
         Level standard deviation [dB] (:func:`level_spread_db`).
     min_modes, min_overlap : float, optional
         Thresholds as in :func:`assess_bands`.
+    spread : str, optional
+        Words on the spread to use instead of the single-frequency ``std_db`` (e.g. the
+        band-level spread of :func:`seatool.physics.variance.relative_variance_band`).
 
     Returns
     -------
@@ -419,12 +423,13 @@ def validity_message(
         problems.append("too few modes")
     if overlap < min_overlap:
         problems.append("modal overlap below 1, response dominated by single modes")
-    spread = (
-        "spread unknown"
-        if not np.isfinite(std_db)
-        else f"expect +-{std_db:.1f} dB{' or worse' if problems else ''}"
-    )
-    tail = f"{spread} (1 standard deviation, single-frequency estimate)"
+    if spread is not None:
+        tail = spread
+    elif not np.isfinite(std_db):
+        tail = "spread unknown (1 standard deviation, single-frequency estimate)"
+    else:
+        worse = " or worse" if problems else ""
+        tail = f"expect +-{std_db:.1f} dB{worse} (1 standard deviation, single-frequency estimate)"
     if not problems:
         return f"{head}: SEA conditions met; {tail}"
     return f"{head}: {'; '.join(problems)}; {tail}"

@@ -60,6 +60,7 @@ def companion(content: Content) -> dict[str, Any]:
         "source": content.source,
         "receiver": content.receiver,
         "receivers": content.receivers,
+        "confidence_note": content.confidence_note,
         "tables": tables,
         "references": [{"text": r.text, "used_by": list(r.used_by)} for r in content.references],
     }

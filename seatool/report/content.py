@@ -23,7 +23,7 @@ from tqdm import tqdm
 from .. import plot
 from .. import progress as progress_bars
 from ..analysis import candidates as candidate_files
-from ..analysis import comfort, uncertainty
+from ..analysis import comfort, confidence, uncertainty
 from ..analysis import lightest as lightest_search
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
@@ -85,6 +85,7 @@ class Content:
     notes: list[str] = field(default_factory=list)
     references: list[Reference] = field(default_factory=list)
     spread_note: str = ""
+    confidence_note: str = ""
     verdict_lines: list[str] = field(default_factory=list)
     variant_lines: list[str] = field(default_factory=list)
     lightest_lines: list[str] = field(default_factory=list)
@@ -196,6 +197,19 @@ def _levels(result: Result, receivers: Sequence[str]) -> pd.DataFrame:
     return w.reset_index().rename(columns={"band_hz": "band [Hz]"})
 
 
+def _confidence_table(
+    result: Result, receivers: Sequence[str], conf: pd.DataFrame
+) -> pd.DataFrame:
+    """The 5 % and 95 % levels of each receiver per band (same references as the levels)."""
+    nominal = result.model.bands.nominal
+    cols: dict[str, np.ndarray] = {"band [Hz]": nominal}
+    for n in receivers:
+        lo, hi = confidence.band_limits(conf, n, nominal)
+        cols[f"{n} 5 %"] = lo
+        cols[f"{n} 95 %"] = hi
+    return pd.DataFrame(cols)
+
+
 def _margins(result: Result, limits: pd.DataFrame, receivers: Sequence[str]) -> pd.DataFrame:
     t = result.table()
     t = t[t["subsystem"].isin(receivers)][["subsystem", "band_hz", "level_dB"]]
@@ -286,6 +300,7 @@ def collect(
     variants: str | Path | None = None,
     candidates: str | Path | None = None,
     progress: bool | None = None,
+    confidence_bands: bool = True,
 ) -> Content:
     """Solve the model in ``data`` and gather everything its report shows.
 
@@ -314,6 +329,9 @@ def collect(
     progress : bool, optional
         Progress bar on stderr (default: :func:`seatool.progress.enabled`, i.e. on a
         terminal unless ``--quiet``).
+    confidence_bands : bool, optional
+        Show the 5-95 % confidence bands of the SEA ensemble variance
+        (:mod:`seatool.analysis.confidence`) in the receiver figure and table (default).
     """
     if samples < 1:
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
@@ -367,7 +385,12 @@ def collect(
     content.tables.update(_model_tables(model, result, data))
     content.treatment_lines = _treatment_lines(model)
     content.notes = list(model.notes) + list(result.solution.notes)
+    conf = confidence.confidence_bands(model, result) if confidence_bands else None
+    if conf is not None:
+        content.confidence_note = confidence.BAND_NOTE
     content.tables["levels"] = _levels(result, receivers)
+    if conf is not None:
+        content.tables["confidence"] = _confidence_table(result, receivers, conf)
     ov = result.overall()
     content.tables["overall"] = ov[ov["subsystem"].isin(receivers)].reset_index(drop=True)
     hear = comfort.receiver_metrics(result)
@@ -383,6 +406,9 @@ def collect(
     else:
         limits = None
     _decisions(content, result, variants, candidates, progress)
+    if conf is not None and model.targets:  # how sure each verdict is (SEA variance)
+        pm = target_analysis.probability_from_variance(result)
+        content.verdict_lines += target_analysis.render_confidence(pm).splitlines()
     step("decisions")
 
     con = path_analysis.contributions(model, main)
@@ -430,7 +456,9 @@ def collect(
             for n, g in limits.groupby("subsystem")
         }
     content.figures["levels"] = _svg(
-        lambda p: plot.plot_receiver_levels(result, receivers, p, limits=lim_map)
+        lambda p: plot.plot_receiver_levels(
+            result, receivers, p, limits=lim_map, confidence=conf
+        )
     )
     content.figures["flow"] = _svg(
         lambda p: plot.plot_energy_flow(result, p, band=band_index, highlight=highlight)

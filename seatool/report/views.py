@@ -13,6 +13,7 @@ function                 command              tables
 :func:`sensitivity`      ``seatool            ``ranking``, ``bands``
                          sensitivity``
 :func:`level_spread`     ``seatool spread``   ``overall``, ``bands``
+:func:`confidence`       ``seatool solve``    ``bands``, ``targets``
 :func:`design_variants`  ``seatool            ``levels``, ``margins``, ``masses``,
                          variants``           ``difference``
 :func:`lightest`         ``seatool            ``choice``, ``margins``, ``alternatives``
@@ -30,16 +31,26 @@ from pathlib import Path
 import pandas as pd
 
 from ..analysis import candidates as candidate_files
+from ..analysis import confidence as conf_analysis
 from ..analysis import lightest as lightest_search
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
+from ..analysis import targets as target_analysis
 from ..analysis import uncertainty
 from ..analysis import variants as variant_analysis
 from ..model import Model
 from ..results import CAUTION, Result
 from ..solve import solve
 
-__all__ = ["View", "design_variants", "level_spread", "lightest", "sensitivity", "source_paths"]
+__all__ = [
+    "View",
+    "confidence",
+    "design_variants",
+    "level_spread",
+    "lightest",
+    "sensitivity",
+    "source_paths",
+]
 
 #: Rows of each table shown in a notebook (the DataFrames themselves are complete).
 SHOWN_ROWS = 15
@@ -142,6 +153,28 @@ def level_spread(
         f"{sp.model.title or 'model'}: spread of the levels",
         {"overall": sp.overall(), "bands": sp.table()},
         (f"{sp.samples} samples, seed {sp.seed}, {sp.method}",),
+    )
+
+
+def confidence(model: Model, *, samples: int = 4000, seed: int = 0) -> View:
+    """5 / 50 / 95 % levels from the SEA ensemble variance, and the confidence of meeting
+    each target (no sampling of the model; :mod:`seatool.analysis.confidence`).
+
+    Tables: ``bands`` (:func:`seatool.analysis.confidence.confidence_bands`) and, when the
+    model states targets, ``targets``
+    (:func:`seatool.analysis.targets.probability_from_variance` with ``samples`` draws).
+    """
+    result = Result(model, solve(model))
+    r2 = conf_analysis.relative_variances(model, result.energy)
+    tables = {"bands": conf_analysis.confidence_bands(model, result, relative_variance=r2)}
+    if model.targets:
+        tables["targets"] = target_analysis.probability_from_variance(
+            result, samples=samples, seed=seed, relative_variance=r2
+        )
+    return View(
+        f"{model.title or 'model'}: confidence bands of the levels",
+        tables,
+        (conf_analysis.BAND_NOTE,),
     )
 
 
