@@ -108,8 +108,8 @@ def test_search_equals_enumeration_on_random_catalogues(forces, thick, drop):
     ]
     brute = _brute(data, surfaces)
     ok = _expected(brute)
-    for method in ("exhaustive", "screened"):
-        got = lightest_treatment(data, surfaces, method=method, allowance=20.0)
+    for method in ("exhaustive", "bound"):
+        got = lightest_treatment(data, surfaces, method=method)
         assert got.found == bool(ok)
         if ok:
             mass, neg, names = ok[0]

@@ -15,13 +15,14 @@ a table, or None for no treatment). The search:
    rebuilding and solving the chosen combination in full.
 2. Evaluates combinations exactly (batched dense solves of the power balance of every
    combination, all bands): every combination when there are at most
-   ``exhaustive_limit``; otherwise in increasing order of mass, skipping the combinations
-   whose *screened* margin (the base levels plus the sum of each option's exact one-at-a-
-   time level change, in dB) misses a target by more than ``allowance`` dB, until the
-   lightest combination meeting every target is found. The screening is a linearisation
-   (interactions between surfaces are neglected in it, never in the verdict): a combination
-   it skips could in principle meet the targets, so use a generous allowance; the
-   benchmark compares it with brute force.
+   ``exhaustive_limit``; otherwise by branch and bound
+   (:mod:`seatool.analysis.lightest_bound`): a node fixes some surfaces' options, and a
+   proven lower bound of the receivers' band levels over all its completions (interval
+   M-matrix bound: Berman & Plemmons 1994, ch. 6) drops the nodes that cannot meet every
+   target; best-first in the objective, so the first combination met is the lightest of
+   all. When nothing meets, a second branch and bound on the same bound finds the best
+   achievable smallest margin (proven, or bracketed after ``max_nodes`` bounded nodes)
+   instead of solving every combination. See docs/theory/lightest.md.
 
 The objective is the added mass of the plate treatments
 (:func:`seatool.analysis.treatment_mass.total_added_mass`) or, with ``objective='cost'``,
@@ -31,6 +32,7 @@ added mass).
 
 from __future__ import annotations
 
+import itertools
 import sys
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
@@ -49,6 +51,7 @@ from ..results import Result
 from ..solve import assemble
 from ..solve import solve as core_solve
 from ._system import level_offset
+from .lightest_bound import LevelFloor, best_margin_search, lightest_search
 from .targets import margin_table, margins_of_levels, verdicts
 from .treatment_mass import total_added_mass
 from .uncertainty import _batched_dense
@@ -134,7 +137,7 @@ class Lightest:
         The next-best combinations meeting every target (one column per surface,
         ``objective, mass_kg, smallest_margin``), lightest first.
     method : str
-        'exhaustive' or 'mass order with screening'.
+        'exhaustive' or 'branch and bound (...)' with its counts.
     evaluated : int
         Combinations solved exactly.
     combinations : int
@@ -143,6 +146,10 @@ class Lightest:
         Largest difference between the combined levels and the full rebuild [dB].
     best_margin : float
         The best smallest margin found (the best achievable when nothing meets the targets).
+    margin_bound : float
+        Proven upper bound of the best achievable smallest margin when nothing meets the
+        targets (equal to ``best_margin`` when the search proved it); ``best_margin``
+        otherwise.
     """
 
     found: bool
@@ -158,6 +165,7 @@ class Lightest:
     combinations: int
     verification_db: float
     best_margin: float
+    margin_bound: float
 
     def summary(self) -> str:
         """Plain-text answer: the choice, its mass, the binding limit, or why none."""
@@ -167,6 +175,11 @@ class Lightest:
             if self.found
             else "no combination of the candidates meets every target; the best achievable "
             f"smallest margin is {self.best_margin:.1f} with {picks}"
+            + (
+                ""
+                if self.margin_bound <= self.best_margin + 0.05
+                else f" (search stopped: no combination can exceed {self.margin_bound:.1f})"
+            )
         )
         lines = [
             head,
@@ -200,8 +213,9 @@ def _option_arrays(
     file: str,
     base_dir: str | Path,
     where: str,
-) -> _Arrays:
-    """The arrays of the base model with one option applied.
+) -> tuple[_Arrays, set[int]]:
+    """The arrays of the base model with one option applied, and the connection rows it
+    rebuilt.
 
     Only the connections and excitations that touch a changed subsystem (or changed
     themselves) are rebuilt; coupling loss factors and input powers depend only on the
@@ -213,7 +227,8 @@ def _option_arrays(
     if any(data.get(k) != changed.get(k) for k in others):
         m = build(changed, file=file, base_dir=base_dir)
         _check(m, base, where, file)
-        return _arrays(m, r_idx)
+        got = _arrays(m, r_idx)
+        return got, set(np.flatnonzero(np.any(got.eta_ab != a0.eta_ab, axis=1)).tolist())
     subs_old = data.get("subsystems", {}) or {}
     subs_new = changed.get("subsystems", {}) or {}
     moved = {n for n in set(subs_old) | set(subs_new) if subs_old.get(n) != subs_new.get(n)}
@@ -228,7 +243,7 @@ def _option_arrays(
                 out[name] = t
         return out
 
-    cons = touched("connections", lambda t: t.get("between", []) or [])
+    cons = touched("connections", _names_in)
     exs = touched("excitations", lambda t: [t.get("subsystem")])
     part = {k: v for k, v in changed.items() if k not in ("connections", "excitations", "targets")}
     part["connections"] = cons
@@ -243,11 +258,13 @@ def _option_arrays(
     eta = a0.eta_ab.copy()
     base_cons = [c.name for c in base.connections]
     part_cons = [c.name for c in m.connections]
+    rows: set[int] = set()
     for table in cons:
         bi, pi = _table_names(base_cons, table), _table_names(part_cons, table)
         if [base_cons[i] for i in bi] != [part_cons[i] for i in pi]:
             raise InputError([Problem(file, where, f"this option changes connection {table!r}")])
         eta[bi] = sub.eta_ab[pi]
+        rows.update(bi)
     power = a0.power.copy()
     idx = base.index()
     for e in base.excitations:
@@ -261,7 +278,76 @@ def _option_arrays(
             raise InputError(
                 [Problem(file, where, "options may not change a held (prescribed) level")]
             )
-    return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass)
+    return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass), rows
+
+
+def _shared_tables(
+    data: Mapping[str, Any],
+    surfaces: Sequence[Surface],
+    touched: Sequence[set[int]],
+    base: Model,
+    file: str,
+    base_dir: str | Path,
+) -> list[tuple[tuple[int, ...], npt.NDArray[np.int64], Array]]:
+    """Coupling loss factors of the connections that options of two or more surfaces
+    change (a line junction between two treated panels), for every combination of those
+    surfaces' options: ``(surfaces, rows, table (O_1, ..., O_t, rows, B))``.
+
+    Such a coupling depends on both ends together, so the product of the one-at-a-time
+    ratios is not its value; the table holds the value built by the reader from the
+    connection and the subsystems it names.
+    """
+    owners: dict[int, list[int]] = {}
+    for si, rows in enumerate(touched):
+        for r in rows:
+            owners.setdefault(r, []).append(si)
+    groups: dict[tuple[int, ...], list[int]] = {}
+    for r, ss in sorted(owners.items()):
+        if len(ss) > 1:
+            groups.setdefault(tuple(ss), []).append(r)
+    names = [c.name for c in base.connections]
+    out = []
+    for group, rows in groups.items():
+        tables = sorted({names[r].split("[")[0] for r in rows})
+        sizes = [len(surfaces[g].options) for g in group]
+        table = np.zeros((*sizes, len(rows), len(base.bands)))
+        for combo in itertools.product(*(range(n) for n in sizes)):
+            changes: dict[str, Any] = {}
+            for g, o in zip(group, combo, strict=True):
+                changes.update(surfaces[g].options[o].changes)
+            d = apply_changes(data, changes, file=file)
+            named: set[str] = set()
+            for t in tables:
+                named.update(_names_in(d["connections"][t]))
+            part = {k: v for k, v in d.items() if k not in ("connections", "excitations", "targets")}
+            # the subsystems the connections name; the others only need to exist (a trim
+            # names the cavity it faces), so a sink stands in for them
+            part["subsystems"] = {
+                n: (v if n in named else {"kind": "exterior"}) for n, v in d["subsystems"].items()
+            }
+            part["connections"] = {t: d["connections"][t] for t in tables}
+            try:
+                m = build(part, file=file, base_dir=base_dir)
+            except InputError:  # a subsystem needs another one: build them all
+                part["subsystems"] = d["subsystems"]
+                m = build(part, file=file, base_dir=base_dir)
+            got = {c.name: c.coupling_loss_factor for c in m.connections}
+            table[combo] = np.stack([got[names[r]] for r in rows])
+        out.append((group, np.asarray(rows, dtype=np.int64), table))
+    return out
+
+
+def _names_in(table: Mapping[str, Any]) -> list[str]:
+    """Every string a connection table holds (``between``, ``through`` ...): a connection
+    naming a changed subsystem anywhere is rebuilt (a non-resonant path through a treated
+    panel depends on that panel)."""
+    out: list[str] = []
+    for v in table.values():
+        if isinstance(v, str):
+            out.append(v)
+        elif isinstance(v, list):
+            out.extend(x for x in v if isinstance(x, str))
+    return out
 
 
 def _check(model: Model, ref: Model, where: str, file: str) -> None:
@@ -298,8 +384,8 @@ def lightest_treatment(
     cost_per_kg: float | None = None,
     alternatives: int = 3,
     exhaustive_limit: int = 20000,
-    allowance: float = 3.0,
-    method: Literal["auto", "exhaustive", "screened"] = "auto",
+    method: Literal["auto", "exhaustive", "bound"] = "auto",
+    max_nodes: int = 200_000,
     chunk: int = 2000,
     max_verify: int = 20,
     field: str = "diffuse",
@@ -326,12 +412,17 @@ def lightest_treatment(
     a0 = _arrays(base, r_idx)
     deltas: list[list[_Arrays]] = []
     obj: list[list[float]] = []
+    touched: list[set[int]] = []
     for s in surfaces:
+        touched.append(set())
         row, orow = [], []
         for o in s.options:
             where = f"surfaces.{s.name}.{o.name}"
             d = apply_changes(data, o.changes, file=file, where=f"{where}: ")
-            ao = _option_arrays(data, d, base, a0, r_idx, f"{file} ({where})", base_dir, where)
+            ao, rows = _option_arrays(
+                data, d, base, a0, r_idx, f"{file} ({where})", base_dir, where
+            )
+            touched[-1] |= rows
             row.append(
                 _Arrays(
                     ao.damping - a0.damping,
@@ -353,6 +444,11 @@ def lightest_treatment(
                 orow.append(ao.mass - a0.mass)
         deltas.append(row)
         obj.append(orow)
+    shared = _shared_tables(data, surfaces, touched, base, file, base_dir)
+    for _, rows_g, _ in shared:  # their values come from the tables, not from products
+        for row in deltas:
+            for dl in row:
+                dl.eta_ab[rows_g] = 0.0
     sizes = [len(s.options) for s in surfaces]
     total = int(np.prod(sizes))
     asm0 = assemble(base)
@@ -376,6 +472,8 @@ def lightest_treatment(
             off += np.stack([d.offsets for d in row])[ch]
         modal = a0.modal * np.exp(modal)
         eta = a0.eta_ab * np.exp(eta)
+        for group, rows_g, table in shared:
+            eta[:, rows_g] = table[tuple(combos[:, g] for g in group)]
         e = _batched_dense(base, damp, modal, eta, power, held, held_energy)
         with np.errstate(divide="ignore"):
             return 10.0 * np.log10(e[:, r_idx, :]) + off[:, :, None]
@@ -402,10 +500,11 @@ def lightest_treatment(
 
     use = method
     if use == "auto":
-        use = "exhaustive" if total <= exhaustive_limit else "screened"
+        use = "exhaustive" if total <= exhaustive_limit else "bound"
     feasible: list[tuple[float, float, int]] = []  # (objective, -margin, flat index)
     best = (-np.inf, -1)
     evaluated = 0
+    margin_bound = -np.inf  # above the best found only when a search stopped unproven
     bar = _progress(total, progress)
     try:
         if use == "exhaustive":
@@ -423,30 +522,41 @@ def lightest_treatment(
                     best = (float(small[kb]), int(flat[kb]))
             method_name = "exhaustive"
         else:
-            order, screened = _screen(
-                a0, deltas, exact, judge, sizes, obj_arr, allowance, chunk, len(r_idx)
+            floor = LevelFloor(
+                base,
+                (a0.damping, a0.modal, a0.eta_ab, a0.power, a0.offsets),
+                [
+                    tuple(np.stack([getattr(d, k) for d in row]) for k in _FIELDS)  # type: ignore[misc]
+                    for row in deltas
+                ],
+                r_idx,
+                shared,
             )
-            for pos in range(0, order.size, chunk):
-                flat = order[pos : pos + chunk]
-                combos = combos_of(flat)
-                met, small = judge(exact(combos))
-                evaluated += flat.size
-                bar.update(flat.size)
-                ob = objective_of(combos)
-                for k in np.flatnonzero(met):
-                    feasible.append((float(ob[k]), -float(small[k]), int(flat[k])))
-                kb = int(np.argmax(small))
-                if small[kb] > best[0]:
-                    best = (float(small[kb]), int(flat[kb]))
-                if len(feasible) > alternatives:
-                    # mass order: nothing later is lighter than what is found
-                    last = float(ob[-1]) if ob.size else np.inf
-                    feasible.sort()
-                    if feasible[alternatives][0] <= last:
-                        break
+
+            def exact_small(combos: npt.NDArray[np.int64]) -> Array:
+                return judge(exact(combos))[1]
+
+            def bound_small(combos: npt.NDArray[np.int64]) -> Array:
+                return judge(floor.levels(combos))[1]
+
+            order = _surface_order(sizes, exact_small)
+            got = lightest_search(
+                sizes, obj_arr, exact_small, bound_small, order, keep=alternatives + 1,
+                tick=bar.update,
+            )  # fmt: skip
+            if not got.found:
+                got = best_margin_search(
+                    sizes, exact_small, bound_small, order, max_nodes=max_nodes, tick=bar.update
+                )
+                margin_bound = got.margin_bound
+            evaluated = got.evaluated
+            for ob_v, neg_m, c in got.found:
+                feasible.append((ob_v, neg_m, int(np.ravel_multi_index(c, sizes))))
+            if got.best_combo is not None:
+                best = (got.best_margin, int(np.ravel_multi_index(got.best_combo, sizes)))
             method_name = (
-                f"mass order with screening (allowance {allowance:g} dB, "
-                f"{screened} of {total} combinations passed the screen)"
+                f"branch and bound ({got.bounded} partial combinations bounded, "
+                f"{evaluated} of {total} combinations solved)"
             )
     finally:
         bar.close()
@@ -513,39 +623,22 @@ def lightest_treatment(
         combinations=total,
         verification_db=ver,
         best_margin=float(best[0]) if not found else float(worst.margin),
+        margin_bound=float(worst.margin) if found else max(float(best[0]), margin_bound),
     )
 
 
-def _screen(
-    a0: _Arrays,
-    deltas: list[list[_Arrays]],
-    exact: Any,
-    judge: Any,
-    sizes: list[int],
-    obj_arr: list[Array],
-    allowance: float,
-    chunk: int,
-    n_rec: int,
-) -> tuple[npt.NDArray[np.int64], int]:
-    """Flat indices of the combinations passing the screen, in increasing objective."""
-    base_lv = exact(np.zeros((1, len(sizes)), dtype=np.int64))[0]  # (R, B)
-    # one-at-a-time level changes of each option (exact), (S, O_s, R, B)
-    one: list[Array] = []
+
+_FIELDS = ("damping", "modal", "eta_ab", "power", "offsets")
+
+
+def _surface_order(sizes: Sequence[int], exact_small: Any) -> list[int]:
+    """Surfaces in decreasing spread of the smallest margin over their options alone (one
+    at a time, the others at option 0): the strongest surfaces are fixed first, which
+    narrows the bound fastest. Any order gives the same answer."""
+    spread = []
     for si, n in enumerate(sizes):
         combos = np.zeros((n, len(sizes)), dtype=np.int64)
         combos[:, si] = np.arange(n)
-        one.append(exact(combos) - base_lv[None])
-    total = int(np.prod(sizes))
-    keep: list[npt.NDArray[np.int64]] = []
-    for start in range(0, total, chunk * 10):
-        flat = np.arange(start, min(total, start + chunk * 10), dtype=np.int64)
-        combos = np.stack(np.unravel_index(flat, sizes), axis=1)
-        lv = np.broadcast_to(base_lv, (flat.size, *base_lv.shape)).copy()
-        for si in range(len(sizes)):
-            lv += one[si][combos[:, si]]
-        _, small = judge(lv)
-        keep.append(flat[small >= -allowance])
-    passed = np.concatenate(keep) if keep else np.zeros(0, dtype=np.int64)
-    combos = np.stack(np.unravel_index(passed, sizes), axis=1)
-    ob = np.sum([obj_arr[s][combos[:, s]] for s in range(len(sizes))], axis=0)
-    return passed[np.argsort(ob, kind="stable")], int(passed.size)
+        small = exact_small(combos)
+        spread.append(float(np.ptp(small[np.isfinite(small)])) if np.isfinite(small).any() else 0.0)
+    return sorted(range(len(sizes)), key=lambda s: -spread[s])
