@@ -112,8 +112,10 @@ def main() -> None:
     t0 = time.perf_counter()
     none = lightest_treatment(hard, full, progress=None, **WHERE)
     t_none = time.perf_counter() - t0
-    print(f"infeasible target (untreated - 3 dB(A)): {t_none:.2f} s; found {none.found}; "
-          f"best achievable margin {none.best_margin:.3f} (bound {none.margin_bound:.3f})")
+    print(
+        f"infeasible target (untreated - 3 dB(A)): {t_none:.2f} s; found {none.found}; "
+        f"best achievable margin {none.best_margin:.3f} (bound {none.margin_bound:.3f})"
+    )
     print(f"  {none.method}")
     # plain alternative: every combination solved exactly. The reduced brute force includes
     # its 20 option builds, so this extrapolation is an upper bound; a full brute-force run

@@ -297,14 +297,7 @@ def _shared_tables(
     ratios is not its value; the table holds the value built by the reader from the
     connection and the subsystems it names.
     """
-    owners: dict[int, list[int]] = {}
-    for si, rows in enumerate(touched):
-        for r in rows:
-            owners.setdefault(r, []).append(si)
-    groups: dict[tuple[int, ...], list[int]] = {}
-    for r, ss in sorted(owners.items()):
-        if len(ss) > 1:
-            groups.setdefault(tuple(ss), []).append(r)
+    groups = _groups(touched)
     names = [c.name for c in base.connections]
     out = []
     for group, rows in groups.items():
@@ -319,7 +312,9 @@ def _shared_tables(
             named: set[str] = set()
             for t in tables:
                 named.update(_names_in(d["connections"][t]))
-            part = {k: v for k, v in d.items() if k not in ("connections", "excitations", "targets")}
+            part = {
+                k: v for k, v in d.items() if k not in ("connections", "excitations", "targets")
+            }
             # the subsystems the connections name; the others only need to exist (a trim
             # names the cavity it faces), so a sink stands in for them
             part["subsystems"] = {
@@ -335,6 +330,81 @@ def _shared_tables(
             table[combo] = np.stack([got[names[r]] for r in rows])
         out.append((group, np.asarray(rows, dtype=np.int64), table))
     return out
+
+
+def _groups(touched: Sequence[set[int]]) -> dict[tuple[int, ...], list[int]]:
+    """Rows touched by two or more surfaces, grouped by the surfaces touching them."""
+    owners: dict[int, list[int]] = {}
+    for si, rows in enumerate(touched):
+        for r in rows:
+            owners.setdefault(int(r), []).append(si)
+    groups: dict[tuple[int, ...], list[int]] = {}
+    for r, ss in sorted(owners.items()):
+        if len(ss) > 1:
+            groups.setdefault(tuple(ss), []).append(r)
+    return groups
+
+
+def _shared_damping(
+    data: Mapping[str, Any],
+    surfaces: Sequence[Surface],
+    touched: Sequence[set[int]],
+    base: Model,
+    file: str,
+    base_dir: str | Path,
+) -> list[tuple[tuple[int, ...], npt.NDArray[np.int64], Array]]:
+    """Damping of the subsystems whose damping options of two or more surfaces change (a
+    cavity lined by trims of several panels: Eyring's absorption does not add), for every
+    combination of those surfaces' options (as :func:`_shared_tables`)."""
+    out = []
+    for group, rows in _groups(touched).items():
+        names = [base.subsystems[r].name for r in rows]
+        comps = {base.subsystems[r].component or base.subsystems[r].name for r in rows}
+        if all(_additive(data, c) for c in comps):
+            continue  # absorption areas add: the sum of the changes is exact
+        sizes = [len(surfaces[g].options) for g in group]
+        table = np.zeros((*sizes, len(rows), len(base.bands)))
+        for combo in itertools.product(*(range(n) for n in sizes)):
+            changes: dict[str, Any] = {}
+            for g, o in zip(group, combo, strict=True):
+                changes.update(surfaces[g].options[o].changes)
+            d = apply_changes(data, changes, file=file)
+            subs = d["subsystems"]
+
+            part = {
+                k: v for k, v in d.items() if k not in ("connections", "excitations", "targets")
+            }
+            part["subsystems"] = {
+                n: (v if _keeps(n, v, comps) else {"kind": "exterior"}) for n, v in subs.items()
+            }
+            try:
+                m = build(part, file=file, base_dir=base_dir)
+            except InputError:  # a subsystem needs another one: build them all
+                part["subsystems"] = subs
+                m = build(part, file=file, base_dir=base_dir)
+            got = {x.name: x.damping for x in m.subsystems}
+            table[combo] = np.stack([got[n] for n in names])
+        out.append((group, np.asarray(rows, dtype=np.int64), table))
+    return out
+
+
+def _additive(data: Mapping[str, Any], name: str) -> bool:
+    """True when lining changes add in the damping of cavity ``name``: any damping but a
+    ``surfaces`` form combined by Eyring (``method`` 'eyring' or 'auto')."""
+    t = (data.get("subsystems", {}) or {}).get(name)
+    d = t.get("damping") if isinstance(t, dict) else None
+    if isinstance(d, dict) and "surfaces" in d:
+        return d.get("method", "auto") == "sabine"
+    return True
+
+
+def _keeps(name: str, table: Any, comps: set[str]) -> bool:
+    """A subsystem the damping of ``comps`` depends on: itself, or a panel whose trim faces
+    one of them."""
+    if name in comps:
+        return True
+    t = table.get("treatment") if isinstance(table, dict) else None
+    return isinstance(t, dict) and bool({t.get("facing"), t.get("face")} & comps)
 
 
 def _names_in(table: Mapping[str, Any]) -> list[str]:
@@ -445,10 +515,23 @@ def lightest_treatment(
         deltas.append(row)
         obj.append(orow)
     shared = _shared_tables(data, surfaces, touched, base, file, base_dir)
-    for _, rows_g, _ in shared:  # their values come from the tables, not from products
+    damped = [
+        {
+            int(i)
+            for i in np.flatnonzero(np.any([np.any(dl.damping != 0, axis=1) for dl in row], axis=0))
+        }
+        for row in deltas
+    ]
+    shared_d = _shared_damping(data, surfaces, damped, base, file, base_dir)
+    # their values come from the tables, not from sums or products
+    for _, rows_g, _ in shared:
         for row in deltas:
             for dl in row:
                 dl.eta_ab[rows_g] = 0.0
+    for _, rows_g, _ in shared_d:
+        for row in deltas:
+            for dl in row:
+                dl.damping[rows_g] = 0.0
     sizes = [len(s.options) for s in surfaces]
     total = int(np.prod(sizes))
     asm0 = assemble(base)
@@ -474,6 +557,8 @@ def lightest_treatment(
         eta = a0.eta_ab * np.exp(eta)
         for group, rows_g, table in shared:
             eta[:, rows_g] = table[tuple(combos[:, g] for g in group)]
+        for group, rows_g, table in shared_d:
+            damp[:, rows_g] = table[tuple(combos[:, g] for g in group)]
         e = _batched_dense(base, damp, modal, eta, power, held, held_energy)
         with np.errstate(divide="ignore"):
             return 10.0 * np.log10(e[:, r_idx, :]) + off[:, :, None]
@@ -530,7 +615,7 @@ def lightest_treatment(
                     for row in deltas
                 ],
                 r_idx,
-                shared,
+                [("eta", *g) for g in shared] + [("damping", *g) for g in shared_d],
             )
 
             def exact_small(combos: npt.NDArray[np.int64]) -> Array:
@@ -625,7 +710,6 @@ def lightest_treatment(
         best_margin=float(best[0]) if not found else float(worst.margin),
         margin_bound=float(worst.margin) if found else max(float(best[0]), margin_bound),
     )
-
 
 
 _FIELDS = ("damping", "modal", "eta_ab", "power", "offsets")

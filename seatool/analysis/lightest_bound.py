@@ -52,6 +52,7 @@ import heapq
 import itertools
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 import numpy.typing as npt
@@ -99,7 +100,7 @@ class LevelFloor:
         base: tuple[Array, Array, Array, Array, Array],
         deltas: Sequence[tuple[Array, Array, Array, Array, Array]],
         receivers: Sequence[int],
-        shared: Sequence[tuple[tuple[int, ...], Ints, Array]] = (),
+        shared: Sequence[tuple[str, tuple[int, ...], Ints, Array]] = (),
     ) -> None:
         asm = assemble(model)
         a, b = asm.a, asm.b
@@ -115,9 +116,12 @@ class LevelFloor:
             moved_n |= np.any(d[0] != 0, axis=(0, 2)) | np.any(d[1] != 0, axis=(0, 2))
             moved_n |= np.any(d[3] != 0, axis=(0, 2))
             moved_c |= np.any(d[2] != 0, axis=(0, 2))
+        for what, _, rows, _ in shared:
+            if what == "eta":
+                moved_c[rows] = True
+            else:
+                moved_n[rows] = True
         moved_c |= moved_n[a] | moved_n[b]
-        for _, rows, _ in shared:
-            moved_c[rows] = True
         self.act_n = np.flatnonzero(moved_n)
         self.act_c = np.flatnonzero(moved_c)
         an, ac = self.act_n, self.act_c
@@ -132,14 +136,19 @@ class LevelFloor:
         # shared couplings: least and largest table values for each pattern of fixed axes
         at = np.full(a.size, -1, dtype=np.int64)
         at[ac] = np.arange(ac.size)
-        self.shared = []
-        for group, rows, table in shared:
+        at_n = np.full(n, -1, dtype=np.int64)
+        at_n[an] = np.arange(an.size)
+        self.shared: list[tuple[str, tuple[int, ...], Ints, Array, dict[Any, Any]]] = []
+        for what, group, rows, table in shared:
             t = len(group)
             pats = {}
             for pat in itertools.product((True, False), repeat=t):
                 free_axes = tuple(i for i in range(t) if not pat[i])
                 pats[pat] = (table.min(axis=free_axes), table.max(axis=free_axes))
-            self.shared.append((group, at[rows], pats))
+            if what == "eta":
+                self.shared.append((what, group, at[rows], np.zeros(1), pats))
+            else:  # damping tables hold values; the sums hold changes from the base
+                self.shared.append((what, group, at_n[rows], d0[rows], pats))
         self.base_act = (d0[an], n0[an], e0[ac], p0[an], off0)
         # where the ends of the changed connections sit among the changed subsystems
         where = np.full(n, -1, dtype=np.int64)
@@ -164,26 +173,27 @@ class LevelFloor:
         np.add.at(diag, a, e0)
         np.add.at(diag, b, eba0)
         ff = (pos[a] >= 0) & (pos[b] >= 0)
-        m0 = np.zeros((nb, nf, nf))
-        m0[:, np.arange(nf), np.arange(nf)] = diag[free].T
-        np.add.at(m0, (slice(None), pos[a[ff]], pos[b[ff]]), -eba0[ff].T)
-        np.add.at(m0, (slice(None), pos[b[ff]], pos[a[ff]]), -e0[ff].T)
+        m0t = np.zeros((nf, nf, nb))  # band last for the scatter, then bands first
+        m0t[np.arange(nf), np.arange(nf)] = diag[free]
+        np.add.at(m0t, (pos[a[ff]], pos[b[ff]]), -eba0[ff])
+        np.add.at(m0t, (pos[b[ff]], pos[a[ff]]), -e0[ff])
         fa = (pos[a] >= 0) & held[b]
         fb = (pos[b] >= 0) & held[a]
-        rhs0 = (p0[free] / self.omega[None]).T.copy()  # (B, nf)
-        np.add.at(rhs0, (slice(None), pos[a[fa]]), (eba0[fa] * he[b[fa]]).T)
-        np.add.at(rhs0, (slice(None), pos[b[fb]]), (e0[fb] * he[a[fb]]).T)
-        self.m0, self.rhs0 = m0, rhs0
+        rhs0t = p0[free] / self.omega[None]  # (nf, B)
+        np.add.at(rhs0t, pos[a[fa]], eba0[fa] * he[b[fa]])
+        np.add.at(rhs0t, pos[b[fb]], e0[fb] * he[a[fb]])
+        self.m0 = np.ascontiguousarray(m0t.transpose(2, 0, 1))
+        self.rhs0 = np.ascontiguousarray(rhs0t.T)
         # scatter of the changes: items [damping an | eta_hi ac | eba_hi ac | eba_lo ac |
         # eta_lo ac] into matrix slots, [power an | eba_lo ac | eta_lo ac] into the rhs
         na, nc = an.size, ac.size
         pa, pb = pos[a[ac]], pos[b[ac]]
-        rows: list[Ints] = []
+        slots: list[Ints] = []
         cols: list[Ints] = []
         vals: list[Array] = []
 
         def put(slot: Ints, item: Ints, sign: float, ok: npt.NDArray[np.bool_]) -> None:
-            rows.append(slot[ok])
+            slots.append(slot[ok])
             cols.append(item[ok])
             vals.append(np.full(int(ok.sum()), sign))
 
@@ -194,7 +204,7 @@ class LevelFloor:
         both = (pa >= 0) & (pb >= 0)
         put(pa * nf + pb, na + 2 * nc + np.arange(nc), -1.0, both)
         put(pb * nf + pa, na + 3 * nc + np.arange(nc), -1.0, both)
-        r, c, v = np.concatenate(rows), np.concatenate(cols), np.concatenate(vals)
+        r, c, v = np.concatenate(slots), np.concatenate(cols), np.concatenate(vals)
         self.slots, inv = np.unique(r, return_inverse=True)
         self.scatter = sp.csr_matrix((v, (inv, c)), shape=(self.slots.size, na + 4 * nc))
         rr = [pn[pn >= 0], pa[(pa >= 0) & (pb < 0)], pb[(pb >= 0) & (pa < 0)]]
@@ -240,14 +250,18 @@ class LevelFloor:
             n_lo = np.concatenate([lo[1], zero], axis=1)
             n_hi = np.concatenate([hi[1], zero], axis=1)
             r = self.ratio_act[None]
-            for group, cols, pats in self.shared:
+            for what, group, cols, ref, pats in self.shared:
                 fixed = combos[:, list(group)] >= 0
                 for pat, (tmin, tmax) in pats.items():
                     sel = np.flatnonzero(np.all(fixed == np.array(pat), axis=1))
                     if sel.size:
                         ix = tuple(combos[sel, g] for g, p in zip(group, pat, strict=True) if p)
-                        eta_lo[np.ix_(sel, cols)] = tmin[ix] if ix else tmin[None]
-                        eta_hi[np.ix_(sel, cols)] = tmax[ix] if ix else tmax[None]
+                        lo_v, hi_v = (tmin[ix], tmax[ix]) if ix else (tmin[None], tmax[None])
+                        if what == "eta":
+                            eta_lo[np.ix_(sel, cols)] = lo_v
+                            eta_hi[np.ix_(sel, cols)] = hi_v
+                        else:
+                            hi[0][np.ix_(sel, cols)] = hi_v - ref
             eba_lo = eta_lo * r * np.exp(n_lo[:, self.wa] - n_hi[:, self.wb])
             eba_hi = eta_hi * r * np.exp(n_hi[:, self.wa] - n_lo[:, self.wb])
         damp = np.where(self.sink_act[None, :, None], 0.0, hi[0])
@@ -321,7 +335,7 @@ def lightest_search(
     out = Search([], -np.inf, None, 0, 0)
     while heap:
         thr = sorted(f[0] for f in out.found)[keep - 1] if len(out.found) >= keep else np.inf
-        nodes = []
+        nodes: list[tuple[float, int, int, float, tuple[int, ...]]] = []
         while heap and len(nodes) < batch:
             item = heapq.heappop(heap)
             if item[0] > thr:
@@ -403,7 +417,7 @@ def best_margin_search(
     counter = itertools.count()
     heap: list[tuple[float, int, int, tuple[int, ...]]] = [(-root_ub, 0, 0, tuple([-1] * ns))]
     while heap and out.bounded < max_nodes:
-        nodes = []
+        nodes: list[tuple[float, int, int, tuple[int, ...]]] = []
         while heap and len(nodes) < batch:
             item = heapq.heappop(heap)
             if -item[0] <= out.best_margin + TOL_DB:
