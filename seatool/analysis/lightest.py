@@ -243,7 +243,7 @@ def _option_arrays(
                 out[name] = t
         return out
 
-    cons = touched("connections", _names_in)
+    cons = touched("connections", _subsystem_refs)
     exs = touched("excitations", lambda t: [t.get("subsystem")])
     part = {k: v for k, v in changed.items() if k not in ("connections", "excitations", "targets")}
     part["connections"] = cons
@@ -311,7 +311,7 @@ def _shared_tables(
             d = apply_changes(data, changes, file=file)
             named: set[str] = set()
             for t in tables:
-                named.update(_names_in(d["connections"][t]))
+                named.update(_subsystem_refs(d["connections"][t]))
             part = {
                 k: v for k, v in d.items() if k not in ("connections", "excitations", "targets")
             }
@@ -407,10 +407,10 @@ def _keeps(name: str, table: Any, comps: set[str]) -> bool:
     return isinstance(t, dict) and bool({t.get("facing"), t.get("face")} & comps)
 
 
-def _names_in(table: Mapping[str, Any]) -> list[str]:
-    """Every string a connection table holds (``between``, ``through`` ...): a connection
-    naming a changed subsystem anywhere is rebuilt (a non-resonant path through a treated
-    panel depends on that panel)."""
+def _subsystem_refs(table: Mapping[str, Any]) -> list[str]:
+    """Every string a connection table holds (``between``, ``through``, ...): a connection
+    depends on each subsystem it names, not only on its two ends (a non-resonant path
+    depends on the panel it passes through)."""
     out: list[str] = []
     for v in table.values():
         if isinstance(v, str):

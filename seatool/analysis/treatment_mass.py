@@ -20,6 +20,10 @@ __all__ = ["TreatedSurface", "added_mass_table", "total_added_mass", "treated_su
 #: Trim layer kinds that are impervious masses (the "m2" of the mass-spring system).
 _MASS_KINDS = ("heavy_layer", "viscoelastic")
 
+#: In-plane wave fields of a plate share its treatment with its bending field; the
+#: treatment's mass is counted once, on the bending field.
+_IN_PLANE = ("longitudinal", "shear")
+
 
 @dataclass(frozen=True)
 class TreatedSurface:
@@ -78,9 +82,11 @@ def trim_resonance(treatment: Any, *, gamma: float = 1.4) -> float | None:
 
 
 def treated_surfaces(model: Model) -> list[TreatedSurface]:
-    """Every treated plate of ``model`` with its added masses [kg] and trim resonance, then
-    every lined cavity surface (``CavityProps.linings``) whose mass is not already counted
-    on a panel (a trim declared on the panel and listed again in the cavity's surfaces)."""
+    """Every treated plate of ``model`` with its added masses [kg] and trim resonance
+    (once per plate: its in-plane wave fields, which share the treatment, are skipped),
+    and every lined cavity surface (``CavityProps.linings``) whose mass is not already
+    counted on a panel (a trim declared on the panel and listed again in the cavity's
+    surfaces)."""
     out = []
     for s in model.subsystems:
         for lin in getattr(s.props, "linings", ()) or ():
@@ -97,7 +103,7 @@ def treated_surfaces(model: Model) -> list[TreatedSurface]:
                     )
                 )
         t = _treatment(s)
-        if t is None:
+        if t is None or getattr(s.props, "wave_type", None) in _IN_PLANE:
             continue
         area = float(getattr(s.props, "area", 0.0) or 0.0)
         out.append(
