@@ -82,8 +82,11 @@ def test_a_plate_with_in_plane_wave_fields_counts_its_treatment_once():
     data = apply_changes(DATA, {"subsystems.floor.wave_fields": ["bending", "longitudinal", "shear"]})
     model = build(data, file=FILE, base_dir=FOLDER)
     assert len(model.subsystems) == len(build(DATA, file=FILE, base_dir=FOLDER).subsystems) + 2
-    assert list(added_mass_table(model)["subsystem"]) == ["floor"]
-    assert total_added_mass(model) == pytest.approx((SHEET + FOAM + HEAVY5) * AREA, rel=1e-3)
+    # one row for the floor (not one per wave field), one for the cabin's headliner lining
+    assert list(added_mass_table(model)["subsystem"]) == ["floor", "cabin"]
+    assert total_added_mass(model) == pytest.approx(
+        (SHEET + FOAM + HEAVY5) * AREA + BLANKET * HEADLINER, rel=1e-3
+    )
 
 
 def test_a_trim_that_raises_bands_is_flagged_with_its_resonance():
