@@ -277,11 +277,13 @@ class LevelFloor:
         )
         nf = self.nf
         energy = np.zeros((k, self.held.size, nb))
+        items_b = np.ascontiguousarray(items.transpose(2, 1, 0))  # (B, items, K)
+        rhs_b = np.ascontiguousarray(rhs_items.transpose(2, 1, 0))
         with threadpool_limits(limits=1, user_api="blas"):
             for j in range(nb):
                 mats = np.broadcast_to(self.m0[j].reshape(1, nf * nf), (k, nf * nf)).copy()
-                mats[:, self.slots] += (self.scatter @ items[:, :, j].T).T
-                rhs = self.rhs0[j][None] + (self.rhs_scatter @ rhs_items[:, :, j].T).T
+                mats[:, self.slots] += (self.scatter @ items_b[j]).T
+                rhs = self.rhs0[j][None] + (self.rhs_scatter @ rhs_b[j]).T
                 x = np.linalg.solve(mats.reshape(k, nf, nf), rhs[:, :, None])[:, :, 0]
                 energy[:, self.free, j] = np.maximum(x, 0.0)
         energy[:, self.held, :] = self.he[self.held][None]
