@@ -153,6 +153,7 @@ def apply_facing(rd: Reader, subs: dict[str, Subsystem]) -> dict[str, Subsystem]
                 }
                 got = read_damping(scratch, table, path, ctx)
                 if got is None:
+                    rd.problems.extend(scratch.problems)
                     continue
                 eta = got
             else:
