@@ -101,6 +101,7 @@ def apply_facing(rd: Reader, subs: dict[str, Subsystem]) -> dict[str, Subsystem]
         path = f"subsystems.{cname}.damping"
         listed = _surfaces(raw_damp) or []
         linings: list[Lining] = []
+        twice = False
         scratch = _scratch(rd)
         for i, entry in enumerate(listed):
             if not isinstance(entry, Mapping) or "lining" not in entry:
@@ -117,6 +118,7 @@ def apply_facing(rd: Reader, subs: dict[str, Subsystem]) -> dict[str, Subsystem]
                 if not same:
                     continue
                 if t.absorbs:
+                    twice = True
                     rd.error(
                         join(path, f"surfaces[{i}]"),
                         f"declared twice: the treatment of {panel!r} (facing = {cname!r}) "
@@ -136,6 +138,8 @@ def apply_facing(rd: Reader, subs: dict[str, Subsystem]) -> dict[str, Subsystem]
         facing = [(p, t, a) for p, t, a in trims.get(cname, []) if t.absorbs]
         eta = cav.damping
         prov = dict(cav.provenance)
+        if facing and twice:
+            continue  # reported; the area check of the surfaces would only repeat it
         if facing:
             rho, c = float(cav.props.fluid.density), float(cav.props.fluid.sound_speed)
             if listed:
