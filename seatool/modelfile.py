@@ -25,6 +25,7 @@ from . import progress
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
 from .kinds.excitations import NONRESONANT_SUFFIX, diffuse_nonresonant
+from .kinds.facing import apply_facing
 from .kinds.media import FLUID_PARAMS
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
@@ -509,6 +510,8 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     rd.declared = dict(raw_subs) if isinstance(raw_subs, dict) else {}
     declared = dict.fromkeys(rd.declared)
     subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
+    if rd.bands is not None:
+        subs = apply_facing(rd, subs)  # facing trims line their cavities
     cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
     exs = _read_excitations(
         rd,

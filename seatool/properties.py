@@ -28,6 +28,7 @@ __all__ = [
     "FluidProps",
     "MaterialProps",
     "PanelProps",
+    "Lining",
     "Props",
     "ResonatorProps",
     "ShellProps",
@@ -73,6 +74,17 @@ class FluidProps:
     name: str = _q("", "fluid name")
     density: float = _q("kg/m^3", "density")
     sound_speed: float = _q("m/s", "speed of sound")
+
+
+@dataclass(frozen=True)
+class Lining:
+    """A lined part of a cavity's boundary (for the added mass of the treatments)."""
+
+    area: float = _q("m^2", "lined area")
+    mass_per_area: float = _q("kg/m^2", "mass per area of the lining's layers")
+    description: str = _q("", "what it is")
+    #: The treated panel whose trim this lining is; its mass is counted on that panel.
+    counted_on: str | None = _q("", "panel whose trim this is (mass counted there)", default=None)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -159,6 +171,7 @@ class CavityProps(WaveFieldProps):
     surface_area: float | None = _q("m^2", "boundary area (None if not given)", default=None)
     edge_length: float | None = _q("m", "total edge length (None if not given)", default=None)
     dimensions: tuple[float, float, float] | None = _q("m", "box sides, if given", default=None)
+    linings: tuple[Lining, ...] = _q("", "lined surfaces (damping surfaces, facing trims)", default=())
 
 
 @dataclass(frozen=True, kw_only=True)

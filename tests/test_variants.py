@@ -23,6 +23,8 @@ SHEET = 0.002 * 1700.0
 FOAM = 0.025 * 30.0
 HEAVY5 = 0.003 * 1667.0
 STEEL = 0.0012 * 7850.0
+BLANKET = 0.025 * 16.0  # glass_fibre_light 25 mm at 16 kg/m^3 (the cabin's headliner)
+HEADLINER = 2.9  # m^2 (models/treated_floor.toml)
 
 
 def _damped_only() -> dict:
@@ -67,7 +69,11 @@ def test_added_mass_per_treatment_and_in_total():
     t = added_mass_table(model).iloc[0]
     assert t["bonded_kg"] == pytest.approx(SHEET * AREA, rel=1e-9)
     assert t["trim_kg"] == pytest.approx((FOAM + HEAVY5) * AREA, rel=1e-3)
-    assert total_added_mass(model) == pytest.approx((SHEET + FOAM + HEAVY5) * AREA, rel=1e-3)
+    # The cabin's linings count too: the headliner; the floor trim listed again in the
+    # cabin's surfaces (the older double declaration) is the floor's trim, counted once.
+    assert total_added_mass(model) == pytest.approx(
+        (SHEET + FOAM + HEAVY5) * AREA + BLANKET * HEADLINER, rel=1e-3
+    )
 
 
 def test_a_plate_with_in_plane_wave_fields_counts_its_treatment_once():
@@ -76,8 +82,11 @@ def test_a_plate_with_in_plane_wave_fields_counts_its_treatment_once():
     data = apply_changes(DATA, {"subsystems.floor.wave_fields": ["bending", "longitudinal", "shear"]})
     model = build(data, file=FILE, base_dir=FOLDER)
     assert len(model.subsystems) == len(build(DATA, file=FILE, base_dir=FOLDER).subsystems) + 2
-    assert list(added_mass_table(model)["subsystem"]) == ["floor"]
-    assert total_added_mass(model) == pytest.approx((SHEET + FOAM + HEAVY5) * AREA, rel=1e-3)
+    # one row for the floor (not one per wave field), one for the cabin's headliner lining
+    assert list(added_mass_table(model)["subsystem"]) == ["floor", "cabin"]
+    assert total_added_mass(model) == pytest.approx(
+        (SHEET + FOAM + HEAVY5) * AREA + BLANKET * HEADLINER, rel=1e-3
+    )
 
 
 def test_a_trim_that_raises_bands_is_flagged_with_its_resonance():

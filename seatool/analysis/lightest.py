@@ -15,13 +15,14 @@ a table, or None for no treatment). The search:
    rebuilding and solving the chosen combination in full.
 2. Evaluates combinations exactly (batched dense solves of the power balance of every
    combination, all bands): every combination when there are at most
-   ``exhaustive_limit``; otherwise in increasing order of mass, skipping the combinations
-   whose *screened* margin (the base levels plus the sum of each option's exact one-at-a-
-   time level change, in dB) misses a target by more than ``allowance`` dB, until the
-   lightest combination meeting every target is found. The screening is a linearisation
-   (interactions between surfaces are neglected in it, never in the verdict): a combination
-   it skips could in principle meet the targets, so use a generous allowance; the
-   benchmark compares it with brute force.
+   ``exhaustive_limit``; otherwise by branch and bound
+   (:mod:`seatool.analysis.lightest_bound`): a node fixes some surfaces' options, and a
+   proven lower bound of the receivers' band levels over all its completions (interval
+   M-matrix bound: Berman & Plemmons 1994, ch. 6) drops the nodes that cannot meet every
+   target; best-first in the objective, so the first combination met is the lightest of
+   all. When nothing meets, a second branch and bound on the same bound finds the best
+   achievable smallest margin (proven, or bracketed after ``max_nodes`` bounded nodes)
+   instead of solving every combination. See docs/theory/lightest.md.
 
 The objective is the added mass of the plate treatments
 (:func:`seatool.analysis.treatment_mass.total_added_mass`) or, with ``objective='cost'``,
@@ -50,6 +51,8 @@ from ..results import Result
 from ..solve import assemble
 from ..solve import solve as core_solve
 from ._system import level_offset
+from .lightest_bound import LevelFloor, best_margin_search, lightest_search
+from .lightest_joint import JOINT_LIMIT, shared_damping, shared_tables, subsystem_refs
 from .targets import margin_table, margins_of_levels, verdicts
 from .treatment_mass import total_added_mass
 from .uncertainty import _batched_dense
@@ -135,7 +138,7 @@ class Lightest:
         The next-best combinations meeting every target (one column per surface,
         ``objective, mass_kg, smallest_margin``), lightest first.
     method : str
-        'exhaustive' or 'mass order with screening'.
+        'exhaustive' or 'branch and bound (...)' with its counts.
     evaluated : int
         Combinations solved exactly.
     combinations : int
@@ -144,6 +147,10 @@ class Lightest:
         Largest difference between the combined levels and the full rebuild [dB].
     best_margin : float
         The best smallest margin found (the best achievable when nothing meets the targets).
+    margin_bound : float
+        Proven upper bound of the best achievable smallest margin when nothing meets the
+        targets (equal to ``best_margin`` when the search proved it); ``best_margin``
+        otherwise.
     """
 
     found: bool
@@ -159,6 +166,7 @@ class Lightest:
     combinations: int
     verification_db: float
     best_margin: float
+    margin_bound: float
 
     def summary(self) -> str:
         """Plain-text answer: the choice, its mass, the binding limit, or why none."""
@@ -168,6 +176,11 @@ class Lightest:
             if self.found
             else "no combination of the candidates meets every target; the best achievable "
             f"smallest margin is {self.best_margin:.1f} with {picks}"
+            + (
+                ""
+                if self.margin_bound <= self.best_margin + 0.05
+                else f" (search stopped: no combination can exceed {self.margin_bound:.1f})"
+            )
         )
         lines = [
             head,
@@ -201,8 +214,9 @@ def _option_arrays(
     file: str,
     base_dir: str | Path,
     where: str,
-) -> _Arrays:
-    """The arrays of the base model with one option applied.
+) -> tuple[_Arrays, set[int]]:
+    """The arrays of the base model with one option applied, and the connection rows it
+    rebuilt.
 
     Only the connections and excitations that touch a changed subsystem (or changed
     themselves) are rebuilt; coupling loss factors and input powers depend only on the
@@ -214,7 +228,8 @@ def _option_arrays(
     if any(data.get(k) != changed.get(k) for k in others):
         m = build(changed, file=file, base_dir=base_dir)
         _check(m, base, where, file)
-        return _arrays(m, r_idx)
+        got = _arrays(m, r_idx)
+        return got, set(np.flatnonzero(np.any(got.eta_ab != a0.eta_ab, axis=1)).tolist())
     subs_old = data.get("subsystems", {}) or {}
     subs_new = changed.get("subsystems", {}) or {}
     moved = {n for n in set(subs_old) | set(subs_new) if subs_old.get(n) != subs_new.get(n)}
@@ -229,7 +244,7 @@ def _option_arrays(
                 out[name] = t
         return out
 
-    cons = touched("connections", _subsystem_refs)
+    cons = touched("connections", subsystem_refs)
     exs = touched("excitations", lambda t: [t.get("subsystem")])
     part = {k: v for k, v in changed.items() if k not in ("connections", "excitations", "targets")}
     part["connections"] = cons
@@ -244,11 +259,13 @@ def _option_arrays(
     eta = a0.eta_ab.copy()
     base_cons = [c.name for c in base.connections]
     part_cons = [c.name for c in m.connections]
+    rows: set[int] = set()
     for table in cons:
         bi, pi = _table_names(base_cons, table), _table_names(part_cons, table)
         if [base_cons[i] for i in bi] != [part_cons[i] for i in pi]:
             raise InputError([Problem(file, where, f"this option changes connection {table!r}")])
         eta[bi] = sub.eta_ab[pi]
+        rows.update(bi)
     power = a0.power.copy()
     idx = base.index()
     for e in base.excitations:
@@ -264,20 +281,7 @@ def _option_arrays(
             raise InputError(
                 [Problem(file, where, "options may not change a held (prescribed) level")]
             )
-    return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass)
-
-
-def _subsystem_refs(table: Mapping[str, Any]) -> list[str]:
-    """Every string a connection table holds (``between``, ``through``, ...): a connection
-    depends on each subsystem it names, not only on its two ends (a non-resonant path
-    depends on the panel it passes through)."""
-    out: list[str] = []
-    for v in table.values():
-        if isinstance(v, str):
-            out.append(v)
-        elif isinstance(v, list):
-            out.extend(x for x in v if isinstance(x, str))
-    return out
+    return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass), rows
 
 
 def _check(model: Model, ref: Model, where: str, file: str) -> None:
@@ -314,8 +318,8 @@ def lightest_treatment(
     cost_per_kg: float | None = None,
     alternatives: int = 3,
     exhaustive_limit: int = 20000,
-    allowance: float = 3.0,
-    method: Literal["auto", "exhaustive", "screened"] = "auto",
+    method: Literal["auto", "exhaustive", "bound"] = "auto",
+    max_nodes: int = 200_000,
     chunk: int = 2000,
     max_verify: int = 20,
     field: str = "diffuse",
@@ -342,12 +346,17 @@ def lightest_treatment(
     a0 = _arrays(base, r_idx)
     deltas: list[list[_Arrays]] = []
     obj: list[list[float]] = []
+    touched: list[set[int]] = []
     for s in surfaces:
+        touched.append(set())
         row, orow = [], []
         for o in s.options:
             where = f"surfaces.{s.name}.{o.name}"
             d = apply_changes(data, o.changes, file=file, where=f"{where}: ")
-            ao = _option_arrays(data, d, base, a0, r_idx, f"{file} ({where})", base_dir, where)
+            ao, rows = _option_arrays(
+                data, d, base, a0, r_idx, f"{file} ({where})", base_dir, where
+            )
+            touched[-1] |= rows
             row.append(
                 _Arrays(
                     ao.damping - a0.damping,
@@ -369,6 +378,25 @@ def lightest_treatment(
                 orow.append(ao.mass - a0.mass)
         deltas.append(row)
         obj.append(orow)
+    shared = shared_tables(data, surfaces, touched, base, file, base_dir)
+    damped = [
+        {
+            int(i)
+            for i in np.flatnonzero(np.any([np.any(dl.damping != 0, axis=1) for dl in row], axis=0))
+        }
+        for row in deltas
+    ]
+    approx: list[str] = []
+    shared_d = shared_damping(data, surfaces, damped, base, file, base_dir, approx)
+    # their values come from the tables, not from sums or products
+    for _, rows_g, _ in shared:
+        for row in deltas:
+            for dl in row:
+                dl.eta_ab[rows_g] = 0.0
+    for _, rows_g, _ in shared_d:
+        for row in deltas:
+            for dl in row:
+                dl.damping[rows_g] = 0.0
     sizes = [len(s.options) for s in surfaces]
     total = int(np.prod(sizes))
     asm0 = assemble(base)
@@ -392,6 +420,10 @@ def lightest_treatment(
             off += np.stack([d.offsets for d in row])[ch]
         modal = a0.modal * np.exp(modal)
         eta = a0.eta_ab * np.exp(eta)
+        for group, rows_g, table in shared:
+            eta[:, rows_g] = table[tuple(combos[:, g] for g in group)]
+        for group, rows_g, table in shared_d:
+            damp[:, rows_g] = table[tuple(combos[:, g] for g in group)]
         e = _batched_dense(base, damp, modal, eta, power, held, held_energy)
         with np.errstate(divide="ignore"):
             return 10.0 * np.log10(e[:, r_idx, :]) + off[:, :, None]
@@ -418,10 +450,11 @@ def lightest_treatment(
 
     use = method
     if use == "auto":
-        use = "exhaustive" if total <= exhaustive_limit else "screened"
+        use = "exhaustive" if total <= exhaustive_limit else "bound"
     feasible: list[tuple[float, float, int]] = []  # (objective, -margin, flat index)
     best = (-np.inf, -1)
     evaluated = 0
+    margin_bound = -np.inf  # above the best found only when a search stopped unproven
     bar = _progress(total, progress)
     try:
         if use == "exhaustive":
@@ -439,30 +472,41 @@ def lightest_treatment(
                     best = (float(small[kb]), int(flat[kb]))
             method_name = "exhaustive"
         else:
-            order, screened = _screen(
-                a0, deltas, exact, judge, sizes, obj_arr, allowance, chunk, len(r_idx)
+            floor = LevelFloor(
+                base,
+                (a0.damping, a0.modal, a0.eta_ab, a0.power, a0.offsets),
+                [
+                    tuple(np.stack([getattr(d, k) for d in row]) for k in _FIELDS)  # type: ignore[misc]
+                    for row in deltas
+                ],
+                r_idx,
+                [("eta", *g) for g in shared] + [("damping", *g) for g in shared_d],
             )
-            for pos in range(0, order.size, chunk):
-                flat = order[pos : pos + chunk]
-                combos = combos_of(flat)
-                met, small = judge(exact(combos))
-                evaluated += flat.size
-                bar.update(flat.size)
-                ob = objective_of(combos)
-                for k in np.flatnonzero(met):
-                    feasible.append((float(ob[k]), -float(small[k]), int(flat[k])))
-                kb = int(np.argmax(small))
-                if small[kb] > best[0]:
-                    best = (float(small[kb]), int(flat[kb]))
-                if len(feasible) > alternatives:
-                    # mass order: nothing later is lighter than what is found
-                    last = float(ob[-1]) if ob.size else np.inf
-                    feasible.sort()
-                    if feasible[alternatives][0] <= last:
-                        break
+
+            def exact_small(combos: npt.NDArray[np.int64]) -> Array:
+                return judge(exact(combos))[1]
+
+            def bound_small(combos: npt.NDArray[np.int64]) -> Array:
+                return judge(floor.levels(combos))[1]
+
+            order = _surface_order(sizes, exact_small)
+            got = lightest_search(
+                sizes, obj_arr, exact_small, bound_small, order, keep=alternatives + 1,
+                tick=bar.update,
+            )  # fmt: skip
+            if not got.found:
+                got = best_margin_search(
+                    sizes, exact_small, bound_small, order, max_nodes=max_nodes, tick=bar.update
+                )
+                margin_bound = got.margin_bound
+            evaluated = got.evaluated
+            for ob_v, neg_m, c in got.found:
+                feasible.append((ob_v, neg_m, int(np.ravel_multi_index(c, sizes))))
+            if got.best_combo is not None:
+                best = (got.best_margin, int(np.ravel_multi_index(got.best_combo, sizes)))
             method_name = (
-                f"mass order with screening (allowance {allowance:g} dB, "
-                f"{screened} of {total} combinations passed the screen)"
+                f"branch and bound ({got.bounded} partial combinations bounded, "
+                f"{evaluated} of {total} combinations solved)"
             )
     finally:
         bar.close()
@@ -497,6 +541,11 @@ def lightest_treatment(
     vs = verdicts(result, names, field=field)
     worst = min(vs, key=lambda v: v.margin)
     binding = f"{worst.target}: {worst.binding} (margin {worst.margin:.2f} {worst.unit})"
+    if approx:
+        method_name += (
+            f"; the damping of {', '.join(approx)} (Eyring, lined by more than "
+            f"{JOINT_LIMIT} combinations of options) was combined additively, then verified"
+        )
     if rejected:
         method_name += (
             f"; {rejected} lighter combination(s) met the targets only in the combined "
@@ -529,39 +578,21 @@ def lightest_treatment(
         combinations=total,
         verification_db=ver,
         best_margin=float(best[0]) if not found else float(worst.margin),
+        margin_bound=float(worst.margin) if found else max(float(best[0]), margin_bound),
     )
 
 
-def _screen(
-    a0: _Arrays,
-    deltas: list[list[_Arrays]],
-    exact: Any,
-    judge: Any,
-    sizes: list[int],
-    obj_arr: list[Array],
-    allowance: float,
-    chunk: int,
-    n_rec: int,
-) -> tuple[npt.NDArray[np.int64], int]:
-    """Flat indices of the combinations passing the screen, in increasing objective."""
-    base_lv = exact(np.zeros((1, len(sizes)), dtype=np.int64))[0]  # (R, B)
-    # one-at-a-time level changes of each option (exact), (S, O_s, R, B)
-    one: list[Array] = []
+_FIELDS = ("damping", "modal", "eta_ab", "power", "offsets")
+
+
+def _surface_order(sizes: Sequence[int], exact_small: Any) -> list[int]:
+    """Surfaces in decreasing spread of the smallest margin over their options alone (one
+    at a time, the others at option 0): the strongest surfaces are fixed first, which
+    narrows the bound fastest. Any order gives the same answer."""
+    spread = []
     for si, n in enumerate(sizes):
         combos = np.zeros((n, len(sizes)), dtype=np.int64)
         combos[:, si] = np.arange(n)
-        one.append(exact(combos) - base_lv[None])
-    total = int(np.prod(sizes))
-    keep: list[npt.NDArray[np.int64]] = []
-    for start in range(0, total, chunk * 10):
-        flat = np.arange(start, min(total, start + chunk * 10), dtype=np.int64)
-        combos = np.stack(np.unravel_index(flat, sizes), axis=1)
-        lv = np.broadcast_to(base_lv, (flat.size, *base_lv.shape)).copy()
-        for si in range(len(sizes)):
-            lv += one[si][combos[:, si]]
-        _, small = judge(lv)
-        keep.append(flat[small >= -allowance])
-    passed = np.concatenate(keep) if keep else np.zeros(0, dtype=np.int64)
-    combos = np.stack(np.unravel_index(passed, sizes), axis=1)
-    ob = np.sum([obj_arr[s][combos[:, s]] for s in range(len(sizes))], axis=0)
-    return passed[np.argsort(ob, kind="stable")], int(passed.size)
+        small = exact_small(combos)
+        spread.append(float(np.ptp(small[np.isfinite(small)])) if np.isfinite(small).any() else 0.0)
+    return sorted(range(len(sizes)), key=lambda s: -spread[s])

@@ -83,9 +83,25 @@ def trim_resonance(treatment: Any, *, gamma: float = 1.4) -> float | None:
 
 def treated_surfaces(model: Model) -> list[TreatedSurface]:
     """Every treated plate of ``model`` with its added masses [kg] and trim resonance
-    (once per plate: its in-plane wave fields, which share the treatment, are skipped)."""
+    (once per plate: its in-plane wave fields, which share the treatment, are skipped),
+    and every lined cavity surface (``CavityProps.linings``) whose mass is not already
+    counted on a panel (a trim declared on the panel and listed again in the cavity's
+    surfaces)."""
     out = []
     for s in model.subsystems:
+        for lin in getattr(s.props, "linings", ()) or ():
+            if lin.counted_on is None:
+                out.append(
+                    TreatedSurface(
+                        s.name,
+                        f"lining: {lin.description}",
+                        float(lin.area),
+                        0.0,
+                        float(lin.mass_per_area) * float(lin.area),
+                        s.name,
+                        None,
+                    )
+                )
         t = _treatment(s)
         if t is None or getattr(s.props, "wave_type", None) in _IN_PLANE:
             continue

@@ -93,12 +93,6 @@ def _lightest_args(p: argparse.ArgumentParser) -> None:
     p.add_argument(
         "--alternatives", type=int, default=3, help="next-best combinations to show (default 3)"
     )
-    p.add_argument(
-        "--allowance",
-        type=float,
-        default=3.0,
-        help="screening allowance [dB] of large searches (default 3)",
-    )
     p.add_argument("--csv", metavar="FILE", help="write the margins of the answer to FILE")
     p.add_argument("--plot", metavar="FILE", help="draw the answer's margin per band to FILE")
     p.add_argument(
@@ -111,8 +105,6 @@ def _lightest_args(p: argparse.ArgumentParser) -> None:
 def _cmd_lightest(args: argparse.Namespace) -> int:
     if args.alternatives < 0:
         raise InputError([Problem("", "--alternatives", "must be >= 0")])
-    if not args.allowance >= 0:
-        raise InputError([Problem("", "--allowance", "must be >= 0 dB")])
     out = _csv_target(args.csv, "--csv")
     fig = seatool.plot.plot_target(args.plot)
     data, file, folder, surfaces, settings = seatool.analysis.candidates.load_candidates(args.candidates)
@@ -122,7 +114,6 @@ def _cmd_lightest(args: argparse.Namespace) -> int:
         file=file,
         base_dir=folder,
         alternatives=args.alternatives,
-        allowance=args.allowance,
         **settings,
     )
     print(ans.summary())

@@ -1,10 +1,13 @@
 """Plate treatments: the ``treatment`` key of a flat panel or shell.
 
 ``treatment = { damping_layer = LAYER, constrained = false, cover = { material, thickness },
-trim = LAYERS, face = "cavity name", description = "..." }`` gives a
+trim = LAYERS, facing = "cavity name", description = "..." }`` gives a
 :class:`PlateTreatment`: the bonded added mass, the composite loss factor of a free or
 constrained damping layer (Oberst; Ross, Kerwin & Ungar) and the insertion loss of a trim
-build-up (transfer-matrix method, field incidence). Layers are read by
+build-up (transfer-matrix method, field incidence). With ``facing`` the trim also lines the
+cavity it faces: :mod:`seatool.kinds.facing` adds its absorption to that cavity (one
+declaration with all its effects). ``face`` (the older key) gives the insertion loss only;
+the cavity's absorption is then stated in its own ``surfaces`` list. Layers are read by
 :mod:`seatool.kinds.layers`.
 """
 
@@ -72,6 +75,9 @@ class PlateTreatment:
         :attr:`face` (transfer-matrix method, field incidence); None without a trim.
     face : str or None
         Name of the cavity subsystem the trimmed face looks into.
+    absorbs : bool
+        True when declared with ``facing``: the trim also adds its absorption (panel area
+        times its diffuse-field absorption coefficient) to the cavity :attr:`face`.
     description : str
         One line describing the treatment with its masses per area.
     bending_stiffness : ndarray or None
@@ -110,6 +116,7 @@ class PlateTreatment:
     trim_mass_per_area: float = 0.0
     bare_mass_per_area: float = 0.0
     notes: tuple[str, ...] = field(default=())
+    absorbs: bool = False
 
     @property
     def treated_mass_per_area(self) -> float:
@@ -331,15 +338,28 @@ def read_plate_treatment(
     il: Array | None = None
     trim: tuple[TrimLayer, ...] = ()
     face: str | None = None
+    absorbs = "facing" in t
+    if "face" in t and absorbs:
+        rd.error(
+            join(path, "facing"),
+            "give facing or face, not both (facing also adds the trim's absorption to the "
+            "cavity; face gives its insertion loss only)",
+        )
+        return None
+    fkey = "facing" if absorbs else "face"
     if "trim" in t:
         trim_layers = read_layers(rd, t["trim"], join(path, "trim"))
-        if "face" not in t:
-            rd.error(join(path, "face"), "missing: name the cavity subsystem the trim faces")
+        if fkey not in t:
+            rd.error(
+                join(path, "face"),
+                "missing: name the cavity subsystem the trim faces: facing = 'NAME' (its "
+                "insertion loss and absorption), or face = 'NAME' (insertion loss only)",
+            )
             ok = False
         else:
-            face = rd.string(t["face"], join(path, "face"))
+            face = rd.string(t[fkey], join(path, fkey))
             if face is not None and rd.declared and face not in rd.declared:
-                face = rd.name_ref(face, join(path, "face"), list(rd.declared), "subsystem")
+                face = rd.name_ref(face, join(path, fkey), list(rd.declared), "subsystem")
             ok = ok and face is not None
         if trim_layers is None or not ok:
             return None
@@ -383,10 +403,11 @@ def read_plate_treatment(
             rd.notes.append(f"{path}: {note}" if path else note)
         parts.append(
             f"trim {buildup_text(trim)} ({tmm.mass_per_area(tmm_layers(trim)):.3g} kg/m^2) "
-            f"facing {face!r}, {bridge_text}"
+            f"facing {face!r}" + (" (insertion loss and absorption)" if absorbs else "")
+            + f", {bridge_text}"
         )
-    elif "face" in t:
-        rd.error(join(path, "face"), "only with a trim")
+    elif fkey in t:
+        rd.error(join(path, fkey), "only with a trim")
         return None
     else:
         for key in ("fixings_per_area", "fixing_stiffness", "edge_stiffness", "edge_width"):
@@ -415,6 +436,7 @@ def read_plate_treatment(
         trim_mass_per_area=tmm.mass_per_area(tmm_layers(trim)) if trim else 0.0,
         bare_mass_per_area=float(m_bare) if m_bare is not None else 0.0,
         notes=tuple(notes),
+        absorbs=absorbs and face is not None,
     )
 
 
@@ -518,7 +540,8 @@ TREATMENT = Kind(
         Param("constrained", "flag", doc="a constrained layer", default_doc="true if a cover is given"),
         Param("cover", "table", doc="{ material, thickness [m] }: the constraining layer"),
         Param("trim", "layers", doc="trim layer(s) or build-up on one face, from the plate outwards"),
-        Param("face", "subsystem", doc="the cavity the trimmed face looks into (required with trim)"),
+        Param("facing", "subsystem", doc="the cavity the trimmed face looks into: the trim's insertion loss into it and its absorption (panel area x the trim's diffuse absorption coefficient) added to that cavity's damping"),
+        Param("face", "subsystem", doc="older form of facing: the insertion loss only (the cavity's absorption stated in its own surfaces list)"),
         Param("fixings_per_area", unit="1/m^2", doc="fixings of the trim per area, each a structure-borne bridge to its cover (0: none)", strict=False, default=DEFAULT_FIXINGS_PER_AREA),
         Param("fixing_stiffness", unit="N/m", doc="stiffness of one fixing (loss factor 0.1)", default_doc="rigid"),
         Param("edge_stiffness", unit="N/m^2", doc="stiffness per length of the trim's edges on the panel's perimeter (loss factor 0.1)", default_doc="edges not bridged"),
