@@ -63,8 +63,12 @@ def serial():
 
 
 def test_address_gives_the_serial_table(cluster, serial):
-    c, _ = cluster
-    s = sweep(tomllib.loads(ONE), SPEC, scheduler=c.scheduler_address, batch=3)
+    c, client = cluster
+    with distributed.get_task_stream(client) as ts:
+        s = sweep(tomllib.loads(ONE), SPEC, scheduler=c.scheduler_address, batch=3)
+    # the batches are spread over both workers (the model is copied to each first)
+    batches = [r for r in ts.data if not r["key"].endswith("-model")]
+    assert len(batches) == 6 and len({r["worker"] for r in batches}) == 2
     assert s.design.columns == ("subsystems.room.damping", "subsystems.room.dimensions:factor")
     np.testing.assert_array_equal(s.design.values, serial.design.values)
     np.testing.assert_allclose(s.levels, serial.levels, rtol=0, atol=1e-12)

@@ -2,8 +2,9 @@
 
 The work is cut into batches of consecutive samples (many evaluations per task). The
 model data and what to change (:class:`Job`) travel to each worker once: the job is the
-result of one task that every batch depends on (a worker fetches it once and keeps it;
-unlike scattered data, the scheduler can recompute it when the worker holding it is lost);
+result of one task that every batch depends on, copied to every worker before the batches
+are placed (each worker receives it once and keeps it; unlike scattered data, the
+scheduler can recompute it when a worker holding it is lost);
 each task carries only its block of sample values and returns its block of
 levels with its first sample number, so the table is put together by sample number: a
 task retried after a lost worker replaces nothing and adds nothing, and serial, local and
@@ -210,6 +211,9 @@ def _run_dask(
         # and keeps it while its batches run, and if the worker holding it is lost the
         # scheduler recomputes it from the task instead of failing the run.
         shared = client.submit(_shared, job, key=f"sweep-{token}-model", pure=False)
+        # A copy on every worker before the batches are placed: the scheduler puts a task
+        # where its inputs are, so with one copy every batch would queue on one worker.
+        client.replicate([shared])
         futures = [
             client.submit(
                 _task, shared, a, values[a:b], key=f"sweep-{token}-{a}", retries=3, pure=False
