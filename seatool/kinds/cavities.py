@@ -26,7 +26,11 @@ __all__ = ["CAVITY", "DUCT", "RENAMED"]
 #: Kind names that were renamed: old -> new.
 RENAMED = {"acoustic_cavity": "cavity"}
 
-_DIM = Param("dimensions", unit="m", bounds=LENGTH_BOUNDS)
+_DIM = Param(
+    "dimensions", unit="m", bounds=LENGTH_BOUNDS, typical=(1e-2, 100.0),
+    why="a cabin, room or enclosure side over 100 m (or under 1 cm) is more likely a length "
+    "typed in millimetres; the volume, modal density and levels follow from it",
+)  # fmt: skip
 _FLUID = Param("fluid", "fluid", doc="the fluid it holds", default_doc="air")
 _MODAL = Param("modal_density", "spectrum", "modes/Hz", "given values replace the derived ones")
 _DAMPING = Param("damping", "damping", doc="internal damping loss factor (>= 0)", required=True)
