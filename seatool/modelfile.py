@@ -207,7 +207,11 @@ def _kind_of(
     if "kind" not in s:
         if default is not None:
             return kinds[default]
-        rd.error(f"{path}.kind", "missing required key (one of: " + ", ".join(kinds) + ")")
+        misspelt = [k for k in s if isinstance(k, str) and closest(k, ("kind",))]
+        for k in misspelt:  # the other keys can be checked only against a kind
+            rd.error(join(path, k), "unknown key" + closest(k, ("kind",)))
+        if not misspelt:
+            rd.error(f"{path}.kind", "missing required key (one of: " + ", ".join(kinds) + ")")
         return None
     kind = s["kind"]
     renamed = RENAMED.get(family, {})

@@ -39,6 +39,7 @@ import seatool
 from .._version import __version__
 from ..errors import InputError, Problem
 from ..levels import CAUTION
+from ..outputs import OutputBatch
 from . import analysis, decisions, lowfreq, measured, model, panel, report
 from ._common import EXIT_INPUT, EXIT_INTERNAL, Command, input_options
 
@@ -125,9 +126,10 @@ def main(argv: Sequence[str] | None = None) -> int:
                     on_warnings=print_warnings,
                 )
             )
-        with warnings.catch_warnings():
-            # numbers that overflow are refused with the key path that made them; numpy's
-            # own RuntimeWarnings (overflow, invalid value) never reach the terminal
+        # every output file of the command is committed when it ends well, none otherwise;
+        # numbers that overflow are refused with the key path that made them, and numpy's
+        # own RuntimeWarnings (overflow, invalid value) never reach the terminal
+        with OutputBatch(), warnings.catch_warnings():
             warnings.simplefilter("ignore", RuntimeWarning)
             return int(args.handler(args))
     except InputError as exc:

@@ -107,19 +107,22 @@ def _seams(rd: Reader, raw_connections: Any, subs: Mapping[str, Subsystem]) -> N
         length, between = t.get("length"), t.get("between")
         if not isinstance(length, int | float) or not isinstance(between, list):
             continue
+        edges = {}
         for name in between:
             s = subs.get(name) if isinstance(name, str) else None
-            if s is None or not isinstance(s.props, PanelProps):
-                continue
-            edge = max(float(s.props.lx), float(s.props.ly))
-            if float(length) > edge * (1.0 + 1e-9):
-                rd.warn(
-                    f"connections.{cname}.length",
-                    f"seam of {float(length):g} m is longer than the longest edge of "
-                    f"{name!r} ({edge:g} m): the coupling grows with the seam's length, so "
-                    "the transmission is overstated (a length in millimetres, or several "
-                    "edges in one junction?)",
-                )
+            if s is not None and isinstance(s.props, PanelProps):
+                edges[name] = max(float(s.props.lx), float(s.props.ly))
+        if not edges:
+            continue
+        name = min(edges, key=lambda n: edges[n])  # the plate with the shortest longest edge
+        if float(length) > edges[name] * (1.0 + 1e-9):
+            rd.warn(
+                f"connections.{cname}.length",
+                f"seam of {float(length):g} m is longer than the longest edge of "
+                f"{name!r} ({edges[name]:g} m): the coupling grows with the seam's length, "
+                "so the transmission is overstated (a length in millimetres, or several "
+                "edges in one junction?)",
+            )
 
 
 def _treatments(rd: Reader, s: Subsystem) -> None:
