@@ -2,12 +2,14 @@
 
     PYTHONPATH=$PWD python benchmarks/fuzz_models.py --count 5000 --seed 0
 
-Half of the models are valid random models (tests/modelgen.py) solved through the Python
+A third of the models are valid random models (tests/modelgen.py) solved through the Python
 API and checked: the energy balance closes per band to 1e-9, every energy of a damped
 subsystem is finite and positive; every fifth also with its subsystems written in a
 shuffled order (same energies to 1e-9) and for SEA reciprocity (modal energy of j with
-1 W into i equals that of i with 1 W into j, to 1e-9). The other half get one numeric
-value replaced by a bad one (nan, inf, negative, zero, huge, tiny, a string, a boolean,
+1 W into i equals that of i with 1 W into j, to 1e-9). The other two thirds get one
+numeric value replaced by a bad one -- in a random model, or in one of the shipped models
+(models/*.toml) or the every-kind model of tests/test_every_kind.py, which reach every
+kind -- (nan, inf, negative, zero, huge, tiny, a string, a boolean,
 an array, a table) and run through ``seatool solve ... --csv``: exit code 0 or 2 is
 expected, with every stderr line an ``error:`` or ``warning:`` line naming the file, the
 table's key path (or name) in an error, and no CSV written on exit 2.
@@ -29,6 +31,7 @@ import random
 import sys
 import tempfile
 import time
+import tomllib
 from pathlib import Path
 from typing import Any
 
@@ -38,6 +41,7 @@ ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT / "tests"))
 
 import modelgen  # noqa: E402  (the generators shared with tests/test_properties.py)
+import test_every_kind  # noqa: E402  (a model with every subsystem and coupling kind)
 
 import seatool  # noqa: E402
 from seatool.cli import main  # noqa: E402
@@ -84,6 +88,12 @@ def check_valid(rng: random.Random, data: dict[str, Any], deep: bool) -> str:
     return "solved"
 
 
+def corpus() -> list[dict[str, Any]]:
+    """The shipped models and the every-kind test model, as parsed data."""
+    texts = [p.read_text(encoding="utf-8") for p in sorted((ROOT / "models").glob("*.toml"))]
+    return [tomllib.loads(t) for t in [*texts, test_every_kind.MODEL]]
+
+
 def check_invalid(rng: random.Random, data: dict[str, Any], tmp: Path) -> tuple[str, str]:
     """('clean error' | 'accepted' | 'crash', detail) for one mutated model."""
     path = rng.choice(list(modelgen.numeric_paths(data)))
@@ -126,11 +136,12 @@ def main_(argv: list[str] | None = None) -> int:
     t0 = time.perf_counter()
     with tempfile.TemporaryDirectory() as tmpdir:
         tmp = Path(tmpdir)
+        shipped = corpus()
         for k in range(args.count):
-            data = modelgen.valid_model(rng)
-            if k % 2 == 0:
+            data = modelgen.valid_model(rng) if k % 3 != 2 else rng.choice(shipped)
+            if k % 3 == 0:
                 try:
-                    outcome = check_valid(rng, data, deep=k % 10 == 0)
+                    outcome = check_valid(rng, data, deep=k % 15 == 0)
                 except Exception as exc:
                     counts["crash"] += 1
                     examples["crash"].append(f"valid model {k}: {type(exc).__name__}: {exc}")
