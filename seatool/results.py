@@ -323,7 +323,15 @@ class Result:
     def _repr_html_(self) -> str:
         w = self.wide().round(1)
         title = f"<b>{html.escape(self.model.title)}</b>" if self.model.title else ""
-        return title + w.to_html(escape=True) + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
+        warned = "".join(
+            f"<p><small>warning: {html.escape(str(x))}</small></p>" for x in self.model.warnings
+        )
+        return (
+            title
+            + w.to_html(escape=True)
+            + warned
+            + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
+        )
 
 
 def run(model: Model) -> Result:

@@ -252,3 +252,10 @@ def test_notebook_view_escapes_the_title(tmp_path):
                                       'title = "<script>alert(1)</script>"'))  # fmt: skip
     html = seatool.run(seatool.load(f))._repr_html_()
     assert "<script>" not in html and "&lt;script&gt;" in html
+
+
+def test_notebook_view_shows_the_plausibility_warnings_escaped(tmp_path):
+    f = _model(tmp_path, BASE.replace('subsystem = "p"', 'subsystem = "p"\ndescription = "x"')
+               .replace("damping = 0.01", "damping = 0.6"))  # fmt: skip
+    html = seatool.run(seatool.load(f))._repr_html_()
+    assert "warning: " in html and "subsystems.p.damping" in html and "&#x27;p&#x27;" in html
