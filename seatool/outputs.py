@@ -20,9 +20,10 @@ from types import TracebackType
 
 from .errors import InputError, Problem
 
-__all__ = ["OutputBatch", "file_mode", "output_file", "write_text_atomic"]
+__all__ = ["OutputBatch", "file_mode", "immediate", "output_file", "write_text_atomic"]
 
-_ACTIVE: list[OutputBatch] = []
+#: Open batches, innermost last; None marks an :func:`immediate` block.
+_ACTIVE: list[OutputBatch | None] = []
 
 
 def file_mode() -> int:
@@ -56,7 +57,11 @@ class OutputBatch:
         tmp.unlink(missing_ok=True)
 
     def commit(self) -> None:
-        """Rename every temporary file over its target; InputError if one cannot be."""
+        """Rename every temporary file over its target.
+
+        If one cannot be renamed, the targets renamed before it are removed as well and
+        :class:`~seatool.errors.InputError` names the file (all or nothing).
+        """
         mode = file_mode()
         pending, self._pending = self._pending, []
         for k, (tmp, target) in enumerate(pending):
@@ -64,8 +69,11 @@ class OutputBatch:
                 os.chmod(tmp, mode)
                 os.replace(tmp, target)
             except OSError as exc:
+                # all or nothing: the outputs renamed before go too, the rest is not written
                 for rest, _ in pending[k:]:
                     rest.unlink(missing_ok=True)
+                for _, done in pending[:k]:
+                    done.unlink(missing_ok=True)
                 raise InputError(
                     [Problem(str(target), "", f"cannot write: {exc.strerror or exc}")]
                 ) from None
@@ -100,8 +108,8 @@ def output_file(target: str | os.PathLike[str]) -> Iterator[Path]:
     Committed with the active :class:`OutputBatch` (or at once when none is open); removed
     if the ``with`` block fails.
     """
-    if _ACTIVE:
-        batch = _ACTIVE[-1]
+    batch = _ACTIVE[-1] if _ACTIVE else None
+    if batch is not None:
         tmp = batch.reserve(target)
         try:
             yield tmp
@@ -111,6 +119,17 @@ def output_file(target: str | os.PathLike[str]) -> Iterator[Path]:
         return
     with OutputBatch() as own:
         yield own.reserve(target)
+
+
+@contextmanager
+def immediate() -> Iterator[None]:
+    """Inside this block files are committed at once, not with the open batch (for an
+    intermediate file the program reads back, e.g. a figure embedded in a report)."""
+    _ACTIVE.append(None)
+    try:
+        yield
+    finally:
+        _ACTIVE.pop()
 
 
 def write_text_atomic(path: str | os.PathLike[str], text: str) -> None:

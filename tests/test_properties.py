@@ -27,7 +27,7 @@ import seatool
 from seatool.cli import main
 
 SETTINGS = settings(
-    max_examples=12,
+    max_examples=10,
     deadline=None,
     derandomize=True,
     suppress_health_check=[HealthCheck.too_slow],
@@ -103,7 +103,7 @@ def _run(args: list[str]) -> tuple[int, str]:
 
 
 @settings(
-    max_examples=30,
+    max_examples=25,
     deadline=None,
     derandomize=True,
     suppress_health_check=[HealthCheck.too_slow],

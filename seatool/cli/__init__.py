@@ -106,12 +106,14 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return EXIT_INPUT
-    shown: set[Problem] = set()
+    shown: set[tuple[str, str]] = set()
 
     def print_warnings(found: Sequence[Problem]) -> None:
-        for w in found:  # each once per run (analyses rebuild the model many times)
-            if w not in shown:
-                shown.add(w)
+        # one line per key path and run: analyses rebuild the model many times (Monte
+        # Carlo samples, variants), each rebuild with its own values
+        for w in found:
+            if (w.file, w.path) not in shown:
+                shown.add((w.file, w.path))
                 print(f"warning: {w}", file=sys.stderr)
 
     previous = None
