@@ -148,9 +148,10 @@ def test_a_misspelt_kind_is_named_as_the_unknown_key(tmp_path, capsys):
 def test_numpy_warnings_never_reach_the_terminal(tmp_path, capsys):
     # a source of 1e-300 W: levels far below any reference (log of tiny numbers)
     text = BASE.replace("power = 1e-3", "power = 1e-300")
-    code = main(["solve", str(_model(tmp_path, text))])
+    code = main(["solve", str(_model(tmp_path, text)), "--csv", str(tmp_path / "l.csv")])
     err = capsys.readouterr().err
     assert code == 0 and "RuntimeWarning" not in err and "Warning:" not in err
+    assert (tmp_path / "l.csv").exists()  # the spread columns of energies that underflow
 
 
 # -- outputs --------------------------------------------------------------------------------
