@@ -11,6 +11,7 @@ is written (a figure that cannot be drawn leaves no CSV behind).
 
 from __future__ import annotations
 
+import errno
 import os
 import tempfile
 from collections.abc import Iterator
@@ -46,6 +47,8 @@ class OutputBatch:
     def reserve(self, target: str | os.PathLike[str]) -> Path:
         """A new temporary file beside ``target`` (same suffix), committed over it later."""
         t = Path(target)
+        if t.is_dir():  # refused now, while the caller can still name its option
+            raise IsADirectoryError(errno.EISDIR, os.strerror(errno.EISDIR), str(t))
         fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=t.suffix, dir=t.parent)
         os.close(fd)
         self._pending.append((Path(tmp), t))
