@@ -129,6 +129,7 @@ def test_a_very_reverberant_cavity_warns_below_one_percent(tmp_path, capsys):
     assert m is not None and float(m.group(1)) == pytest.approx(0.161 * 15 / (37 * 30), rel=0.01)
 
 
+@pytest.mark.regression
 def test_a_trim_that_raises_a_band_is_named_with_its_bands(tmp_path, capsys):
     code = main(["check", str(MODELS / "treated_floor.toml")])
     err = capsys.readouterr().err
