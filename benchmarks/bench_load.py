@@ -56,12 +56,12 @@ RAIL_CAB_SPREADS = {
         Uncertain("floor_h", "subsystems.floor.thickness", "uniform", tolerance=0.05)
     ],
     "roof thickness": [Uncertain("roof_h", "subsystems.roof.thickness", "uniform", tolerance=0.05)],
-    "cab damping": [Uncertain("air", "subsystems.cab_air.damping", "lognormal", factor=1.5)],
+    "cab damping": [Uncertain("air", "subsystems.cab_air.damping.reverberation_time", "lognormal", factor=1.5)],
     "all plates + cab damping": [
         Uncertain(f"{s}_h", f"subsystems.{s}.thickness", "uniform", tolerance=0.05)
         for s in ("floor", "left_wall", "right_wall", "roof", "windscreen")
     ]
-    + [Uncertain("air", "subsystems.cab_air.damping", "lognormal", factor=1.5)],
+    + [Uncertain("air", "subsystems.cab_air.damping.reverberation_time", "lognormal", factor=1.5)],
 }
 
 

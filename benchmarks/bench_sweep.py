@@ -47,7 +47,7 @@ PARAMETERS = (
     Parameter("subsystems.left_wall.thickness", 0.002, 0.004),
     Parameter("subsystems.roof.thickness", 0.002, 0.004),
     Parameter("subsystems.windscreen.thickness", 0.008, 0.016),
-    Parameter("subsystems.cab_air.damping", 0.02, 0.08, scale="log"),
+    Parameter("subsystems.cab_air.damping.reverberation_time", 0.15, 0.6, scale="log"),
 )
 
 

@@ -40,7 +40,7 @@ from .modal import (
 )
 from .model import Model
 from .physics import mobility
-from .plot import _pyplot
+from .plot import _pyplot, save_figure
 from .results import CAUTION, Result
 from .solve import assemble, solve
 from .validity_report import assess_model
@@ -329,6 +329,6 @@ def plot_crossover(result: CrossoverResult, path: str | os.PathLike[str]) -> Pat
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     plt.close(fig)
     return out

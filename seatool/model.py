@@ -18,6 +18,7 @@ import numpy as np
 import numpy.typing as npt
 
 from .bands import BandAxis
+from .errors import Problem
 from .properties import Props
 
 __all__ = [
@@ -211,6 +212,9 @@ class Model:
     #: Descriptive lines from the readers (treatment build-ups and their masses, ...),
     #: printed by ``seatool check``.
     reports: tuple[str, ...] = ()
+    #: Plausibility warnings (file, key path, message): values inside the physical bounds
+    #: but unusual for their role (:mod:`seatool.kinds.plausibility`).
+    warnings: tuple[Problem, ...] = ()
     #: The validated ``[uncertainty.NAME]`` spreads (used by the Monte Carlo analysis).
     uncertainty: tuple[Uncertain, ...] = ()
     #: Noise limits per receiver (``[targets.NAME]``), checked by :mod:`seatool.analysis.targets`.

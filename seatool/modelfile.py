@@ -15,7 +15,8 @@ function builds the subsystems or couplings from the validated values.
 from __future__ import annotations
 
 import tomllib
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
@@ -27,6 +28,7 @@ from .errors import InputError, Problem, closest
 from .kinds.excitations import NONRESONANT_SUFFIX, diffuse_nonresonant
 from .kinds.facing import apply_facing
 from .kinds.media import FLUID_PARAMS
+from .kinds.plausibility import check_model
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
 from .kinds.spreads import read_uncertainty_section
@@ -39,9 +41,12 @@ __all__ = [
     "DEFAULT_FLUID",
     "SUBSYSTEM_KINDS",
     "Reader",
+    "LoadOptions",
     "build",
     "load",
     "loads",
+    "load_options",
+    "set_load_options",
 ]
 
 _TOP_KEYS = (
@@ -59,6 +64,40 @@ _TOP_KEYS = (
 )
 
 _MISSING = object()
+
+@dataclass(frozen=True)
+class LoadOptions:
+    """How models are read in this process (the command line sets them for one run).
+
+    Attributes
+    ----------
+    strict : bool
+        Plausibility warnings are errors (the model is refused, exit code 2).
+    allow_outside_files : bool
+        Spectrum files outside the model file's folder tree may be read.
+    on_warnings : callable or None
+        Called with the plausibility warnings of every model read (the command line
+        prints them on stderr); they are also kept in :attr:`Model.warnings`.
+    """
+
+    strict: bool = False
+    allow_outside_files: bool = False
+    on_warnings: Callable[[Sequence[Problem]], None] | None = None
+
+
+_OPTIONS = [LoadOptions()]
+
+
+def load_options() -> LoadOptions:
+    """The options models are read with now."""
+    return _OPTIONS[0]
+
+
+def set_load_options(options: LoadOptions) -> LoadOptions:
+    """Replace the options models are read with; returns the previous ones."""
+    old, _OPTIONS[0] = _OPTIONS[0], options
+    return old
+
 
 #: Deepest nesting of tables and arrays a model file may have (a model needs about 6).
 MAX_DEPTH = 32
@@ -170,7 +209,11 @@ def _kind_of(
     if "kind" not in s:
         if default is not None:
             return kinds[default]
-        rd.error(f"{path}.kind", "missing required key (one of: " + ", ".join(kinds) + ")")
+        misspelt = [k for k in s if isinstance(k, str) and closest(k, ("kind",))]
+        for k in misspelt:  # the other keys can be checked only against a kind
+            rd.error(join(path, k), "unknown key" + closest(k, ("kind",)))
+        if not misspelt:
+            rd.error(f"{path}.kind", "missing required key (one of: " + ", ".join(kinds) + ")")
         return None
     kind = s["kind"]
     renamed = RENAMED.get(family, {})
@@ -475,7 +518,14 @@ def _read_excitations(
 # ----------------------------------------------------------------------------------------
 
 
-def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> Model:
+def loads(
+    text: str,
+    *,
+    file: str = "<string>",
+    base_dir: str | Path = ".",
+    strict: bool | None = None,
+    allow_outside_files: bool | None = None,
+) -> Model:
     """Read a model from TOML text. See :func:`load`."""
     try:
         data = tomllib.loads(text)
@@ -483,17 +533,43 @@ def loads(text: str, *, file: str = "<string>", base_dir: str | Path = ".") -> M
         raise InputError([Problem(file, "", f"not valid TOML: {exc}")]) from None
     except RecursionError:
         raise InputError([Problem(file, "", f"nested more than {MAX_DEPTH} levels deep")]) from None
-    return build(data, file=file, base_dir=base_dir)
+    return build(
+        data,
+        file=file,
+        base_dir=base_dir,
+        strict=strict,
+        allow_outside_files=allow_outside_files,
+    )
 
 
-def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path = ".") -> Model:
+def _options(strict: bool | None, allow_outside_files: bool | None) -> LoadOptions:
+    opts = load_options()
+    if strict is not None:
+        opts = replace(opts, strict=strict)
+    if allow_outside_files is not None:
+        opts = replace(opts, allow_outside_files=allow_outside_files)
+    return opts
+
+
+def build(
+    data: Mapping[str, Any],
+    *,
+    file: str = "<data>",
+    base_dir: str | Path = ".",
+    strict: bool | None = None,
+    allow_outside_files: bool | None = None,
+) -> Model:
     """Validate parsed model-file data (nested dicts as from ``tomllib``) into a Model.
 
     Used by :func:`loads`, and by analyses that rebuild a model with changed parameters.
+    ``strict`` and ``allow_outside_files`` replace those of :func:`load_options` when given.
     """
+    opts = _options(strict, allow_outside_files)
     if _depth(data, MAX_DEPTH) > MAX_DEPTH:
         raise InputError([Problem(file, "", f"nested more than {MAX_DEPTH} levels deep")])
-    rd = Reader(file=file, base_dir=Path(base_dir))
+    rd = Reader(
+        file=file, base_dir=Path(base_dir), allow_outside_files=opts.allow_outside_files
+    )
     rd.keys(data, "", _TOP_KEYS)
     title = data.get("title", "")
     if not isinstance(title, str):
@@ -525,6 +601,13 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     targets = read_targets(rd, data, subs)
     if rd.problems:
         raise InputError(rd.problems)
+    check_model(rd, subs, data.get("connections"))
+    if rd.warnings and opts.strict:
+        raise InputError(
+            [replace(w, message=w.message + " (--strict: a warning is an error)") for w in rd.warnings]
+        )
+    if rd.warnings and opts.on_warnings is not None:
+        opts.on_warnings(tuple(rd.warnings))
     try:
         return Model(
             bands=rd.bands,
@@ -535,6 +618,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             source=file,
             notes=tuple(rd.notes),
             reports=tuple(rd.reports),
+            warnings=tuple(rd.warnings),
             uncertainty=tuple(spreads),
             targets=tuple(targets),
         )
@@ -542,8 +626,14 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
         raise InputError([Problem(file, "", str(exc))]) from None
 
 
-def load(path: str | Path) -> Model:
+def load(
+    path: str | Path, *, strict: bool | None = None, allow_outside_files: bool | None = None
+) -> Model:
     """Read and validate a model file.
+
+    Spectrum files are read relative to the model file's folder, only inside its folder
+    tree unless ``allow_outside_files``; plausibility warnings are kept in
+    :attr:`Model.warnings` (errors if ``strict``). Both default to :func:`load_options`.
 
     Raises
     ------
@@ -567,4 +657,10 @@ def load(path: str | Path) -> Model:
         raise InputError(
             [Problem(str(p), "", "not a text file (not UTF-8); expected a TOML model file")]
         ) from None
-    return loads(text, file=str(p), base_dir=p.parent)
+    return loads(
+        text,
+        file=str(p),
+        base_dir=p.parent,
+        strict=strict,
+        allow_outside_files=allow_outside_files,
+    )

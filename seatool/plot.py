@@ -20,6 +20,7 @@ import pandas as pd
 from .analysis.confidence import band_limits
 from .errors import InputError, Problem
 from .levels import CAUTION, power_level
+from .outputs import output_file
 from .results import Result
 
 __all__ = [
@@ -37,6 +38,7 @@ __all__ = [
     "plot_sweep_matrix",
     "plot_target",
     "plot_variants",
+    "save_figure",
 ]
 
 #: File types a figure can be written as.
@@ -66,9 +68,22 @@ def _pyplot() -> Any:
     import matplotlib
 
     matplotlib.use("Agg", force=True)
+    # names come from the user's model: '$' must not start mathematical text (a '$..^{'
+    # name would make drawing fail); seatool writes no formulas in figures
+    matplotlib.rcParams["text.parse_math"] = False
     import matplotlib.pyplot as plt
 
     return plt
+
+
+def save_figure(fig: Any, out: Any, *, fmt: str | None = None) -> None:
+    """Save ``fig`` to a file (through :func:`seatool.outputs.output_file`: whole or not at
+    all, committed with the run's other outputs) or to an open binary stream."""
+    if isinstance(out, str | os.PathLike):
+        with output_file(out) as tmp:
+            fig.savefig(tmp, format=fmt or Path(out).suffix.lstrip(".") or None, dpi=130)
+    else:
+        fig.savefig(out, format=fmt, dpi=130)
 
 
 def _weak_bands(result: Result) -> dict[str, np.ndarray]:
@@ -140,7 +155,7 @@ def plot_levels(
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     plt.close(fig)
     return out
 
@@ -209,7 +224,7 @@ def plot_contributions(
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     plt.close(fig)
     return out
 
@@ -236,7 +251,7 @@ def _save(fig: Any, out: Output, fmt: str | None) -> None:
     plt = _pyplot()
     fig.text(0.01, 0.006, "Caution: " + CAUTION, fontsize=7, wrap=True, color="#444444")
     fig.tight_layout(rect=(0, 0.045, 1, 1))
-    fig.savefig(out, format=fmt, dpi=130)
+    save_figure(fig, out, fmt=fmt)
     plt.close(fig)
 
 
@@ -528,7 +543,7 @@ def plot_band_margins(margins: pd.DataFrame, path: str | os.PathLike[str]) -> Pa
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     plt.close(fig)
     return out
 
@@ -554,7 +569,7 @@ def plot_variants(difference: pd.DataFrame, path: str | os.PathLike[str]) -> Pat
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     plt.close(fig)
     return out
 
@@ -563,7 +578,7 @@ def _finish(fig: Any, path: str | os.PathLike[str]) -> Path:
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
-    fig.savefig(out, dpi=130)
+    save_figure(fig, out)
     _pyplot().close(fig)
     return out
 

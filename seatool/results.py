@@ -9,9 +9,7 @@ from __future__ import annotations
 
 import html
 import os
-import tempfile
 from dataclasses import dataclass
-from pathlib import Path
 
 import numpy as np
 import numpy.typing as npt
@@ -21,6 +19,7 @@ from . import levels
 from .bands import a_weighting
 from .levels import CAUTION
 from .model import Model, Subsystem
+from .outputs import write_text_atomic
 from .solve import Solution, solve
 from .validity_report import validity_table, weak_band_notes
 
@@ -28,6 +27,7 @@ __all__ = [
     "CAUTION",
     "Result",
     "csv_text",
+    "neutralise_cell",
     "run",
     "subsystem_level",
     "write_csv",
@@ -54,26 +54,41 @@ def subsystem_level(sub: Subsystem, energy: npt.ArrayLike) -> tuple[Array, str]:
     return levels.energy_level(e), "energy"
 
 
-def write_text_atomic(path: str | os.PathLike[str], text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file (no half-written file on failure)."""
-    path = Path(path)
-    fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=path.suffix, dir=path.parent or ".")
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
-
-
 def csv_text(table: pd.DataFrame) -> str:
     """A table as CSV text whose first line is the caution, as a ``#`` comment.
 
     The caution travels with the numbers: a spreadsheet shows it as the first row, and
-    ``pandas.read_csv(path, comment="#")`` (or ``skiprows=1``) skips it.
+    ``pandas.read_csv(path, comment="#")`` (or ``skiprows=1``) skips it. Text cells a
+    spreadsheet would run as a formula are made inert (:func:`neutralise_cell`).
     """
-    return "# Caution: " + CAUTION + "\n" + table.to_csv(index=False, float_format="%.10g")
+    safe = table.copy(deep=False)
+    for col in safe.columns:
+        if not (
+            pd.api.types.is_numeric_dtype(safe[col]) or pd.api.types.is_bool_dtype(safe[col])
+        ):
+            safe[col] = safe[col].map(neutralise_cell)
+    return "# Caution: " + CAUTION + "\n" + safe.to_csv(index=False, float_format="%.10g")
+
+
+#: First characters that make a spreadsheet read a cell as a formula (OWASP, "CSV
+#: Injection"): such text cells get a leading apostrophe.
+FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+def neutralise_cell(value: object) -> object:
+    """A text cell that a spreadsheet would run as a formula, made inert.
+
+    Text starting with ``= + - @``, a tab or a carriage return gets a leading apostrophe
+    (the cell is then shown as text); a number written as text (``-3.2``, ``+1e3``) and
+    every non-text value are returned unchanged.
+    """
+    if not isinstance(value, str) or not value.startswith(FORMULA_START):
+        return value
+    try:
+        float(value)
+    except ValueError:
+        return "'" + value
+    return value
 
 
 def write_csv(table: pd.DataFrame, path: str | os.PathLike[str]) -> None:
@@ -308,7 +323,15 @@ class Result:
     def _repr_html_(self) -> str:
         w = self.wide().round(1)
         title = f"<b>{html.escape(self.model.title)}</b>" if self.model.title else ""
-        return title + w.to_html(escape=True) + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
+        warned = "".join(
+            f"<p><small>warning: {html.escape(str(x))}</small></p>" for x in self.model.warnings
+        )
+        return (
+            title
+            + w.to_html(escape=True)
+            + warned
+            + f"<p><small>Caution: {html.escape(CAUTION)}</small></p>"
+        )
 
 
 def run(model: Model) -> Result:

@@ -19,7 +19,10 @@ __all__ = ["model_summary"]
 
 def _range(a: npt.ArrayLike) -> str:
     lo, hi = float(np.min(a)), float(np.max(a))
-    return f"{lo:.3g}" if np.isclose(lo, hi) else f"{lo:.3g} .. {hi:.3g}"
+    # relative comparison only: np.isclose's absolute tolerance (1e-8) would call any two
+    # loss factors below 1e-8 equal
+    same = np.isclose(lo, hi, rtol=1e-5, atol=0.0)
+    return f"{lo:.3g}" if same else f"{lo:.3g} .. {hi:.3g}"
 
 
 def model_summary(model: Model) -> str:

@@ -39,6 +39,7 @@ MODULES = {
     "seatool.errors": "model",
     "seatool.levels": "model",
     "seatool.progress": "model",
+    "seatool.outputs": "model",
     "seatool.loudness": "model",
     "seatool.metrics": "model",
     "seatool.properties": "model",

@@ -185,7 +185,9 @@ def test_uncertainty_design_reproduces_the_monte_carlo_spread():
 
 
 def test_table_has_margins_and_dba():
-    spec = SweepSpec((Parameter("subsystems.cab_air.damping", 0.02, 0.1),), "lhs", 3, seed=2)
+    spec = SweepSpec(
+        (Parameter("subsystems.cab_air.damping.reverberation_time", 0.08, 0.4),), "lhs", 3, seed=2
+    )
     s = sweep_file(OPERATOR, spec, scheduler="serial")
     t = s.table()
     assert {"cab_air.dB", "cab_air.dBA", "operator_ear.margin", "operator_ear.met"} <= set(t)

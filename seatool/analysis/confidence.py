@@ -167,7 +167,11 @@ def relative_variances(
     if sources_w:
         weights = np.stack(sources_w)
         alphas = np.broadcast_to(np.asarray(sources_a)[:, None, None], weights.shape)
-        alpha = combined_alpha(weights, alphas)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            alpha = combined_alpha(weights, alphas)
+        # no power reaches a subsystem in floating point (inputs near 1e-300 W underflow):
+        # its sources have no weights, so take the point-source alpha, the largest spread
+        alpha = np.where(np.isfinite(alpha), alpha, ALPHA_POINT)
     else:
         alpha = np.full((n, nb), ALPHA_POINT)
     total = asm.diag

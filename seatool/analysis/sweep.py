@@ -35,8 +35,6 @@ from __future__ import annotations
 
 import itertools
 import math
-import os
-import tempfile
 import time
 import warnings
 from collections.abc import Callable, Mapping
@@ -54,6 +52,7 @@ from ..levels import CAUTION
 from ..metrics import METRICS
 from ..model import Model, Uncertain
 from ..modelfile import build
+from ..outputs import output_file
 from ..results import Result, csv_text, write_text_atomic
 from ..solve import solve as core_solve
 from ._keypath import read_data, resolve
@@ -412,14 +411,8 @@ def write_table(result: Sweep, path: str | Path) -> Path:
     meta[b"seatool.caution"] = CAUTION.encode()
     meta[b"seatool.levels"] = refs.encode()
     tab = tab.replace_schema_metadata(meta)
-    fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=".parquet", dir=out.parent)
-    os.close(fd)
-    try:
+    with output_file(out) as tmp:
         pq.write_table(tab, tmp)
-        os.replace(tmp, out)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
     return out
 
 

@@ -34,15 +34,17 @@ from __future__ import annotations
 
 import argparse
 import sys
+import warnings
 from collections.abc import Sequence
 
 import seatool
 
 from .._version import __version__
-from ..errors import InputError
+from ..errors import InputError, Problem
 from ..levels import CAUTION
+from ..outputs import OutputBatch
 from . import analysis, decisions, lowfreq, measured, model, panel, report, sweep
-from ._common import EXIT_INPUT, EXIT_INTERNAL, Command
+from ._common import EXIT_INPUT, EXIT_INTERNAL, Command, input_options
 
 __all__ = ["COMMANDS", "main"]
 
@@ -91,6 +93,8 @@ def _parser(selected: str | None) -> argparse.ArgumentParser:
         )
         if cmd.name == selected:
             cmd.arguments(sp)
+            if cmd.loads_model:
+                input_options(sp)
         sp.set_defaults(handler=cmd.handler)
     return p
 
@@ -106,10 +110,34 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return EXIT_INPUT
+    shown: set[tuple[str, str]] = set()
+
+    def print_warnings(found: Sequence[Problem]) -> None:
+        # one line per key path and run: analyses rebuild the model many times (Monte
+        # Carlo samples, variants), each rebuild with its own values
+        for w in found:
+            if (w.file, w.path) not in shown:
+                shown.add((w.file, w.path))
+                print(f"warning: {w}", file=sys.stderr)
+
+    previous = None
     try:
         if args.quiet:
             seatool.progress.set_quiet(True)
-        return int(args.handler(args))
+        if hasattr(args, "strict"):  # a command that reads a model file
+            previous = seatool.modelfile.set_load_options(
+                seatool.modelfile.LoadOptions(
+                    strict=args.strict,
+                    allow_outside_files=args.allow_outside_files,
+                    on_warnings=print_warnings,
+                )
+            )
+        # every output file of the command is committed when it ends well, none otherwise;
+        # numbers that overflow are refused with the key path that made them, and numpy's
+        # own RuntimeWarnings (overflow, invalid value) never reach the terminal
+        with OutputBatch(), warnings.catch_warnings():
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return int(args.handler(args))
     except InputError as exc:
         for p in exc.problems:
             print(f"error: {p}", file=sys.stderr)
@@ -131,3 +159,5 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_INTERNAL
     finally:
         seatool.progress.set_quiet(False)  # the switch lasts one run (main may run again)
+        if previous is not None:
+            seatool.modelfile.set_load_options(previous)

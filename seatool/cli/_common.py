@@ -31,6 +31,23 @@ class Command:
     help: str
     arguments: Callable[[argparse.ArgumentParser], None]
     handler: Handler
+    #: The command reads a model file: it takes the input options of
+    #: :func:`input_options` (``--strict``, ``--allow-outside-files``).
+    loads_model: bool = True
+
+
+def input_options(p: argparse.ArgumentParser) -> None:
+    """Options of every command that reads a model file."""
+    p.add_argument(
+        "--strict",
+        action="store_true",
+        help="treat plausibility warnings (unusual but possible values) as errors (exit 2)",
+    )
+    p.add_argument(
+        "--allow-outside-files",
+        action="store_true",
+        help="read spectrum files outside the model file's folder tree too",
+    )
 
 
 def print_caution() -> None:

@@ -159,4 +159,5 @@ LOSS_FACTORS = Command(
     "(condition number and sensitivity of every estimate)",
     arguments=_args,
     handler=_cmd,
+    loads_model=False,
 )

@@ -351,4 +351,5 @@ PANEL = Command(
     help="band-by-band properties of one flat panel (coincidence, modes, overlap)",
     arguments=_arguments,
     handler=_handler,
+    loads_model=False,
 )

@@ -26,9 +26,18 @@ __all__ = ["CAVITY", "DUCT", "RENAMED"]
 #: Kind names that were renamed: old -> new.
 RENAMED = {"acoustic_cavity": "cavity"}
 
-_DIM = Param("dimensions", unit="m", bounds=LENGTH_BOUNDS)
+_DIM = Param(
+    "dimensions", unit="m", bounds=LENGTH_BOUNDS, typical=(1e-2, 100.0),
+    why="a cabin, room or enclosure side over 100 m (or under 1 cm) is more likely a length "
+    "typed in millimetres; the volume, modal density and levels follow from it",
+)  # fmt: skip
 _FLUID = Param("fluid", "fluid", doc="the fluid it holds", default_doc="air")
-_MODAL = Param("modal_density", "spectrum", "modes/Hz", "given values replace the derived ones")
+_N_BOUNDS = (0.0, 1e12)
+_N_BASIS = "common practice: a 1e9 m^3 room has about 1e11 modes per Hz at 20 kHz"
+_MODAL = Param(
+    "modal_density", "spectrum", "modes/Hz", "given values replace the derived ones",
+    bounds=_N_BOUNDS, basis=_N_BASIS,
+)  # fmt: skip
 _DAMPING = Param("damping", "damping", doc="internal damping loss factor (>= 0)", required=True)
 
 
@@ -211,7 +220,7 @@ DUCT = Kind(
         Param("width", unit="m", doc="width of a rectangular section (with height)", bounds=_SIDE),
         Param("height", unit="m", doc="height of a rectangular section (with width)", bounds=_SIDE),
         Param("diameter", unit="m", doc="diameter of a circular section", bounds=_SIDE),
-        Param("modal_density", "spectrum", "modes/Hz", "given values replace 2 L / c"),
+        Param("modal_density", "spectrum", "modes/Hz", "given values replace 2 L / c", bounds=_N_BOUNDS, basis=_N_BASIS),
         _FLUID,
         _DAMPING,
     ),

@@ -47,6 +47,7 @@ from .layers import (
 )
 from .params import Kind, Param
 from .reader import DEFAULT_FLUID, Reader, join
+from .validate import check_value
 
 __all__ = ["DAMPING_FORMS", "DAMPING_KINDS", "read_damping"]
 
@@ -146,8 +147,8 @@ def _read_t60_form(
         return None
     if not _keys_ok(rd, t, path, ("reverberation_time",)):
         return None
-    t60 = rd.spectrum(t["reverberation_time"], join(path, "reverberation_time"), unit="s")
-    if t60 is None:
+    ok, t60 = check_value(rd, _T60, t["reverberation_time"], join(path, "reverberation_time"))
+    if not ok:
         return None
     return dmp.loss_factor_from_t60(_freqs(rd), t60)
 
@@ -157,9 +158,7 @@ def _read_area_form(
 ) -> Array | None:
     ok = _keys_ok(rd, t, path, ("absorption_area", "air_absorption"))
     vol = _cavity_volume(rd, context, path, "absorption_area")
-    a = rd.spectrum(
-        t["absorption_area"], join(path, "absorption_area"), unit="m^2", minimum=0.0, strict=False
-    )
+    _, a = check_value(rd, _AREA, t["absorption_area"], join(path, "absorption_area"))
     f = _freqs(rd)
     air = (
         _air_absorption(rd, t["air_absorption"], join(path, "air_absorption"), f, context)
@@ -168,6 +167,14 @@ def _read_area_form(
     )
     if not ok or vol is None or a is None or air is None:
         return None
+    surface = context.get("surface_area")
+    if surface and np.any(a > float(surface)):
+        rd.warn(
+            join(path, "absorption_area"),
+            f"absorption area up to {float(np.max(a)):.4g} m^2 is more than the cavity's "
+            f"boundary area {float(surface):.4g} m^2: a mean absorption coefficient above 1, "
+            "which no boundary has (Sabine); the cavity would be damped too much",
+        )
     _, c = _fluid(context)
     return dmp.cavity_loss_factor(f, vol, a, c0=c) + air
 
@@ -283,6 +290,14 @@ def _report_lining(
     rd.notes.extend(f"{name} lining: {n}" for n in validity_notes(layers, f, rho0))
 
 
+_T60 = Param(
+    "reverberation_time", "spectrum", "s", "reverberation time T60", required=True,
+    bounds=(1e-4, 1e3), typical=(0.05, 10.0),
+)  # fmt: skip
+_AREA = Param(
+    "absorption_area", "spectrum", "m^2", "equivalent absorption area A", required=True,
+    minimum=0.0, strict=False, bounds=(0.0, 1e8),
+)  # fmt: skip
 _AIR = Param(
     "air_absorption",
     "table",
@@ -292,10 +307,10 @@ _AIR = Param(
 #: The damping forms, by the key that names them.
 DAMPING_KINDS: tuple[Kind, ...] = (
     Kind("damping", "reverberation_time", "Any subsystem: eta = 2.2 / (f T60).", (
-        Param("reverberation_time", "spectrum", "s", "reverberation time T60", required=True, bounds=(1e-4, 1e3), typical=(0.05, 10.0)),
+        _T60,
     ), _read_t60_form, implicit=()),
     Kind("damping", "absorption_area", "Cavities: eta = c A / (8 pi f V).", (
-        Param("absorption_area", "spectrum", "m^2", "equivalent absorption area A", required=True, strict=False),
+        _AREA,
         _AIR,
     ), _read_area_form, implicit=()),
     Kind("damping", "surfaces", "Cavities: absorbing surfaces combined by Sabine or Eyring.", (
@@ -324,4 +339,13 @@ def read_damping(
         with np.errstate(all="ignore"):
             got = DAMPING_FORMS[forms[0]].derive(rd, value, path, context or {})
         return got
-    return rd.spectrum(value, path, minimum=0.0, strict=False)
+    ok, eta = check_value(rd, _LOSS_FACTOR, value, path)
+    return eta if ok else None
+
+
+#: A loss factor given directly (number, table or CSV): above 1 a mode loses its energy
+#: within a cycle and the modal picture of SEA no longer holds (common practice).
+_LOSS_FACTOR = Param(
+    "damping", "spectrum", doc="damping loss factor", minimum=0.0, strict=False,
+    bounds=(0.0, 1.0), basis="common practice: above 1 a mode is damped within one cycle",
+)  # fmt: skip

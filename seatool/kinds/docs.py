@@ -18,6 +18,7 @@ import re
 import sys
 from pathlib import Path
 
+from ..outputs import write_text_atomic
 from .media import FLUID_PARAMS, MATERIAL_PARAMS
 from .params import Param, type_doc
 from .registry import KINDS
@@ -110,7 +111,7 @@ def main(argv: list[str] | None = None) -> int:
             print(f"{DOC.name}: key tables are stale; run python -m seatool.kinds.docs", file=sys.stderr)
         return 1 if missing or new != text else 0
     if new != text:
-        DOC.write_text(new, encoding="utf-8")
+        write_text_atomic(DOC, new)
     for fam, name in missing:
         print(f"{DOC.name}: no key table for {fam} kind {name!r}", file=sys.stderr)
     return 1 if missing else 0

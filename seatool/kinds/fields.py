@@ -45,7 +45,10 @@ LENGTH_BOUNDS = (1e-3, 1e4)
 
 THICKNESS = Param(
     "thickness", unit="m", doc="plate thickness", required=True,
-    bounds=(1e-5, 1.0), typical=(3e-4, 0.05),
+    bounds=(1e-5, 1.0), typical=(3e-4, 0.1),
+    why="sheet and panels of vehicles, machines and buildings lie between 0.3 mm and 0.1 m; "
+    "outside that a thickness is often typed in millimetres and the thin-plate theory may "
+    "not hold",
 )  # fmt: skip
 LX = Param("lx", unit="m", doc="side length (area = lx ly)", required=True, bounds=LENGTH_BOUNDS)
 LY = Param("ly", unit="m", doc="side length", required=True, bounds=LENGTH_BOUNDS)

@@ -116,7 +116,7 @@ STRUCTURE = Kind(
     "subsystem", "structure", "A structure given by its SEA values.",
     (
         _MASS,
-        Param("modal_density", "spectrum", "modes/Hz", "modal density n(f)", required=True),
+        Param("modal_density", "spectrum", "modes/Hz", "modal density n(f)", required=True, bounds=(0.0, 1e12), basis="common practice: a 1e9 m^3 room has about 1e11 modes per Hz at 20 kHz"),
         Param("damping", "damping", doc="damping loss factor (>= 0)", required=True),
     ),
     _structure,

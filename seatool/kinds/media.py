@@ -21,7 +21,7 @@ MATERIAL_PARAMS: tuple[Param, ...] = (
     Param("density", unit="kg/m^3", doc="density", bounds=(0.1, 3e4), default_doc="required unless base"),
     Param("youngs_modulus", unit="Pa", doc="Young's modulus", bounds=(1e3, 2e12), default_doc="required unless base"),
     Param("poisson_ratio", doc="Poisson's ratio, -1 < nu < 0.5", minimum=-1.0, maximum=0.5, strict_max=True, default_doc="required unless base"),
-    Param("loss_factor", doc="damping loss factor of the material itself", strict=False, bounds=(0.0, 1.0), typical=(1e-5, 0.1)),
+    Param("loss_factor", doc="damping loss factor of the material itself", strict=False, bounds=(0.0, 1.0), typical=(0.0, 0.5), why="loss factors above 0.5 are beyond highly damped polymers; the modal picture of SEA needs light damping"),
 )  # fmt: skip
 
 #: The property keys of a material (without ``base``).

@@ -13,7 +13,9 @@ of ``docs/model-format.md`` are generated from the same declarations
 Physical bounds (``bounds``) are hard limits outside which a value is refused (exit code
 2). They are wide, meant to catch a wrong unit or a typing slip rather than to judge a
 design; their basis is stated in ``basis`` (``common practice`` unless a source is named).
-``typical`` is the narrower range of ordinary designs, kept for plausibility notes.
+``typical`` is the narrower range of ordinary designs: a value outside it is accepted with
+a plausibility warning (:func:`seatool.kinds.validate.check_value`; ``--strict`` turns
+warnings into errors).
 """
 
 from __future__ import annotations
@@ -76,9 +78,11 @@ class Param:
     bounds : (float, float) or None
         Hard physical bounds (inclusive); outside them the input is refused.
     typical : (float, float) or None
-        Ordinary range of designs (for plausibility notes).
+        Ordinary range of designs; outside it a plausibility warning is given.
     basis : str
         Where the bounds come from (``common practice`` unless a source is named).
+    why : str
+        Why a value outside ``typical`` matters (shown in the plausibility warning).
     choices : tuple of str
         Allowed values of a ``choice``.
     """
@@ -97,6 +101,7 @@ class Param:
     bounds: tuple[float, float] | None = None
     typical: tuple[float, float] | None = None
     basis: str = "common practice"
+    why: str = ""
     choices: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:

@@ -183,7 +183,8 @@ def _mount(
 
 
 _POINTS = Param(
-    "points", "integer", doc="number of connection points (incoherent)", default=1, minimum=1
+    "points", "integer", doc="number of connection points (incoherent)", default=1, minimum=1,
+    bounds=(1, 1e6),
 )
 
 POINT = Kind(

@@ -12,6 +12,8 @@ from __future__ import annotations
 
 import csv
 import math
+import os
+import stat
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -24,13 +26,20 @@ from ..bands import BandAxis, BandError, band_index
 from ..errors import Problem, closest
 from ..physics.air import AIR_DENSITY, AIR_SOUND_SPEED
 
-__all__ = ["DEFAULT_FLUID", "Reader", "join", "type_name", "unit_text"]
+__all__ = ["DEFAULT_FLUID", "MAX_CSV_BYTES", "Reader", "join", "type_name", "unit_text"]
 
 Array = npt.NDArray[np.float64]
 
 #: Fluid used by a cavity that names none: the default air of
 #: :mod:`seatool.physics.air` (20 C, 101.325 kPa; its source is cited there).
 DEFAULT_FLUID = {"density": AIR_DENSITY, "sound_speed": AIR_SOUND_SPEED}
+
+#: Largest spectrum CSV file read [bytes] (1 MiB: a per-band table of a few columns is a
+#: few kilobytes; anything larger is not a spectrum file).
+MAX_CSV_BYTES = 1 << 20
+
+#: Longest part of a file's cell shown in a message (never more of the file than that).
+_CELL_SHOWN = 40
 
 
 @dataclass
@@ -55,10 +64,21 @@ class Reader:
     #: Names of materials and fluids defined in the file whose definition had problems
     #: (already reported): references to them are not reported again.
     invalid: set[str] = field(default_factory=set)
+    #: Plausibility warnings (file, key path, message): values inside the physical bounds
+    #: but unusual for their role; they become :attr:`seatool.model.Model.warnings`.
+    warnings: list[Problem] = field(default_factory=list)
+    #: Read spectrum files outside the model file's folder tree too (by default refused).
+    allow_outside_files: bool = False
 
     # -- reporting -----------------------------------------------------------------------
     def error(self, path: str, message: str) -> None:
         self.problems.append(Problem(self.file, path, message))
+
+    def warn(self, path: str, message: str) -> None:
+        """A plausibility warning (reported once per key path and message)."""
+        w = Problem(self.file, path, message)
+        if w not in self.warnings:
+            self.warnings.append(w)
 
     # -- structure -----------------------------------------------------------------------
     def table(self, value: Any, path: str) -> dict[str, Any] | None:
@@ -209,8 +229,15 @@ class Reader:
             if val is None:
                 ok = False
                 continue
-            if 0 <= j < len(bands):
-                out[j] = val
+            if not 0 <= j < len(bands):
+                self.error(
+                    where,
+                    f"band {f:g} Hz is outside the model's bands {bands.label(0)} .. "
+                    f"{bands.label(len(bands) - 1)}; give exactly the bands of the model",
+                )
+                ok = False
+                continue
+            out[j] = val
         missing = [bands.label(int(j)) for j in np.flatnonzero(np.isnan(out))]
         if ok and missing:
             shown = ", ".join(missing[:6]) + (" ..." if len(missing) > 6 else "")
@@ -227,14 +254,8 @@ class Reader:
         column = self.string(value["column"], _join(path, "column"))
         if fname is None or column is None:
             return None
-        fpath = (self.base_dir / fname).resolve()
-        try:
-            text = fpath.read_text(encoding="utf-8-sig")
-        except FileNotFoundError:
-            self.error(_join(path, "csv"), f"file {fname!r} not found (looked in {self.base_dir})")
-            return None
-        except (OSError, UnicodeDecodeError) as exc:
-            self.error(_join(path, "csv"), f"cannot read {fname!r}: {exc}")
+        text = self._read_csv_file(fname, _join(path, "csv"))
+        if text is None:
             return None
         rows = [r for r in csv.reader(text.splitlines()) if any(c.strip() for c in r)]
         if not rows:
@@ -249,7 +270,7 @@ class Reader:
         if column not in header:
             self.error(
                 _join(path, "column"),
-                f"no column {column!r} in {fname!r}" + closest(column, header[1:]),
+                f"no column {_cell(column)} in {fname!r}" + closest(column, header[1:]),
             )
             return None
         ci = header.index(column)
@@ -262,15 +283,63 @@ class Reader:
                     f"{fname!r} row {r}: {len(row)} cells, header has {len(header)}",
                 )
                 return None
-            try:
-                fb.append(float(row[0]))
-                vals.append(float(row[ci]))
-            except ValueError:
-                self.error(_join(path, "csv"), f"{fname!r} row {r}: not a number in {row!r}")
-                return None
+            for cell, out_list, col in ((row[0], fb, header[0]), (row[ci], vals, column)):
+                try:
+                    out_list.append(float(cell))
+                except ValueError:
+                    self.error(
+                        _join(path, "csv"),
+                        f"{fname!r} row {r}: not a number in column {_cell(col)}: {_cell(cell)}",
+                    )
+                    return None
         return self._per_band(
             fb, vals, path, unit=unit, minimum=minimum, strict=strict, source=fname
         )
+
+
+    def _read_csv_file(self, fname: str, path: str) -> str | None:
+        """The text of a spectrum file: a regular file, inside the model's folder tree
+        (unless :attr:`allow_outside_files`), at most :data:`MAX_CSV_BYTES`."""
+        base = self.base_dir.resolve()
+        fpath = (base / fname).resolve()
+        if not self.allow_outside_files and not fpath.is_relative_to(base):
+            self.error(
+                path,
+                f"{fname!r} is outside the model's folder {str(base)!r}; move it next to the "
+                "model or allow it explicitly (--allow-outside-files)",
+            )
+            return None
+        try:
+            # O_NONBLOCK: opening a FIFO must not wait for a writer; fstat then refuses it
+            fd = os.open(fpath, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        except FileNotFoundError:
+            self.error(path, f"file {fname!r} not found (looked in {str(base)!r})")
+            return None
+        except OSError as exc:
+            self.error(path, f"cannot read {fname!r}: {exc.strerror or type(exc).__name__}")
+            return None
+        with os.fdopen(fd, "rb") as fh:
+            st = os.fstat(fh.fileno())
+            if not stat.S_ISREG(st.st_mode):
+                self.error(path, f"{fname!r} is not a regular file (a device, pipe or folder)")
+                return None
+            raw = fh.read(MAX_CSV_BYTES + 1)
+        if len(raw) > MAX_CSV_BYTES:
+            self.error(
+                path, f"{fname!r} is larger than {MAX_CSV_BYTES} bytes; not a spectrum table"
+            )
+            return None
+        try:
+            return raw.decode("utf-8-sig")
+        except UnicodeDecodeError:
+            self.error(path, f"{fname!r} is not a UTF-8 text file")
+            return None
+
+
+def _cell(text: str) -> str:
+    """A cell of a user's file for a message: quoted, at most a few dozen characters."""
+    shown = text if len(text) <= _CELL_SHOWN else text[:_CELL_SHOWN] + "..."
+    return repr(shown)
 
 
 def join(path: str, key: str) -> str:

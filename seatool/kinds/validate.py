@@ -60,8 +60,34 @@ def _bounds(rd: Reader, p: Param, x: float, path: str) -> bool:
     return False
 
 
+#: Why a value outside a parameter's typical range matters, unless the parameter says.
+WHY_TYPICAL = "often a wrong unit or a slipped digit; the results would describe another design"
+
+
+def _typical(rd: Reader, p: Param, values: Any, path: str) -> None:
+    """A plausibility warning if any value lies outside ``p.typical`` (never an error)."""
+    if p.typical is None:
+        return
+    lo, hi = p.typical
+    arr = np.asarray(values, dtype=float).ravel()
+    out = arr[(arr < lo) | (arr > hi)]
+    if not out.size:
+        return
+    shown = f"{out[0]:g}" if np.all(out == out[0]) else f"{out.min():g} .. {out.max():g}"
+    u = unit_text(p.unit)
+    rd.warn(
+        path,
+        f"{shown}{u} is outside the typical range {lo:g} .. {hi:g}{u} ({p.basis}): "
+        f"{p.why or WHY_TYPICAL}",
+    )
+
+
 def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]:
-    """Validate one value against its declaration: ``(ok, value)``."""
+    """Validate one value against its declaration: ``(ok, value)``.
+
+    A value inside the bounds but outside the typical range is accepted with a
+    plausibility warning (:meth:`Reader.warn`).
+    """
     t = p.type
     if t in RAW_TYPES:
         return True, value
@@ -69,6 +95,7 @@ def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]
         x = rd.number(value, path, unit=p.unit, minimum=p.minimum, strict=p.strict)
         if x is None or not _bounds(rd, p, x, path):
             return False, None
+        _typical(rd, p, x, path)
         return True, x
     if t == "spectrum":
         arr = rd.spectrum(value, path, unit=p.unit, minimum=p.minimum, strict=p.strict)
@@ -77,6 +104,7 @@ def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]
         for x in np.asarray(arr).ravel():
             if not _bounds(rd, p, float(x), path):
                 return False, None
+        _typical(rd, p, arr, path)
         return True, arr
     if t == "integer":
         lo = int(p.minimum) if p.minimum is not None else 1
@@ -85,6 +113,7 @@ def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]
             return False, None
         if p.bounds is not None and not p.bounds[0] <= value <= p.bounds[1]:
             return _bounds(rd, p, float(value), path), None
+        _typical(rd, p, float(value), path)
         return True, int(value)
     if t == "flag":
         if not isinstance(value, bool):

@@ -10,7 +10,8 @@ Contents
 * Sabine and Eyring reverberation time (:func:`sabine_t60`, :func:`eyring_t60`,
   :func:`reverberation_time` with the Sabine/Eyring switch).
 * Cavity loss factor from absorption area or from per-surface absorption coefficients
-  (:func:`cavity_loss_factor`, :func:`cavity_loss_factor_from_surfaces`).
+  (:func:`cavity_loss_factor`, :func:`cavity_loss_factor_from_surfaces`), and the absorption
+  area a cavity loss factor implies (:func:`absorption_area_from_loss_factor`).
 """
 
 from __future__ import annotations
@@ -28,6 +29,7 @@ from .air import AIR_SOUND_SPEED
 __all__ = [
     "EYRING_THRESHOLD",
     "SABINE_CONSTANT",
+    "absorption_area_from_loss_factor",
     "cavity_loss_factor",
     "cavity_loss_factor_from_surfaces",
     "eyring_t60",
@@ -352,6 +354,53 @@ def cavity_loss_factor(
     a = _non_negative("absorption_area", absorption_area)
     _positive("c0", c0)
     return np.asarray(c0 * a / (8.0 * math.pi * f_ * v), dtype=np.float64)
+
+
+def absorption_area_from_loss_factor(
+    f: npt.ArrayLike,
+    volume: npt.ArrayLike,
+    loss_factor: npt.ArrayLike,
+    *,
+    c0: float = AIR_SOUND_SPEED,
+) -> FloatArray:
+    """Equivalent absorption area implied by the loss factor of a diffuse cavity.
+
+    Parameters
+    ----------
+    f : float or array_like
+        Band centre frequency [Hz].
+    volume : float or array_like
+        Cavity volume V [m^3].
+    loss_factor : float or array_like
+        Damping loss factor of the cavity eta_c [-].
+    c0 : float, optional
+        Speed of sound [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        A = 8 pi f V eta_c / c0 [m^2]; divided by the boundary area S it is the mean
+        absorption coefficient the loss factor implies (Sabine's picture).
+
+    Notes
+    -----
+    The inverse of :func:`cavity_loss_factor`: the power absorbed by the boundaries of a
+    diffuse field, W = c0 A E / (4 V), equals omega eta_c E, so
+
+    .. math:: A = \\frac{4 \\omega V \\eta_c}{c_0} = \\frac{8 \\pi f V \\eta_c}{c_0}.
+
+    References
+    ----------
+    .. [1] Lyon, R.H., DeJong, R.G. (1995) Theory and Application of Statistical Energy
+       Analysis, 2nd ed., Butterworth-Heinemann, ISBN 0-7506-9111-5 (cavity loss factor).
+    .. [2] Kuttruff, H. (2009) Room Acoustics, 5th ed., Spon Press, ISBN 978-0-415-48021-5,
+       ch. 5 (energy balance of a diffuse field).
+    """
+    f_ = _positive("f", f)
+    v = _positive("volume", volume)
+    eta = _non_negative("loss_factor", loss_factor)
+    _positive("c0", c0)
+    return np.asarray(8.0 * math.pi * f_ * v * eta / c0, dtype=np.float64)
 
 
 def cavity_loss_factor_from_surfaces(

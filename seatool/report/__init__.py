@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import json
 import os
-import tempfile
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -19,6 +18,7 @@ from typing import Any
 
 from ..analysis._keypath import read_data
 from ..errors import InputError, Problem
+from ..outputs import OutputBatch, write_text_atomic
 from ..results import CAUTION
 from .content import Content, TargetHook, collect
 from .html import SECTIONS, render_html
@@ -66,32 +66,11 @@ def companion(content: Content) -> dict[str, Any]:
     }
 
 
-def _umask() -> int:
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
-
-
 def _write_all(files: Mapping[Path, str]) -> None:
-    """Write every file or none: all go to temporary files first, then are renamed."""
-    temps: dict[Path, str] = {}
-    done: list[Path] = []
-    try:
+    """Write every file or none (one :class:`~seatool.outputs.OutputBatch`)."""
+    with OutputBatch():
         for path, text in files.items():
-            fd, tmp = tempfile.mkstemp(prefix=".seatool-", suffix=path.suffix, dir=path.parent)
-            temps[path] = tmp
-            os.chmod(tmp, 0o666 & ~_umask())
-            with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-                fh.write(text)
-        for path, tmp in temps.items():
-            os.replace(tmp, path)
-            done.append(path)
-    except BaseException:
-        for tmp in temps.values():
-            Path(tmp).unlink(missing_ok=True)
-        for path in done:
-            path.unlink(missing_ok=True)
-        raise
+            write_text_atomic(path, text)
 
 
 def write_report(

@@ -32,6 +32,7 @@ from ..analysis import variants as variant_analysis
 from ..errors import InputError, Problem, closest
 from ..model import Model, Subsystem
 from ..modelfile import build
+from ..outputs import immediate
 from ..results import Result
 from ..solve import solve
 from ..validity_report import validity_table, weak_band_notes
@@ -274,7 +275,7 @@ def _validity_words(model: Model, receivers: Sequence[str]) -> pd.DataFrame:
 
 
 def _svg(draw: Callable[[Path], object]) -> str:
-    with tempfile.TemporaryDirectory(prefix="seatool-fig-") as d:
+    with tempfile.TemporaryDirectory(prefix="seatool-fig-") as d, immediate():
         p = Path(d) / "figure.svg"
         draw(p)
         return p.read_text(encoding="utf-8")

@@ -122,3 +122,16 @@ def test_invalid_inputs_raise():
         dmp.loss_factor_from_t60(100.0, 0.0)
     with pytest.raises(ValueError, match="relative_humidity"):
         air_absorption.air_attenuation_iso9613(1000.0, relative_humidity=120.0)
+
+
+def test_absorption_area_implied_by_a_loss_factor_matches_sabines_formula():
+    # Sabine's formula (Kuttruff 2009, Room Acoustics, eq. 5.23): T = 0.161 V / A with c =
+    # 343 m/s. A room of 200 m^3 with T = 1 s at 500 Hz has A = 32.2 m^2; its loss factor by
+    # the 60 dB decay (ln(10^6)/(2 pi f T)) must give back that area within 1 %.
+    f, v, t = 500.0, 200.0, 1.0
+    eta = dmp.loss_factor_from_t60(f, t, exact=True)
+    a = dmp.absorption_area_from_loss_factor(f, v, eta, c0=343.0)
+    assert float(a) == pytest.approx(0.161 * v / t, rel=0.01)
+    # (0.161 is Sabine's rounded 24 ln10 / 343 = 0.1611: the 1 % tolerance can fail)
+    with pytest.raises(ValueError, match="volume"):
+        dmp.absorption_area_from_loss_factor(f, -1.0, eta)
