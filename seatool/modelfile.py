@@ -24,6 +24,7 @@ import numpy as np
 from . import progress
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
+from .kinds.low_frequency import read_low_frequency_section
 from .kinds.media import FLUID_PARAMS
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
@@ -53,7 +54,7 @@ _TOP_KEYS = (
     "excitations",
     "uncertainty",
     "targets",  # noise limits per receiver (seatool.targetfile)
-    "low_frequency",  # read by seatool.lowfreq (modal box solution), ignored by the solve
+    "low_frequency",  # boxes solved modally below the SEA range (kinds/low_frequency.py)
 )
 
 _MISSING = object()
@@ -463,6 +464,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
     spreads = read_uncertainty_section(rd, data)
     targets = read_targets(rd, data, subs)
+    low_frequency = read_low_frequency_section(rd, data, subs)
     if rd.problems:
         raise InputError(rd.problems)
     try:
@@ -477,6 +479,7 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
             reports=tuple(rd.reports),
             uncertainty=tuple(spreads),
             targets=tuple(targets),
+            low_frequency=tuple(low_frequency),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None

@@ -293,8 +293,9 @@ def solve_coupled_modes(
     block = max(1, _BLOCK_ELEMENTS // max(1, n * nr))
     with threadpool_limits(limits=1, user_api="blas"):
         # loads that do not change with frequency are projected once
-        g_f = _apply(modes.force_load, f[:1]) if np.ndim(force) < 3 else None
-        g_q = _apply(modes.cavity.T, q[:1]) if np.ndim(volume_velocity) < 3 else None
+        g_f = _apply(modes.force_load, f[:1]) if force is None or np.ndim(force) < 3 else None
+        g_q = (_apply(modes.cavity.T, q[:1])
+               if volume_velocity is None or np.ndim(volume_velocity) < 3 else None)  # fmt: skip
         for s in range(0, nl, block):
             sl = slice(s, min(nl, s + block))
             ws = w[sl]

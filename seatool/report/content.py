@@ -20,7 +20,7 @@ import numpy as np
 import pandas as pd
 from tqdm import tqdm
 
-from .. import plot
+from .. import crossover, plot
 from .. import progress as progress_bars
 from ..analysis import comfort, uncertainty
 from ..analysis import paths as path_analysis
@@ -181,11 +181,20 @@ def _treatment_lines(model: Model) -> list[str]:
     return lines
 
 
-def _levels(result: Result, receivers: Sequence[str]) -> pd.DataFrame:
+def _levels(result: Result, receivers: Sequence[str], merged: pd.DataFrame | None = None
+            ) -> pd.DataFrame:  # fmt: skip
+    """Band levels of the receivers; with a merged low-frequency table, the level of the
+    method of each band and a method column beside each receiver."""
     w = result.wide(list(receivers))
     _, _, refs = result.level_array()
     ref = dict(zip(result.model.names, refs, strict=True))
-    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns})
+    if merged is not None:
+        t = merged[merged["subsystem"].isin(list(receivers))]
+        w = t.pivot(index="band_hz", columns="subsystem", values="level_dB")[list(w.columns)]
+        how = t.pivot(index="band_hz", columns="subsystem", values="method")
+        for pos, n in enumerate(list(w.columns)):
+            w.insert(2 * pos + 1, f"{n} method", how[n])
+    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns if n in ref})
     return w.reset_index().rename(columns={"band_hz": "band [Hz]"})
 
 
@@ -304,7 +313,11 @@ def collect(
     content.tables.update(_model_tables(model, result, data))
     content.treatment_lines = _treatment_lines(model)
     content.notes = list(model.notes) + list(result.solution.notes)
-    content.tables["levels"] = _levels(result, receivers)
+    low = crossover.solve_low_frequency(model, result) if model.low_frequency else None
+    merged = low.table if low is not None else None
+    if low is not None:
+        content.notes += list(low.notes)
+    content.tables["levels"] = _levels(result, receivers, merged)
     ov = result.overall()
     content.tables["overall"] = ov[ov["subsystem"].isin(receivers)].reset_index(drop=True)
     hear = comfort.receiver_metrics(result)
@@ -361,7 +374,7 @@ def collect(
             for n, g in limits.groupby("subsystem")
         }
     content.figures["levels"] = _svg(
-        lambda p: plot.plot_receiver_levels(result, receivers, p, limits=lim_map)
+        lambda p: plot.plot_receiver_levels(result, receivers, p, limits=lim_map, merged=merged)
     )
     content.figures["flow"] = _svg(
         lambda p: plot.plot_energy_flow(result, p, band=band_index, highlight=highlight)
