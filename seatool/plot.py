@@ -3,7 +3,12 @@
 Band levels are drawn as steps over the band edges (one flat segment per band), on a
 logarithmic frequency axis labelled with the nominal band centres; every axis names its
 reference. Bands where SEA validity is weak are hatched grey spans with their own legend
-entry; every figure carries the caution in its footer.
+entry; where a model has ``[low_frequency]`` boxes, the bands of the modal solution are
+shaded and the other method's level dotted where both were computed. Every figure carries
+the caution in its footer.
+
+Longer than 600 lines on purpose: every figure lives here so that matplotlib is imported in
+one module only (DEVELOPERS.md, "Layers").
 """
 
 from __future__ import annotations
