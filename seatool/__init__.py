@@ -131,10 +131,6 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.solve as solve
 
         return solve
-    if name == "lowfreq":
-        import seatool.lowfreq as lowfreq
-
-        return lowfreq
     if name == "crossover":
         import seatool.crossover as crossover
 

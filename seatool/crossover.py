@@ -28,6 +28,7 @@ import numpy.typing as npt
 import pandas as pd
 
 from . import levels
+from .errors import InputError, Problem
 from .modal import (
     DiffuseField,
     Excitation,
@@ -38,7 +39,7 @@ from .modal import (
     PointSource,
     solve_modal,
 )
-from .model import Model
+from .model import LowFrequency, Model, PanelPlacement
 from .physics import mobility
 from .plot import _pyplot, save_figure
 from .results import CAUTION, Result
@@ -49,10 +50,14 @@ __all__ = [
     "CrossoverResult",
     "PanelPlacement",
     "crossover_band",
+    "LowFrequencyResult",
+    "SEA_ONLY_COLUMNS",
     "merge_tables",
+    "with_methods",
     "modal_box_from_model",
     "plot_crossover",
     "solve_crossover",
+    "solve_low_frequency",
 ]
 
 Array = npt.NDArray[np.float64]
@@ -62,17 +67,6 @@ Array = npt.NDArray[np.float64]
 #: symmetry lines (a corner would excite every mode at its maximum, the centre only half).
 DEFAULT_SOURCE_POINT = (0.31, 0.27, 0.23)
 DEFAULT_FORCE_POINT = (0.37, 0.29)
-
-
-@dataclass(frozen=True)
-class PanelPlacement:
-    """Where an SEA panel sits on the box: a face (``x0``... ``z1``) and its corner (u0, v0)
-    [m]; ``force_point`` (u, v) [m] is where a power input on it acts (default
-    :data:`DEFAULT_FORCE_POINT` times its sides)."""
-
-    face: str
-    offset: tuple[float, float] = (0.0, 0.0)
-    force_point: tuple[float, float] | None = None
 
 
 def _outside_loss(model: Model, members: set[str]) -> dict[str, Array]:
@@ -205,7 +199,18 @@ class CrossoverResult:
     notes: tuple[str, ...] = field(default=())
 
 
-def merge_tables(sea: Result, modal: ModalResult, modal_bands: npt.ArrayLike) -> pd.DataFrame:
+def _set_modal(t: pd.DataFrame, modal: ModalResult, name: str, pos: np.ndarray, use: set[int]
+               ) -> None:  # fmt: skip
+    lv = modal.level(name)
+    for j, b in enumerate(modal.band_positions):
+        row = (t["subsystem"] == name) & (pos == b)
+        t.loc[row, "modal_level_dB"] = lv[j]
+        if int(b) in use:
+            t.loc[row, "method"] = "modal"
+
+
+def merge_tables(sea: Result, modal: ModalResult | None, modal_bands: npt.ArrayLike
+                 ) -> pd.DataFrame:  # fmt: skip
     """Per-band levels of every subsystem with the method that produced each band.
 
     ``modal_bands`` are the band positions where the modal value is used (for the box's
@@ -221,13 +226,8 @@ def merge_tables(sea: Result, modal: ModalResult, modal_bands: npt.ArrayLike) ->
     nb = len(sea.model.bands)
     pos_in_table = np.tile(np.arange(nb), len(sea.model.subsystems))
     t["method"] = "SEA"
-    for name in modal.quantity:
-        lv = modal.level(name)
-        for j, b in enumerate(modal.band_positions):
-            row = (t["subsystem"] == name) & (pos_in_table == b)
-            t.loc[row, "modal_level_dB"] = lv[j]
-            if int(b) in use:
-                t.loc[row, "method"] = "modal"
+    for name in modal.quantity if modal is not None else ():
+        _set_modal(t, modal, name, pos_in_table, use)  # type: ignore[arg-type]
     t["level_dB"] = np.where(t["method"] == "modal", t["modal_level_dB"], t["sea_level_dB"])
     return t[["subsystem", "band_hz", "band_exact_hz", "level_dB", "level_ref", "quantity",
               "method", "modal_level_dB", "sea_level_dB"]]  # fmt: skip
@@ -290,6 +290,77 @@ def solve_crossover(
     notes.append("subsystems outside the box keep their SEA levels in every band")
     table = merge_tables(sea, modal, np.arange(j))
     return CrossoverResult(sea, modal, j, table, tuple(notes))
+
+
+@dataclass(frozen=True)
+class LowFrequencyResult:
+    """Every ``[low_frequency]`` box of a model solved, merged with its SEA result.
+
+    ``table`` has one row per subsystem and band (every subsystem of the model) with the
+    columns of :func:`merge_tables`: ``level_dB`` is the level of the ``method`` ('modal'
+    or 'SEA') used in that band. ``boxes`` are the crossover results per box.
+    """
+
+    sea: Result
+    boxes: tuple[CrossoverResult, ...]
+    table: pd.DataFrame
+    notes: tuple[str, ...]
+
+
+def solve_low_frequency(
+    model: Model, sea: Result | None = None, requests: Sequence[LowFrequency] | None = None
+) -> LowFrequencyResult:
+    """Solve the boxes ``requests`` (default: the model's ``low_frequency``) and merge them.
+
+    A box the modal solution cannot take (nothing excites it, a panel that is not a plain
+    plate ...) raises :class:`~seatool.errors.InputError` naming ``low_frequency.CAVITY``.
+    """
+    sea = sea if sea is not None else Result(model, solve(model))
+    boxes = []
+    for rq in model.low_frequency if requests is None else requests:
+        try:
+            boxes.append(solve_crossover(model, rq.cavity, rq.dims, rq.panels, up_to=rq.up_to,
+                                         sea=sea))  # fmt: skip
+        except ValueError as exc:
+            raise InputError([Problem(model.source, f"low_frequency.{rq.cavity}", str(exc))]
+                             ) from None  # fmt: skip
+    if not boxes:
+        return LowFrequencyResult(sea, (), merge_tables(sea, None, ()), ())
+    table = boxes[0].table.copy()
+    for box in boxes[1:]:
+        own = box.table["subsystem"].isin(list(box.modal.quantity)).to_numpy()
+        table.loc[own] = box.table.loc[own].to_numpy()
+    notes = tuple(n for b in boxes for n in b.notes) + (
+        "the comfort metrics, target margins, paths, sensitivities and spread use the SEA "
+        "levels in every band",
+    )
+    return LowFrequencyResult(sea, tuple(boxes), table, notes)
+
+
+#: Columns of a per-band SEA table that describe the SEA solution only (its energy and the
+#: spread of the SEA estimate): blank in the bands of the modal solution.
+SEA_ONLY_COLUMNS = ("energy_J", "acceleration_level_dB", "relative_variance", "level_std_dB")
+
+
+def with_methods(table: pd.DataFrame, merged: pd.DataFrame) -> pd.DataFrame:
+    """A per-band SEA table (``subsystem, band_hz, level_dB ...``, e.g. the CSV of ``solve``)
+    with the merged levels of :class:`LowFrequencyResult`: ``level_dB`` the level of the
+    method used, ``method``, ``modal_level_dB`` and ``sea_level_dB`` added after it, and the
+    SEA-only columns (:data:`SEA_ONLY_COLUMNS`, ``level_p*``) blank where the method is
+    modal."""
+    cols = ["subsystem", "band_hz", "level_dB", "method", "modal_level_dB", "sea_level_dB"]
+    out = table.drop(columns="level_dB").merge(merged[cols], on=["subsystem", "band_hz"],
+                                                how="left", validate="one_to_one")  # fmt: skip
+    modal = (out["method"] == "modal").to_numpy()
+    for c in out.columns:
+        if c in SEA_ONLY_COLUMNS or c.startswith("level_p"):
+            out.loc[modal, c] = np.nan
+    order = list(table.columns)
+    at = order.index("level_dB") + 1
+    order[at:at] = ["method", "modal_level_dB", "sea_level_dB"]
+    out = out[order]
+    out.attrs.update(table.attrs)
+    return out
 
 
 def plot_crossover(result: CrossoverResult, path: str | os.PathLike[str]) -> Path:

@@ -16,6 +16,11 @@ check of the tests shows 0.86/N). The convergence check re-solves with
 ``check_factor`` (default 1.5) times the upper edge and reports the largest level change
 in any band; it is stored in :attr:`ModalResult.convergence_db` and in the notes.
 
+The coupled equations are solved through the coupled modes (one eigendecomposition, modal
+damping: :mod:`seatool.physics.modal_eigen`) or directly per line (exact:
+:func:`seatool.physics.modal_coupled.solve_coupled`), whichever needs fewer operations
+(``solver="auto"``); the notes say which.
+
 Excitations are uncorrelated with each other; their mean-square responses add. Band values
 are means over frequency lines that resolve the narrowest modal peak
 (:func:`seatool.physics.modal_coupled.band_lines`), i.e. the response to a band-limited
@@ -36,6 +41,7 @@ from . import levels
 from .bands import BandAxis
 from .physics import modal_box as mb
 from .physics import modal_coupled as mc
+from .physics import modal_eigen as me
 
 __all__ = [
     "DiffuseField",
@@ -44,8 +50,16 @@ __all__ = [
     "ModalResult",
     "PointForce",
     "PointSource",
+    "SOLVERS",
     "solve_modal",
 ]
+
+#: How the coupled equations are solved per line: through the coupled modes (one
+#: eigendecomposition, modal damping with damping-coupled clusters,
+#: :mod:`seatool.physics.modal_eigen`) or directly (the exact per-line solve,
+#: :func:`seatool.physics.modal_coupled.solve_coupled`); "auto" takes the one with the
+#: smaller operation count.
+SOLVERS = ("auto", "coupled_modes", "direct")
 
 Array = npt.NDArray[np.float64]
 
@@ -284,23 +298,22 @@ def _solve_once(
     pos: npt.NDArray[np.int64],
     f_trunc: float,
     lines: tuple[Array, Array, npt.NDArray[np.int64]],
-) -> tuple[dict[str, Array], dict[str, int]]:
+    solver: str = "auto",
+) -> tuple[dict[str, Array], dict[str, int], str]:
     md = _modes(box, f_trunc)
     f, weight, band_of_line = lines
     w = 2.0 * np.pi * f
     bands = box.bands
-    zs = [
-        mc.modal_impedance(w, pm.frequency, pm.modal_mass,
-                           _mode_loss(pm.frequency, bands, np.asarray(p.loss_factor)))
-        for p, pm in zip(box.panels, md.plates, strict=True)
-    ]  # fmt: skip
-    z = np.concatenate(zs, axis=1) if zs else np.zeros((w.size, 0), dtype=complex)
     cav = md.cavity
-    y = mc.cavity_modal_admittance_term(
-        w, cav.frequency, cav.norm, _mode_loss(cav.frequency, bands, np.asarray(box.loss_factor)),
-        density=box.density, sound_speed=box.sound_speed,
-    )  # fmt: skip
-    nk, nn, nl = z.shape[1], y.shape[1], w.size
+    plate_f = np.concatenate([pm.frequency for pm in md.plates]) if md.plates else np.zeros(0)
+    plate_m = np.concatenate([np.broadcast_to(pm.modal_mass, (len(pm),)) for pm in md.plates]
+                             ) if md.plates else np.zeros(0)  # fmt: skip
+    plate_eta = np.concatenate([
+        _mode_loss(pm.frequency, bands, np.asarray(p.loss_factor))
+        for p, pm in zip(box.panels, md.plates, strict=True)
+    ]) if md.plates else np.zeros(0)  # fmt: skip
+    cav_eta = _mode_loss(cav.frequency, bands, np.asarray(box.loss_factor))
+    nk, nn, nl = plate_f.size, len(cav), w.size
     forces, sources, col_weight = [], [], []
     line_band = pos[band_of_line]
     for e in excitations:
@@ -333,7 +346,19 @@ def _solve_once(
     rhs_f = np.concatenate(forces, axis=2)
     rhs_q = np.concatenate(sources, axis=2)
     cw = np.concatenate(col_weight, axis=1)  # (L, R)
-    vel, prs = mc.solve_coupled(z, y, md.coupling, rhs_f, rhs_q)
+    if solver == "auto":
+        diffuse = any(isinstance(e, DiffuseField) for e in excitations)
+        solver = _cheaper(nk, nn, nl, rhs_f.shape[2], frequency_dependent=diffuse)
+    if solver == "coupled_modes" and nk > 0:
+        modes = me.coupled_modes(plate_f, plate_m, plate_eta, cav.frequency, cav.norm, cav_eta,
+                                 md.coupling, density=box.density, sound_speed=box.sound_speed)  # fmt: skip
+        vel, prs = me.solve_coupled_modes(modes, w, _constant(rhs_f), _constant(rhs_q))
+    else:
+        solver = "direct"
+        z = mc.modal_impedance(w, plate_f, plate_m, plate_eta) if nk else np.zeros((nl, 0), complex)
+        y = mc.cavity_modal_admittance_term(w, cav.frequency, cav.norm, cav_eta,
+                                            density=box.density, sound_speed=box.sound_speed)  # fmt: skip
+        vel, prs = mc.solve_coupled(z, y, md.coupling, rhs_f, rhs_q)
     ms_p = np.einsum("n,lnr->lr", cav.norm / box.volume, np.abs(prs) ** 2)
     out = {box.name: mc.line_average(np.sum(cw * ms_p, axis=1), weight, band_of_line, pos.size)}
     counts = {box.name: len(cav)}
@@ -341,7 +366,23 @@ def _solve_once(
         ms_v = 0.25 * np.sum(np.abs(vel[:, sl, :]) ** 2, axis=1)
         out[p.name] = mc.line_average(np.sum(cw * ms_v, axis=1), weight, band_of_line, pos.size)
         counts[p.name] = len(pm)
-    return out, counts
+    return out, counts, solver
+
+
+def _constant(rhs: npt.NDArray[np.complex128] | Array) -> npt.NDArray[np.complex128] | Array:
+    """(L, S, R) loads the same at every line -> (S, R), so they are projected once."""
+    if rhs.shape[0] > 0 and np.all(rhs == rhs[:1]):
+        return np.asarray(rhs[0])
+    return rhs
+
+
+def _cheaper(nk: int, nn: int, nl: int, nr: int, *, frequency_dependent: bool) -> str:
+    """The solver with the smaller multiply-add count (dense LAPACK/BLAS estimates)."""
+    ns, ng = min(nk, nn), max(nk, nn)
+    direct = nl * (ns * ns * ng + ns**3 / 3.0 + ns * ns * nr)
+    n = nk + nn
+    modal = 10.0 * n**3 + nl * nr * n * (2 * n + (nk if frequency_dependent else 0))
+    return "coupled_modes" if modal < direct else "direct"
 
 
 def solve_modal(
@@ -353,6 +394,7 @@ def solve_modal(
     truncation_factor: float = 2.0,
     check_factor: float | None = 1.5,
     lines_per_bandwidth: float = 4.0,
+    solver: str = "auto",
 ) -> ModalResult:
     """Band-averaged modal solution of ``box`` for the bands with centre up to ``f_max`` [Hz].
 
@@ -372,6 +414,8 @@ def solve_modal(
         Truncation factor of the convergence check (default 1.5; None skips the check).
     lines_per_bandwidth : float, optional
         Lines per half-power bandwidth of the most lightly damped mode (default 4).
+    solver : {"auto", "coupled_modes", "direct"}, optional
+        See :data:`SOLVERS` (default "auto"; the notes say which one ran).
 
     Returns
     -------
@@ -392,6 +436,9 @@ def solve_modal(
     if pos.size == 0:
         msg = f"no band with centre between f_min and f_max = {f_max:g} Hz"
         raise ValueError(msg)
+    if solver not in SOLVERS:
+        msg = f"solver must be one of {', '.join(SOLVERS)}, got {solver!r}"
+        raise ValueError(msg)
     if truncation_factor < 1.0:
         msg = "truncation_factor must be >= 1"
         raise ValueError(msg)
@@ -401,17 +448,19 @@ def solve_modal(
     lines = mc.band_lines(bands.lower[pos], bands.upper[pos], eta_min,
                           lines_per_bandwidth=lines_per_bandwidth)  # fmt: skip
     t0 = time.perf_counter()
-    ms, counts = _solve_once(box, excitations, pos, truncation_factor * f_top, lines)
+    ms, counts, used = _solve_once(box, excitations, pos, truncation_factor * f_top, lines, solver)
     seconds = time.perf_counter() - t0
     conv = float("nan")
     notes = [
         f"{box.name}: modal solution up to {bands.label(int(pos[-1]))} with "
         + ", ".join(f"{n} {k} modes" for k, n in counts.items())
         + f" (natural frequencies up to {truncation_factor:g} x {f_top:.4g} Hz), "
-        f"{lines[0].size} frequency lines"
+        f"{lines[0].size} frequency lines, "
+        + ("through the coupled modes (modal damping)" if used == "coupled_modes"
+           else "solved directly per line")  # fmt: skip
     ]
     if check_factor is not None and check_factor < truncation_factor:
-        ms2, _ = _solve_once(box, excitations, pos, check_factor * f_top, lines)
+        ms2, _, _ = _solve_once(box, excitations, pos, check_factor * f_top, lines, used)
         with np.errstate(divide="ignore", invalid="ignore"):
             diffs = [np.abs(10 * np.log10(ms[k] / ms2[k])) for k in ms]
         conv = float(np.nanmax(np.concatenate(diffs)))

@@ -25,7 +25,9 @@ __all__ = [
     "Connection",
     "Uncertain",
     "Excitation",
+    "LowFrequency",
     "Model",
+    "PanelPlacement",
     "ModelError",
     "Subsystem",
     "Target",
@@ -199,6 +201,33 @@ class Target:
 
 
 @dataclass(frozen=True)
+class PanelPlacement:
+    """Where a panel subsystem sits on a box-shaped cavity: a face (``x0``... ``z1``) and its
+    corner (u0, v0) [m]; ``force_point`` (u, v) [m] is where a power input on it acts (None:
+    the modal solution's default point)."""
+
+    face: str
+    offset: tuple[float, float] = (0.0, 0.0)
+    force_point: tuple[float, float] | None = None
+
+
+@dataclass(frozen=True)
+class LowFrequency:
+    """A request for the modal solution of a box-shaped cavity below the SEA range
+    (``[low_frequency.CAVITY]`` of a model file).
+
+    ``dims`` (Lx, Ly, Lz) [m] (None: the cavity's own dimensions), ``up_to`` the highest
+    band centre solved modally [Hz] (None: chosen from the SEA validity limits), ``panels``
+    the panel subsystems in its walls by name.
+    """
+
+    cavity: str
+    dims: tuple[float, float, float] | None
+    up_to: float | None
+    panels: Mapping[str, PanelPlacement]
+
+
+@dataclass(frozen=True)
 class Model:
     """A complete SEA model, ready to solve."""
 
@@ -219,6 +248,9 @@ class Model:
     uncertainty: tuple[Uncertain, ...] = ()
     #: Noise limits per receiver (``[targets.NAME]``), checked by :mod:`seatool.analysis.targets`.
     targets: tuple[Target, ...] = ()
+    #: Boxes solved modally below the SEA range (``[low_frequency.CAVITY]``), merged with the
+    #: SEA result per band by :mod:`seatool.crossover`.
+    low_frequency: tuple[LowFrequency, ...] = ()
 
     def __post_init__(self) -> None:
         nb = len(self.bands)
@@ -315,6 +347,19 @@ class Model:
                 bl = _frozen(t.band_limit, nb, f"targets.{t.name}.band_limit")
             tgs.append(_replace(t, limits=dict(t.limits), band_limit=bl))
         object.__setattr__(self, "targets", tuple(tgs))
+        boxes: set[str] = set()
+        for lf in self.low_frequency:
+            where = f"low_frequency.{lf.cavity}"
+            if lf.cavity in boxes:
+                raise ModelError(f"{where}: the cavity is asked for twice")
+            boxes.add(lf.cavity)
+            if lf.cavity not in known or self.subsystem(lf.cavity).quantity != "sound_pressure":
+                raise ModelError(f"{where}: not a cavity of the model")
+            if not lf.panels:
+                raise ModelError(f"{where}: name at least one panel")
+            for name in lf.panels:
+                if name not in known or self.subsystem(name).quantity != "velocity":
+                    raise ModelError(f"{where}.panels.{name}: not a panel of the model")
 
     # -- lookup -------------------------------------------------------------------------
     @property

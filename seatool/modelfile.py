@@ -27,6 +27,7 @@ from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
 from .kinds.excitations import NONRESONANT_SUFFIX, diffuse_nonresonant
 from .kinds.facing import apply_facing
+from .kinds.low_frequency import read_low_frequency_section
 from .kinds.media import FLUID_PARAMS
 from .kinds.plausibility import check_model
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
@@ -60,7 +61,7 @@ _TOP_KEYS = (
     "excitations",
     "uncertainty",
     "targets",  # noise limits per receiver (seatool.targetfile)
-    "low_frequency",  # read by seatool.lowfreq (modal box solution), ignored by the solve
+    "low_frequency",  # boxes solved modally below the SEA range (kinds/low_frequency.py)
 )
 
 _MISSING = object()
@@ -599,6 +600,7 @@ def build(
     )
     spreads = read_uncertainty_section(rd, data)
     targets = read_targets(rd, data, subs)
+    low_frequency = read_low_frequency_section(rd, data, subs)
     if rd.problems:
         raise InputError(rd.problems)
     check_model(rd, subs, data.get("connections"))
@@ -621,6 +623,7 @@ def build(
             warnings=tuple(rd.warnings),
             uncertainty=tuple(spreads),
             targets=tuple(targets),
+            low_frequency=tuple(low_frequency),
         )
     except ModelError as exc:
         raise InputError([Problem(file, "", str(exc))]) from None

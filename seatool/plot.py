@@ -3,7 +3,12 @@
 Band levels are drawn as steps over the band edges (one flat segment per band), on a
 logarithmic frequency axis labelled with the nominal band centres; every axis names its
 reference. Bands where SEA validity is weak are hatched grey spans with their own legend
-entry; every figure carries the caution in its footer.
+entry; where a model has ``[low_frequency]`` boxes, the bands of the modal solution are
+shaded and the other method's level dotted where both were computed. Every figure carries
+the caution in its footer.
+
+Longer than 600 lines on purpose: every figure lives here so that matplotlib is imported in
+one module only (DEVELOPERS.md, "Layers").
 """
 
 from __future__ import annotations
@@ -101,6 +106,7 @@ def plot_levels(
     names: Sequence[str] | None = None,
     *,
     confidence: pd.DataFrame | None = None,
+    merged: pd.DataFrame | None = None,
 ) -> Path:
     """Write a figure of the band levels of ``names`` (default: all with a level) to ``path``.
 
@@ -108,6 +114,10 @@ def plot_levels(
     reference in the axis label. The file type follows the suffix (``.png``, ``.pdf``,
     ``.svg``). ``confidence`` (:func:`seatool.analysis.confidence.confidence_bands`)
     shades each curve's 5-95 % band. Returns the path written.
+    With ``merged`` (a table with a ``method`` column,
+    :func:`seatool.crossover.merge_tables`) the levels are those of the method of each
+    band, the bands of the modal solution shaded and the other method's level dotted where
+    both were computed.
     """
     plt = _pyplot()
     model = result.model
@@ -123,19 +133,28 @@ def plot_levels(
         len(groups), 1, figsize=(8.0, 3.2 * len(groups) + 0.6), squeeze=False, sharex=True
     )
     edges = np.append(bands.lower, bands.upper[-1])
+    any_modal = False
     for ax, (q, members) in zip(axes[:, 0], groups.items(), strict=True):
         weak_any = np.zeros(len(bands), dtype=bool)
+        modal_any = np.zeros(len(bands), dtype=bool)
         for k, n in enumerate(members):
             i = idx[n]
-            y = np.append(lv[i], lv[i][-1])
+            got = _methods(merged, n, len(bands))
+            level = lv[i] if got is None else got[0]
+            y = np.append(level, level[-1])
             ax.step(edges, y, where="post", label=n, linewidth=1.6,
                     color=PALETTE[k % len(PALETTE)])  # fmt: skip
             if confidence is not None:
                 _shade_band(ax, bands, confidence, n, PALETTE[k % len(PALETTE)])
+            if got is not None:
+                _draw_methods(ax, bands, n, PALETTE[k % len(PALETTE)], got)
+                modal_any |= got[2]
             bad = weak.get(n)
             if bad is not None:
-                weak_any |= bad
+                weak_any |= bad & (got is None or ~got[2])
         _shade_weak(ax, bands, weak_any)
+        _shade_modal(ax, bands, modal_any)
+        any_modal |= bool(modal_any.any())
         ax.set_xscale("log")
         ax.set_ylabel(f"{_QUANTITY_LABEL.get(q, q)} [dB {refs[idx[members[0]]]}]")
         ax.grid(True, which="both", alpha=0.3)
@@ -151,7 +170,9 @@ def plot_levels(
     title = model.title or "band levels"
     shaded = "; shaded: 5-95 % confidence band" if confidence is not None else ""
     axes[0, 0].set_title(title + "\n(hatched: bands where SEA validity is weak for a subsystem "
-                         f"of that panel{shaded})", fontsize=10)  # fmt: skip
+                         "of that panel" + (";\nshaded: " + METHOD_LABEL + "; dotted: the other "
+                         "method where both were computed" if any_modal else "") + f"{shaded})",
+                         fontsize=10)  # fmt: skip
     fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=7, wrap=True)
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     out = Path(path)
@@ -303,6 +324,41 @@ def _shade_band(ax: Any, bands: Any, confidence: pd.DataFrame, name: str, colour
                     label=f"{name}: 5-95 %")  # fmt: skip
 
 
+#: Caption of the bands of the modal solution and of the other method's level.
+METHOD_LABEL = "method = modal (below the SEA range)"
+
+
+def _methods(merged: pd.DataFrame | None, name: str, nb: int
+             ) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:  # fmt: skip
+    """(level used, level of the other method or NaN, modal mask) of ``name`` from a merged
+    table (:func:`seatool.crossover.merge_tables`), or None if no band of it is modal."""
+    if merged is None:
+        return None
+    rows = merged[merged["subsystem"] == name]
+    modal = rows["method"].to_numpy() == "modal"
+    if len(rows) != nb or not modal.any():
+        return None
+    mod = rows["modal_level_dB"].to_numpy(dtype=float)
+    other = np.where(modal, rows["sea_level_dB"].to_numpy(dtype=float), mod)
+    return rows["level_dB"].to_numpy(dtype=float), other, modal
+
+
+def _draw_methods(ax: Any, bands: Any, name: str, colour: str,
+                  got: tuple[np.ndarray, np.ndarray, np.ndarray]) -> None:  # fmt: skip
+    """The other method's level (dotted) where both were computed: the overlap region."""
+    _, other, _ = got
+    ax.step(*_steps(bands, other), where="post", color=colour, linewidth=1.0, linestyle=":",
+            label=f"{name}: other method")  # fmt: skip
+
+
+def _shade_modal(ax: Any, bands: Any, modal: np.ndarray) -> None:
+    first = True
+    for j in np.flatnonzero(modal):
+        ax.axvspan(bands.lower[j], bands.upper[j], color="#4c72b0", alpha=0.10, linewidth=0,
+                   label=METHOD_LABEL if first else None)  # fmt: skip
+        first = False
+
+
 def plot_receiver_levels(
     result: Result,
     receivers: Sequence[str],
@@ -311,12 +367,16 @@ def plot_receiver_levels(
     limits: Mapping[str, np.ndarray] | None = None,
     fmt: str | None = None,
     confidence: pd.DataFrame | None = None,
+    merged: pd.DataFrame | None = None,
 ) -> None:
     """Band levels of the receivers, weak-SEA bands hatched, limits dashed where given.
 
     ``limits`` maps a receiver to its per-band limit [dB, same reference] (NaN: none).
     Bands are hatched where any shown receiver is weak. ``confidence``
     (:func:`seatool.analysis.confidence.confidence_bands`) shades each 5-95 % band.
+    ``merged`` as in
+    :func:`plot_levels`: the method of each band, modal bands shaded, the other method
+    dotted where both were computed.
     """
     model = result.model
     bands = model.bands
@@ -325,10 +385,16 @@ def plot_receiver_levels(
     weak_by = _weak_bands(result)
     fig, (ax,) = _new((8.0, 4.4))
     weak = np.zeros(len(bands), dtype=bool)
+    modal_any = np.zeros(len(bands), dtype=bool)
     for k, name in enumerate(receivers):
         i = idx[name]
         colour = PALETTE[k % len(PALETTE)]
-        ax.step(*_steps(bands, lv[i]), where="post", color=colour, linewidth=1.8, label=name)
+        got = _methods(merged, name, len(bands))
+        level = lv[i] if got is None else got[0]
+        ax.step(*_steps(bands, level), where="post", color=colour, linewidth=1.8, label=name)
+        if got is not None:
+            _draw_methods(ax, bands, name, colour, got)
+            modal_any |= got[2]
         if confidence is not None:
             _shade_band(ax, bands, confidence, name, colour)
         if limits is not None and name in limits:
@@ -336,8 +402,9 @@ def plot_receiver_levels(
                     color=colour, linewidth=1.2, linestyle="--", label=f"{name}: limit")  # fmt: skip
         w = weak_by.get(name)
         if w is not None:
-            weak |= w
+            weak |= w & (got is None or ~got[2])
     _shade_weak(ax, bands, weak)
+    _shade_modal(ax, bands, modal_any)
     _band_axis(ax, bands)
     _, quantity, _ = result.level_array()
     first = idx[receivers[0]] if receivers else 0

@@ -263,32 +263,64 @@ class Result:
         write_csv(self.table(), path)
 
     def render(
-        self, names: list[str] | None = None, *, digits: int = 1, caution: bool = True
+        self,
+        names: list[str] | None = None,
+        *,
+        digits: int = 1,
+        caution: bool = True,
+        merged: pd.DataFrame | None = None,
     ) -> str:
         """Compact text table of band levels with overall totals and notes.
 
         The last line is the caution (:data:`seatool.levels.CAUTION`) unless ``caution`` is
-        False (the command line prints it once, after everything else).
+        False (the command line prints it once, after everything else). ``merged`` is a
+        per-band table with a ``method`` column (:func:`seatool.crossover.merge_tables`):
+        its ``level_dB`` is shown instead, bands of the modal solution marked ``*``, and the
+        overall levels are the band sums of what is shown.
         """
         m = self.model
-        w = self.wide(names)
-        _, _, refs = self.level_array()
+        if merged is None:
+            w = self.wide(names)
+            modal = np.zeros(w.shape, dtype=bool)
+        else:
+            t = merged if names is None else merged[merged["subsystem"].isin(names)]
+            order = [n for n in m.names if n in set(t["subsystem"])]
+            w = t.pivot(index="band_hz", columns="subsystem", values="level_dB")[order]
+            modal = (t.pivot(index="band_hz", columns="subsystem", values="method")[order]
+                     == "modal").to_numpy()  # fmt: skip
+        _, quantity, refs = self.level_array()
         q = dict(zip(m.names, refs, strict=True))
         cols = list(w.columns)
         head = ["band"] + cols
         values = w.to_numpy(dtype=float)
+        mark = np.where(modal, "*", " " if modal.any() else "")
         lines_tab = [
-            [m.bands.label(i)] + [f"{values[i, k]:.{digits}f}" for k in range(len(cols))]
+            [m.bands.label(i)]
+            + [f"{values[i, k]:.{digits}f}{mark[i, k]}" for k in range(len(cols))]
             for i in range(values.shape[0])
         ]
-        ov = self.overall()
-        total = dict(zip(ov["subsystem"], ov["overall_dB"].to_numpy(dtype=float), strict=True))
-        a_total = dict(zip(ov["subsystem"], ov["overall_dBA"].to_numpy(dtype=float), strict=True))
-        lines_tab.append(["overall"] + [f"{total[c]:.{digits}f}" for c in cols])
+        pad = " " if modal.any() else ""
+        if merged is None:
+            ov = self.overall()
+            total = dict(zip(ov["subsystem"], ov["overall_dB"].to_numpy(dtype=float), strict=True))
+            a_total = dict(
+                zip(ov["subsystem"], ov["overall_dBA"].to_numpy(dtype=float), strict=True)
+            )
+        else:
+            kind = dict(zip(m.names, quantity, strict=True))
+            aw = a_weighting(m.bands.centre)
+            total = {c: float(levels.level_sum(values[:, k])) for k, c in enumerate(cols)}
+            a_total = {
+                c: float(levels.level_sum(values[:, k] + aw))
+                if kind[c] == "sound_pressure" else np.nan
+                for k, c in enumerate(cols)
+            }  # fmt: skip
+        lines_tab.append(["overall"] + [f"{total[c]:.{digits}f}{pad}" for c in cols])
         if any(np.isfinite(a_total[c]) for c in cols):
             lines_tab.append(
                 ["overall dB(A)"]
-                + [f"{a_total[c]:.{digits}f}" if np.isfinite(a_total[c]) else "-" for c in cols]
+                + [f"{a_total[c]:.{digits}f}{pad}" if np.isfinite(a_total[c]) else f"-{pad}"
+                   for c in cols]  # fmt: skip
             )
         widths = [max(len(r[k]) for r in [head, *lines_tab]) for k in range(len(head))]
         fmt = "  ".join(f"{{:>{wd}}}" for wd in widths)
@@ -300,6 +332,9 @@ class Result:
         out.extend(fmt.format(*r) for r in lines_tab)
         out.append("")
         out.append("levels in dB: " + "; ".join(f"{c} {q[c]}" for c in cols))
+        if modal.any():
+            out.append("method: * modal solution (below the SEA range, [low_frequency]); "
+                       "every other value SEA")  # fmt: skip
         out.append(f"conservation residual (max over bands): {self.solution.residual.max():.1e}")
         src = self.sources()
         if len(src):

@@ -53,7 +53,6 @@ MODULES = {
     "seatool.solve": "solve",
     "seatool.modal": "solve",
     "seatool.crossover": "reports",
-    "seatool.lowfreq": "reports",
     "seatool.results": "results",
     # per-band SEA validity of a model: Result.notes and Result.validity show it
     "seatool.validity_report": "results",

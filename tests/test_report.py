@@ -46,6 +46,11 @@ def test_command_writes_html_and_json(tmp_path, capsys):
     # the companion's tables can be read back into pandas
     t = pd.DataFrame(levels["data"], columns=levels["columns"])
     assert np.isfinite(t.iloc[:, 1].to_numpy(dtype=float)).all()
+    # the cab's [low_frequency] box: the method of each band beside the receiver's level
+    low = t["band [Hz]"].to_numpy(dtype=float) <= 160
+    assert set(t.loc[low, "cab_air method"]) == {"modal"}
+    assert set(t.loc[~low, "cab_air method"]) == {"SEA"}
+    assert "method = modal" in html and "modal solution below 200 Hz" in html
 
 
 @pytest.mark.parametrize(

@@ -32,15 +32,14 @@ def _cmd(args: argparse.Namespace) -> int:
         if not csv_path.parent.exists():
             raise InputError([Problem(str(csv_path), "--csv",
                                       f"folder {str(csv_path.parent)!r} does not exist")])  # fmt: skip
-    data, file, base = seatool.analysis.read_data(args.model)
-    model = seatool.modelfile.build(data, file=file, base_dir=base)
-    requests = seatool.lowfreq.read_low_frequency(data, model, file)
+    model = seatool.load(args.model)
+    requests = model.low_frequency
+    if not requests:
+        raise InputError([Problem(args.model, "low_frequency", "add a [low_frequency.CAVITY] "
+                                  "table naming a cavity and its panels")])  # fmt: skip
+    merged = seatool.crossover.solve_low_frequency(model)
     tables = []
-    for rq in requests:
-        try:
-            res = seatool.crossover.solve_crossover(model, rq.cavity, rq.dims, rq.panels, up_to=rq.up_to)
-        except ValueError as exc:
-            raise InputError([Problem(file, f"low_frequency.{rq.cavity}", str(exc))]) from None
+    for rq, res in zip(requests, merged.boxes, strict=True):
         t = res.table[res.table["subsystem"].isin([rq.cavity, *rq.panels])]
         tables.append(t)
         print(model.title or model.source)

@@ -2,7 +2,9 @@
 
 ``solve`` calls :func:`seatool.load`, :func:`seatool.run` and the :class:`seatool.Result`
 tables (:meth:`~seatool.results.Result.render`, :meth:`~seatool.results.Result.to_csv`),
-:func:`seatool.analysis.comfort.receiver_metrics` and :func:`seatool.plot_levels`; ``check`` calls :func:`seatool.model_summary`. They are
+:func:`seatool.analysis.comfort.receiver_metrics` and :func:`seatool.plot_levels`, and for a
+model with ``[low_frequency]`` boxes :func:`seatool.crossover.solve_low_frequency` (the
+merged levels with their method per band); ``check`` calls :func:`seatool.model_summary`. They are
 reached through the lazy package attributes of :mod:`seatool`.
 """
 
@@ -86,7 +88,11 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         )
     metrics_path = output_target(args.metrics_csv, "--metrics-csv")
     result = seatool.run(model)
-    print(result.render(names, digits=args.digits, caution=False))
+    low = seatool.crossover.solve_low_frequency(model, result) if model.low_frequency else None
+    merged = low.table if low is not None else None
+    print(result.render(names, digits=args.digits, caution=False, merged=merged))
+    for note in low.notes if low is not None else ():
+        print(f"note: {note}")
     confidence = seatool.analysis.confidence
     r2 = None if args.no_confidence else confidence.relative_variances(model, result.energy)
     conf = None if r2 is None else confidence.confidence_bands(model, result, relative_variance=r2)
@@ -118,6 +124,8 @@ def _cmd_solve(args: argparse.Namespace) -> int:
                 if conf is None
                 else confidence.table_with_confidence(model, result, conf)
             )
+            if merged is not None:
+                table = seatool.crossover.with_methods(table, merged)
             seatool.results.write_csv(table, csv_path)
         except OSError as exc:
             raise cannot_write(csv_path, "--csv", exc) from None
@@ -130,7 +138,7 @@ def _cmd_solve(args: argparse.Namespace) -> int:
         print(f"wrote {metrics_path}")
     if plot_path is not None:
         try:
-            seatool.plot_levels(result, plot_path, names, confidence=conf)
+            seatool.plot_levels(result, plot_path, names, confidence=conf, merged=merged)
         except OSError as exc:
             raise cannot_write(plot_path, "--plot", exc) from None
         print(f"wrote {plot_path}")

@@ -27,11 +27,21 @@ from typing import Any
 __all__ = ["FAMILIES", "Kind", "Param", "RAW_TYPES", "TYPE_NAMES", "type_doc"]
 
 #: Families of kinds, in the order of the documentation.
-FAMILIES = ("subsystem", "connection", "excitation", "damping", "treatment", "layer")
+FAMILIES = (
+    "subsystem",
+    "connection",
+    "excitation",
+    "damping",
+    "treatment",
+    "layer",
+    "low_frequency",
+)
 
 #: Value types a :class:`Param` may have and how the documentation names them.
 TYPE_NAMES = {
     "number": "number",
+    "numbers": "numbers",
+    "number_or_auto": "number or `\"auto\"`",
     "integer": "whole number",
     "spectrum": "spectrum",
     "flag": "true or false",
@@ -85,6 +95,8 @@ class Param:
         Why a value outside ``typical`` matters (shown in the plausibility warning).
     choices : tuple of str
         Allowed values of a ``choice``.
+    length : int or None
+        Number of entries of a ``numbers`` array (each checked like a ``number``).
     """
 
     name: str
@@ -103,6 +115,7 @@ class Param:
     basis: str = "common practice"
     why: str = ""
     choices: tuple[str, ...] = ()
+    length: int | None = None
 
     def __post_init__(self) -> None:
         if self.type not in TYPE_NAMES:
@@ -168,5 +181,7 @@ def type_doc(p: Param) -> str:
     base = TYPE_NAMES[p.type]
     if p.type == "choice":
         return "one of " + ", ".join(f'`"{c}"`' for c in p.choices)
+    if p.type == "numbers":
+        base = f"{p.length} numbers" if p.length else "numbers"
     return base + (f" [{p.unit}]" if p.unit else "")
 

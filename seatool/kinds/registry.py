@@ -15,6 +15,10 @@ Derive signatures by family:
 * ``excitation``: ``derive(reader, subsystem, values, key_path, table)`` ->
   ``("power", W)``, ``("prescribed", J)`` or None;
 * ``damping``: ``derive(reader, table, path, context)`` -> loss factor per band or None;
+* ``low_frequency``: ``box``: ``derive(reader, cavity, values, path, subsystems, panels)``
+  -> LowFrequency or None; ``panel``: ``derive(reader, name, values, path, subsystem,
+  dims)`` -> PanelPlacement or None (both called by
+  :func:`seatool.kinds.low_frequency.read_low_frequency_section`);
 * ``treatment``, ``layer``: read by :func:`seatool.kinds.plate_treatment.read_plate_treatment`
   and :func:`seatool.kinds.layers.read_layers` (the declarations drive checks and docs).
 """
@@ -30,6 +34,7 @@ from . import (
     junction_lines,
     layers,
     leaks,
+    low_frequency,
     panel_paths,
     plate_treatment,
     plates,
@@ -72,6 +77,7 @@ KINDS: tuple[Kind, ...] = (
     *damping_forms.DAMPING_KINDS,
     plate_treatment.TREATMENT,
     *layers.LAYER_KINDS,
+    *low_frequency.LOW_FREQUENCY_KINDS,
 )
 
 #: Kind names that were renamed, by family: old -> new (answered with "renamed to ...").

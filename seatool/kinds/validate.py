@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
+from dataclasses import replace
 from typing import Any
 
 import numpy as np
@@ -97,6 +98,26 @@ def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]
             return False, None
         _typical(rd, p, x, path)
         return True, x
+    if t == "number_or_auto":
+        if value == "auto":
+            return True, None
+        if not is_number(value):
+            rd.error(path, f'use "auto" or a number{unit_text(p.unit)}, got {value!r}')
+            return False, None
+        return check_value(rd, replace(p, type="number"), value, path)
+    if t == "numbers":
+        n = p.length
+        if not isinstance(value, list) or (n is not None and len(value) != n):
+            what = f"{n} numbers" if n is not None else "numbers"
+            rd.error(path, f"must be an array of {what}{unit_text(p.unit)}, got {value!r}")
+            return False, None
+        out = []
+        for i, v in enumerate(value):
+            ok, x = check_value(rd, replace(p, type="number"), v, f"{path}[{i}]")
+            if not ok:
+                return False, None
+            out.append(x)
+        return True, tuple(out)
     if t == "spectrum":
         arr = rd.spectrum(value, path, unit=p.unit, minimum=p.minimum, strict=p.strict)
         if arr is None:

@@ -20,7 +20,7 @@ import numpy as np
 import pandas as pd
 from tqdm import tqdm
 
-from .. import plot
+from .. import crossover, plot
 from .. import progress as progress_bars
 from ..analysis import candidates as candidate_files
 from ..analysis import comfort, confidence, uncertainty
@@ -190,11 +190,20 @@ def _treatment_lines(model: Model) -> list[str]:
     return lines
 
 
-def _levels(result: Result, receivers: Sequence[str]) -> pd.DataFrame:
+def _levels(result: Result, receivers: Sequence[str], merged: pd.DataFrame | None = None
+            ) -> pd.DataFrame:  # fmt: skip
+    """Band levels of the receivers; with a merged low-frequency table, the level of the
+    method of each band and a method column beside each receiver."""
     w = result.wide(list(receivers))
     _, _, refs = result.level_array()
     ref = dict(zip(result.model.names, refs, strict=True))
-    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns})
+    if merged is not None:
+        t = merged[merged["subsystem"].isin(list(receivers))]
+        w = t.pivot(index="band_hz", columns="subsystem", values="level_dB")[list(w.columns)]
+        how = t.pivot(index="band_hz", columns="subsystem", values="method")
+        for pos, n in enumerate(list(w.columns)):
+            w.insert(2 * pos + 1, f"{n} method", how[n])
+    w = w.rename(columns={n: f"{n} [dB {ref[n]}]" for n in w.columns if n in ref})
     return w.reset_index().rename(columns={"band_hz": "band [Hz]"})
 
 
@@ -389,7 +398,11 @@ def collect(
     conf = confidence.confidence_bands(model, result) if confidence_bands else None
     if conf is not None:
         content.confidence_note = confidence.BAND_NOTE
-    content.tables["levels"] = _levels(result, receivers)
+    low = crossover.solve_low_frequency(model, result) if model.low_frequency else None
+    merged = low.table if low is not None else None
+    if low is not None:
+        content.notes += list(low.notes)
+    content.tables["levels"] = _levels(result, receivers, merged)
     if conf is not None:
         content.tables["confidence"] = _confidence_table(result, receivers, conf)
     ov = result.overall()
@@ -458,7 +471,7 @@ def collect(
         }
     content.figures["levels"] = _svg(
         lambda p: plot.plot_receiver_levels(
-            result, receivers, p, limits=lim_map, confidence=conf
+            result, receivers, p, limits=lim_map, confidence=conf, merged=merged
         )
     )
     content.figures["flow"] = _svg(
