@@ -127,7 +127,7 @@ def relative_variances(
     sources_w: list[Array] = []  # weights (N, B) per input
     sources_a: list[float] = []
     for ex in model.excitations:
-        if ex.kind != "power" or ex.power is None:
+        if ex.drive != "power" or ex.power is None:
             continue
         w = np.zeros((n, nb))
         w[model.index()[ex.subsystem]] = ex.power
