@@ -26,9 +26,9 @@ def test_a_new_parameter_makes_the_tables_stale(monkeypatch):
 
 def test_an_undocumented_kind_is_reported(monkeypatch):
     text = docs.DOC.read_text(encoding="utf-8")
-    new = Kind("connection", "resilient_line", "test", (Param("length", unit="m"),), lambda *a: None)
+    new = Kind("connection", "undocumented_example", "test", (Param("length", unit="m"),), lambda *a: None)
     monkeypatch.setattr(docs, "KINDS", (*KINDS, new))
-    assert docs.missing_blocks(text) == [("connection", "resilient_line")]
+    assert docs.missing_blocks(text) == [("connection", "undocumented_example")]
 
 
 def test_declarations_are_well_formed():
