@@ -34,6 +34,7 @@ from . import (
     plate_treatment,
     plates,
     point_links,
+    resilient_lines,
     shells,
 )
 from .params import Kind
@@ -65,6 +66,7 @@ KINDS: tuple[Kind, ...] = (
     panel_paths.RADIATION,
     panel_paths.NONRESONANT,
     junction_lines.LINE,
+    resilient_lines.RESILIENT_LINE,
     point_links.POINT,
     point_links.MOUNT,
     leaks.LEAK,
