@@ -28,6 +28,7 @@ import numpy.typing as npt
 import pandas as pd
 
 from . import levels
+from .kinds.low_frequency import PanelPlacement
 from .modal import (
     DiffuseField,
     Excitation,
@@ -62,17 +63,6 @@ Array = npt.NDArray[np.float64]
 #: symmetry lines (a corner would excite every mode at its maximum, the centre only half).
 DEFAULT_SOURCE_POINT = (0.31, 0.27, 0.23)
 DEFAULT_FORCE_POINT = (0.37, 0.29)
-
-
-@dataclass(frozen=True)
-class PanelPlacement:
-    """Where an SEA panel sits on the box: a face (``x0``... ``z1``) and its corner (u0, v0)
-    [m]; ``force_point`` (u, v) [m] is where a power input on it acts (default
-    :data:`DEFAULT_FORCE_POINT` times its sides)."""
-
-    face: str
-    offset: tuple[float, float] = (0.0, 0.0)
-    force_point: tuple[float, float] | None = None
 
 
 def _outside_loss(model: Model, members: set[str]) -> dict[str, Array]:

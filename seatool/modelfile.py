@@ -24,6 +24,7 @@ import numpy as np
 from . import progress
 from .bands import BandAxis, BandError
 from .errors import InputError, Problem, closest
+from .kinds.low_frequency import read_low_frequency_section
 from .kinds.media import FLUID_PARAMS
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
@@ -53,7 +54,7 @@ _TOP_KEYS = (
     "excitations",
     "uncertainty",
     "targets",  # noise limits per receiver (seatool.targetfile)
-    "low_frequency",  # read by seatool.lowfreq (modal box solution), ignored by the solve
+    "low_frequency",  # checked here (kinds.low_frequency), used by seatool lowfreq
 )
 
 _MISSING = object()
@@ -463,6 +464,8 @@ def build(data: Mapping[str, Any], *, file: str = "<data>", base_dir: str | Path
     exs = _read_excitations(rd, data.get("excitations", _MISSING), subs, declared)
     spreads = read_uncertainty_section(rd, data)
     targets = read_targets(rd, data, subs)
+    if "low_frequency" in data:
+        read_low_frequency_section(rd, data["low_frequency"], subs, declared)
     if rd.problems:
         raise InputError(rd.problems)
     try:
