@@ -267,6 +267,16 @@ for r in ("roof_ap", "roof_as"):
         description="exhaust stack noise on the roof's outer face, measured level (invented)",
         diffuse_sound_pressure_level=spectrum(STACK))  # fmt: skip
 
+comment("targets at the crew's positions (invented limits)")
+# Invented design limits for the demonstration, of the order that interior-noise rules for
+# the navigation bridges of small vessels set (about 65-75 dB(A), from memory); the speech
+# interference level keeps the helm able to talk to the crew without raising voices.
+for z in ZONES:
+    helm = z.startswith("helm")
+    add("targets", f"{z}_ear", receiver=z,
+        description=f"crew position in the {z.replace('_', ' ')} zone (invented limit)",
+        limit_dBA=74.5 if helm else 75.0, limit_SIL=65.0)  # fmt: skip
+
 # No [uncertainty] section: every value worth varying here (zone absorption, plate
 # thicknesses, the engine-room level, the mount forces) is derived or stated as a level,
 # so each Monte Carlo sample would rebuild the 54-subsystem model (about 4 s each, mostly

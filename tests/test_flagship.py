@@ -13,7 +13,13 @@ from pathlib import Path
 import pytest
 
 import seatool
+from seatool.analysis.candidates import load_candidates
+from seatool.analysis.lightest import lightest_treatment
+from seatool.analysis.targets import verdicts
+from seatool.analysis.treatment_mass import total_added_mass
+from seatool.analysis.variants import apply_changes
 from seatool.cli import main
+from seatool.modelfile import build
 
 ROOT = Path(__file__).resolve().parent.parent
 MODEL = ROOT / "models" / "wheelhouse.toml"
@@ -64,3 +70,28 @@ def test_readme_main_command_writes_the_report(tmp_path, capsys):
     html = out.read_text(encoding="utf-8")
     assert "Workboat wheelhouse (invented demo)" in html
     assert out.with_suffix(".json").exists()
+
+
+def test_targets_and_the_lightest_treatment_beat_the_heaviest_everywhere():
+    # The flagship states targets at the crew's positions, misses them as built, and its
+    # candidates file (models/studies/wheelhouse_candidates.toml) has a lightest answer
+    # that meets every target and is lighter than the obvious "heaviest option on every
+    # surface"; the answer's levels equal a full rebuild of it.
+    model = seatool.load(MODEL)
+    assert {t.receiver for t in model.targets} == {"helm_port", "helm_stbd", "aft_port", "aft_stbd"}
+    base_verdicts = verdicts(seatool.run(model))
+    assert not all(v.met for v in base_verdicts)
+    data, file, folder, surfaces, _ = load_candidates(
+        ROOT / "models" / "studies" / "wheelhouse_candidates.toml"
+    )
+    got = lightest_treatment(data, surfaces, file=file, base_dir=folder, progress=False)
+    assert got.found and got.verification_db < 1e-9
+    heaviest: dict = {}
+    for s in surfaces:
+        masses = [
+            total_added_mass(build(apply_changes(data, o.changes), file=file, base_dir=folder))
+            for o in s.options
+        ]
+        heaviest.update(s.options[masses.index(max(masses))].changes)
+    heavy_model = build(apply_changes(data, heaviest), file=file, base_dir=folder)
+    assert got.mass_kg < total_added_mass(heavy_model)

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from scipy import signal
 
 from seatool.loudness import (
     LOUDNESS_BANDS_HZ,
@@ -51,8 +52,11 @@ def test_loudness_level_of_1khz_band_follows_its_level(level):
 
 
 # Zwicker et al. (1991), J. Acoust. Soc. Jpn. (E) 12(1), 39-42, example of the program
-# listing, reproduced as a stationary 1/3-octave test spectrum in ISO 532-1:2017 Annex B
-# (from memory: annex B.2, 1/3-octave levels of a machinery noise, free field): N = 83.296 sone.
+# listing, reproduced as stationary test signal 1 (1/3-octave levels of a machinery noise,
+# free field) in ISO 532-1:2017 Annex B.2. Levels from memory; the published total loudness
+# N = 83.296 sone is confirmed by the test-suite of the mosqito 1.2.1 library, which checks the
+# same annex B.2 case against that value. Reproducing it to 5 digits is strong evidence that the
+# remembered levels are the standard's.
 MACHINE_NOISE = [
     -60, -60, 78, 79, 89, 72, 80, 89, 75, 87, 85, 79, 86, 80,
     71, 70, 72, 71, 72, 74, 69, 65, 67, 77, 68, 58, 45, 30,
@@ -66,6 +70,38 @@ def test_published_third_octave_example():
     assert float(n) == pytest.approx(83.296, rel=1e-3)
     # Loudness level from the same relation: 40 + 33.22 lg 83.296 = 103.8 phon.
     assert float(loudness_level(n)) == pytest.approx(103.8, abs=0.05)
+
+
+# ISO 532-1:2017 Annex B.3 stationary test signals 3 (1 kHz tone, 60 dB) and the 40 dB tone of
+# the sone's definition, analysed the way the standard analyses a signal: a bank of 1/3-octave
+# band filters (ISO 532-1 Annex A.3 prescribes sixth-order band filters; here a sixth-order
+# Butterworth band-pass at the IEC 61260-1 base-2 band edges, which meets the class-1 mask,
+# common practice), then the band-level procedure under test. The tone leaks into the 800 Hz
+# and 1250 Hz bands about 18 dB down, and that leakage is part of the standard's result.
+# Published total loudness of test signal 3: 4.019 sone (ISO 532-1:2017 Annex B.3, as quoted in
+# the test-suite of the mosqito 1.2.1 library; we could not read the standard's table itself).
+# Tolerance: the standard's conformance limit, clause 5.1 (as quoted there): +-5 % of N.
+# Observed: 4.099 sone (+2.0 %) and 1.017 sone at 40 dB (+1.7 %).
+def _band_levels_of_signal(p: np.ndarray, fs: float) -> np.ndarray:
+    out = []
+    for fc in LOUDNESS_BANDS_HZ:
+        fm = 1000.0 * 2.0 ** (round(3.0 * np.log2(fc / 1000.0)) / 3.0)
+        sos = signal.butter(
+            3, [fm * 2.0 ** (-1 / 6), fm * 2.0 ** (1 / 6)], "bandpass", output="sos", fs=fs
+        )
+        y = signal.sosfilt(sos, p)[int(fs) :]  # drop the first second (filter settling)
+        out.append(10.0 * np.log10(np.mean(y**2) / 2e-5**2))
+    return np.array(out)
+
+
+@pytest.mark.parametrize(("level", "published"), [(60.0, 4.019), (40.0, 1.0)])
+def test_iso_532_1_tone_test_signals_through_a_filter_bank(level, published):
+    fs = 48000.0
+    t = np.arange(int(3 * fs)) / fs
+    p = np.sqrt(2.0) * 2e-5 * 10.0 ** (level / 20.0) * np.sin(2 * np.pi * 1000.0 * t)
+    lv = _band_levels_of_signal(p, fs)
+    n, _ = zwicker_loudness(lv, field="free")
+    assert float(n) == pytest.approx(published, rel=0.05)
 
 
 def test_silence_is_zero_sone():

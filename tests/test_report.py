@@ -13,7 +13,10 @@ import numpy as np
 import pandas as pd
 import pytest
 
+import seatool
 from seatool import report as report_pkg
+from seatool.analysis import targets as target_analysis
+from seatool.analysis import variants as variant_analysis
 from seatool.cli import main
 from seatool.report import collect, render_html, write_report
 from seatool.report.references import docstring_references, model_references
@@ -273,3 +276,33 @@ def test_report_shows_what_the_occupants_hear(tmp_path):
     got = pd.DataFrame(t["data"], columns=t["columns"]).set_index("subsystem")
     got = got.loc["cab_air", "loudness_sone"]
     assert got == pytest.approx(sone, rel=1e-9)
+
+
+def test_report_shows_targets_variants_and_the_lightest_treatment(tmp_path, capsys):
+    # The operator cab (invented demo) states a target; its studies folder has design
+    # variants and candidate treatments. The report shows the verdicts, the margins, the
+    # variants side by side and the lightest answer, and its tables are the analysis
+    # functions' own (seatool.analysis.targets / variants).
+    out = tmp_path / "cab.html"
+    studies = ROOT / "models" / "studies"
+    argv = ["report", str(ROOT / "models" / "operator_cab.toml"), "-o", str(out), "--quiet",
+            "--variants", str(studies / "operator_cab_variants.toml"),
+            "--candidates", str(studies / "operator_cab_candidates.toml")]  # fmt: skip
+    assert main(argv) == 0
+    html = out.read_text(encoding="utf-8")
+    companion = json.loads(out.with_suffix(".json").read_text(encoding="utf-8"))["tables"]
+    result = seatool.run(seatool.load(ROOT / "models" / "operator_cab.toml"))
+    for v in target_analysis.verdicts(result):
+        assert v.line in html
+    mt = target_analysis.margin_table(result)
+    got = pd.DataFrame(**companion["target_margins"])
+    metric = mt[mt["limit_on"] != "band"]
+    assert np.allclose(got["margin [dB or unit]"], metric["margin"], atol=1e-9)
+    data, file, folder, vs = variant_analysis.load_variants(studies / "operator_cab_variants.toml")
+    cmp = variant_analysis.compare(data, vs, file=file, base_dir=folder)
+    lv = pd.DataFrame(**companion["variant_levels"])
+    assert np.allclose(lv["overall_dBA"], cmp.levels["overall_dBA"], atol=1e-9)
+    assert "lightest_alternatives" in companion
+    assert "The lightest treatment meeting every target" in html
+    assert 'alt="Margins to the band limits"' in html
+    assert 'alt="Design variants against the base"' in html

@@ -134,3 +134,31 @@ def test_prints_on_a4(hostile_report: Path) -> None:
     assert boxes, "no page in the PDF"
     for w, h in boxes:
         assert abs(float(w) - 595.3) < 1.5 and abs(float(h) - 841.9) < 1.5
+
+
+#: Right edge of every table and figure against the right edge of the page column.
+WIDTH_PROBE = """<script>
+window.addEventListener("load", () => {
+  const main = document.querySelector("main").getBoundingClientRect();
+  const over = [...document.querySelectorAll("table, figure, img")]
+    .map(e => e.getBoundingClientRect().right - main.right)
+    .filter(d => d > 1);
+  document.body.setAttribute("data-over", JSON.stringify(over));
+});
+</script>"""
+
+
+def test_flagship_tables_stay_inside_the_page_column(tmp_path: Path) -> None:
+    """The 54-subsystem flagship's widest tables (long kind and source names) wrap inside
+    the page column at a 1100 px window instead of running past its edge."""
+    files = write_report(ROOT / "models" / "wheelhouse.toml", tmp_path / "wh.html",
+                         samples=20, seed=1, progress=False)  # fmt: skip
+    html = files.html.read_text(encoding="utf-8")
+    html = html.replace("default-src 'none';", "default-src 'none'; script-src 'unsafe-inline';")
+    probe = tmp_path / "probe.html"
+    probe.write_text(html.replace("</body>", WIDTH_PROBE + "</body>"), encoding="utf-8")
+    run = _chromium(tmp_path, "--window-size=1100,3000", "--virtual-time-budget=5000",
+                    "--dump-dom", probe.as_uri())  # fmt: skip
+    m = re.search(r'data-over="([^"]*)"', run.stdout)
+    assert m is not None, run.stderr[-2000:]
+    assert json.loads(m.group(1).replace("&quot;", '"')) == []

@@ -70,6 +70,16 @@ def test_added_mass_per_treatment_and_in_total():
     assert total_added_mass(model) == pytest.approx((SHEET + FOAM + HEAVY5) * AREA, rel=1e-3)
 
 
+def test_a_plate_with_in_plane_wave_fields_counts_its_treatment_once():
+    # The same hand sum when the floor also carries longitudinal and shear wave fields
+    # (three subsystems of one plate sharing one treatment): the plate is treated once.
+    data = apply_changes(DATA, {"subsystems.floor.wave_fields": ["bending", "longitudinal", "shear"]})
+    model = build(data, file=FILE, base_dir=FOLDER)
+    assert len(model.subsystems) == len(build(DATA, file=FILE, base_dir=FOLDER).subsystems) + 2
+    assert list(added_mass_table(model)["subsystem"]) == ["floor"]
+    assert total_added_mass(model) == pytest.approx((SHEET + FOAM + HEAVY5) * AREA, rel=1e-3)
+
+
 def test_a_trim_that_raises_bands_is_flagged_with_its_resonance():
     # Base: floor with the damping sheet only. Variant: the 5 kg/m^2 spring-mass trim added.
     # The trim's insertion loss (transfer-matrix method) is negative around its mass-spring

@@ -228,7 +228,7 @@ def _option_arrays(
                 out[name] = t
         return out
 
-    cons = touched("connections", lambda t: t.get("between", []) or [])
+    cons = touched("connections", _subsystem_refs)
     exs = touched("excitations", lambda t: [t.get("subsystem")])
     part = {k: v for k, v in changed.items() if k not in ("connections", "excitations", "targets")}
     part["connections"] = cons
@@ -262,6 +262,19 @@ def _option_arrays(
                 [Problem(file, where, "options may not change a held (prescribed) level")]
             )
     return _Arrays(sub.damping, sub.modal, eta, power, sub.offsets, sub.mass)
+
+
+def _subsystem_refs(table: Mapping[str, Any]) -> list[str]:
+    """Every string a connection table holds (``between``, ``through``, ...): a connection
+    depends on each subsystem it names, not only on its two ends (a non-resonant path
+    depends on the panel it passes through)."""
+    out: list[str] = []
+    for v in table.values():
+        if isinstance(v, str):
+            out.append(v)
+        elif isinstance(v, list):
+            out.extend(x for x in v if isinstance(x, str))
+    return out
 
 
 def _check(model: Model, ref: Model, where: str, file: str) -> None:

@@ -20,6 +20,10 @@ __all__ = ["TreatedSurface", "added_mass_table", "total_added_mass", "treated_su
 #: Trim layer kinds that are impervious masses (the "m2" of the mass-spring system).
 _MASS_KINDS = ("heavy_layer", "viscoelastic")
 
+#: In-plane wave fields of a plate share its treatment with its bending field; the
+#: treatment's mass is counted once, on the bending field.
+_IN_PLANE = ("longitudinal", "shear")
+
 
 @dataclass(frozen=True)
 class TreatedSurface:
@@ -78,11 +82,12 @@ def trim_resonance(treatment: Any, *, gamma: float = 1.4) -> float | None:
 
 
 def treated_surfaces(model: Model) -> list[TreatedSurface]:
-    """Every treated plate of ``model`` with its added masses [kg] and trim resonance."""
+    """Every treated plate of ``model`` with its added masses [kg] and trim resonance
+    (once per plate: its in-plane wave fields, which share the treatment, are skipped)."""
     out = []
     for s in model.subsystems:
         t = _treatment(s)
-        if t is None:
+        if t is None or getattr(s.props, "wave_type", None) in _IN_PLANE:
             continue
         area = float(getattr(s.props, "area", 0.0) or 0.0)
         out.append(

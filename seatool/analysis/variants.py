@@ -175,7 +175,8 @@ def _flag(
         if len(labels) <= 4
         else f"{labels[0]} to {labels[-1]} ({len(labels)} bands)"
     )
-    causes = []
+    # one phrase per (bands, f0): trims of equal resonance on several plates named together
+    groups: dict[tuple[str, str], list[str]] = {}
     for t in surfaces:
         if t.resonance_hz is None:
             continue
@@ -183,10 +184,13 @@ def _flag(
             continue  # unchanged treatment
         near = [j for j in raised if 1 / _NEAR <= t.resonance_hz / float(centre[j]) <= _NEAR]
         if near:
-            causes.append(
-                f"at {', '.join(_hz(float(nominal[j])) for j in near)} near the mass-spring "
-                f"resonance f0 = {t.resonance_hz:.0f} Hz of the trim on {t.subsystem}"
-            )
+            key = (", ".join(_hz(float(nominal[j])) for j in near), f"{t.resonance_hz:.0f}")
+            groups.setdefault(key, []).append(t.subsystem)
+    causes = [
+        f"at {bands} near the mass-spring resonance f0 = {f0} Hz of the "
+        + (f"trim on {subs[0]}" if len(subs) == 1 else f"trims on {', '.join(subs)}")
+        for (bands, f0), subs in groups.items()
+    ]
     cause = f"; {'; '.join(causes)}" if causes else ""
     return (
         f"variant {name} raises {receiver} by more than {RAISE_LIMIT_DB:g} dB in {shown} "

@@ -161,6 +161,36 @@ def _sens_args(p: argparse.ArgumentParser) -> None:
         "--plot", metavar="FILE",
         help="draw the largest overall sensitivities to FILE (.png, .pdf or .svg)",
     )  # fmt: skip
+    p.add_argument(
+        "--metric", choices=sorted(seatool.metrics.METRICS),
+        help="also rank the parameters by their effect on this metric of the receiver "
+        "(chain rule through the metric: dB(A), dB(C), SIL, sone, phon, dB)",
+    )  # fmt: skip
+    p.add_argument(
+        "--field", choices=("diffuse", "free"), default="diffuse",
+        help="sound field of the loudness metrics (default diffuse)",
+    )  # fmt: skip
+
+
+def _print_metric_ranking(model: Any, table: Any, receiver: str, metric: str, field: str,
+                          top: int) -> None:  # fmt: skip
+    if model.subsystem(receiver).quantity != "sound_pressure":
+        raise InputError(
+            [Problem(model.source, "--metric", f"{receiver!r} is not a cavity; metrics of "
+                     "what the occupants hear need a sound pressure level")]
+        )  # fmt: skip
+    result = seatool.run(model)
+    ms = seatool.analysis.comfort.metric_sensitivities(result, table, metric, field=field)
+    ms = ms.reindex(ms["dM_dlnx"].abs().sort_values(ascending=False, kind="stable").index)
+    value, unit = float(ms["value"].iloc[0]), str(ms["unit"].iloc[0])
+    print()
+    print(f"sensitivity of {metric} of {receiver} ({value:.2f} {unit}): change for a 1 % "
+          "increase of each parameter (chain rule through the metric)")  # fmt: skip
+    rows = [
+        [str(i + 1), str(x["parameter"]), f"{x['dM_per_percent']:+.4f} {unit}"]
+        for i, (_, x) in enumerate(ms.head(top).iterrows())
+    ]
+    print("\n".join(fmt_table(["rank", "parameter", "per +1 %"], rows)))
 
 
 def _cmd_sensitivity(args: argparse.Namespace) -> int:
@@ -188,6 +218,8 @@ def _cmd_sensitivity(args: argparse.Namespace) -> int:
         print(f"({len(rk) - args.top} more in the CSV table)")
     if not rk["valid_at_max"].all():
         print(VALIDITY_NOTE)
+    if args.metric is not None:
+        _print_metric_ranking(model, table, args.to, args.metric, args.field, args.top)
     if out is not None:
         _write_csv(table, out)
         print(f"wrote {out}")

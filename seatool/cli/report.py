@@ -32,6 +32,14 @@ def _args(p: argparse.ArgumentParser) -> None:
         help="Monte Carlo samples where the model has an [uncertainty] section (default 300)",
     )  # fmt: skip
     p.add_argument("--seed", type=int, default=0, help="random seed of the spread (default 0)")
+    p.add_argument(
+        "--variants", metavar="FILE",
+        help="a design-variants file (.toml) whose comparison the report shows",
+    )  # fmt: skip
+    p.add_argument(
+        "--candidates", metavar="FILE",
+        help="a candidate-treatments file (.toml) whose lightest answer the report shows",
+    )  # fmt: skip
     p.add_argument("--quiet", action="store_true", help="no progress bar")
 
 
@@ -40,7 +48,7 @@ def _cmd(args: argparse.Namespace) -> int:
         seatool.progress.set_quiet(True)
     files = seatool.report.write_report(
         args.model, args.output, receiver=args.to, band=args.band, samples=args.samples,
-        seed=args.seed,
+        seed=args.seed, variants=args.variants, candidates=args.candidates,
     )  # fmt: skip
     print(f"wrote {files.html}")
     print(f"wrote {files.json}")

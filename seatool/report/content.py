@@ -22,9 +22,13 @@ from tqdm import tqdm
 
 from .. import plot
 from .. import progress as progress_bars
+from ..analysis import candidates as candidate_files
 from ..analysis import comfort, uncertainty
+from ..analysis import lightest as lightest_search
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
+from ..analysis import targets as target_analysis
+from ..analysis import variants as variant_analysis
 from ..errors import InputError, Problem, closest
 from ..model import Model, Subsystem
 from ..modelfile import build
@@ -81,6 +85,9 @@ class Content:
     notes: list[str] = field(default_factory=list)
     references: list[Reference] = field(default_factory=list)
     spread_note: str = ""
+    verdict_lines: list[str] = field(default_factory=list)
+    variant_lines: list[str] = field(default_factory=list)
+    lightest_lines: list[str] = field(default_factory=list)
 
 
 def default_receivers(model: Model) -> list[str]:
@@ -197,6 +204,53 @@ def _margins(result: Result, limits: pd.DataFrame, receivers: Sequence[str]) -> 
     return m
 
 
+def _band_limits(result: Result) -> pd.DataFrame:
+    """The model's own per-band limits as ``subsystem, band_hz, limit_dB`` (the lowest
+    limit where several targets of one receiver have a band limit)."""
+    mt = target_analysis.margin_table(result)
+    rows = mt[mt["limit_on"] == "band"]
+    out = rows.groupby(["receiver", "band_hz"], sort=False)["limit"].min().reset_index()
+    return out.rename(columns={"receiver": "subsystem", "limit": "limit_dB"})
+
+
+def _decisions(
+    content: Content,
+    result: Result,
+    variants: str | Path | None,
+    candidates: str | Path | None,
+    progress: bool | None,
+) -> None:
+    """Targets, design variants and the lightest treatment, where the model or the
+    caller states them."""
+    if result.model.targets:
+        content.verdict_lines = [v.line for v in target_analysis.verdicts(result)]
+        mt = target_analysis.margin_table(result)
+        metric_rows = mt[mt["limit_on"] != "band"]
+        content.tables["target_margins"] = metric_rows[
+            ["target", "receiver", "limit_on", "level", "limit", "margin", "unit", "met"]
+        ].rename(columns={"limit_on": "metric", "margin": "margin [dB or unit]"})
+    if variants is not None:
+        data, file, folder, vs = variant_analysis.load_variants(variants)
+        cmp = variant_analysis.compare(data, vs, file=file, base_dir=folder)
+        content.tables["variant_levels"] = cmp.levels
+        if len(cmp.margins):
+            sm = cmp.margins.groupby(["variant", "target"], sort=False)["margin"].min()
+            content.tables["variant_margins"] = sm.reset_index().rename(
+                columns={"margin": "smallest margin [dB or unit]"}
+            )
+        content.tables["variant_difference"] = cmp.difference
+        content.variant_lines = [f"{v.name}: {v.description or ', '.join(v.changes)}" for v in vs]
+        content.variant_lines += list(cmp.flags)
+    if candidates is not None:
+        data, file, folder, surfaces, settings = candidate_files.load_candidates(candidates)
+        got = lightest_search.lightest_treatment(
+            data, surfaces, file=file, base_dir=folder, progress=progress, **settings
+        )
+        content.lightest_lines = got.summary().splitlines()
+        if len(got.alternatives):
+            content.tables["lightest_alternatives"] = got.alternatives
+
+
 def _validity_words(model: Model, receivers: Sequence[str]) -> pd.DataFrame:
     v = validity_table(model)
     v = v[v["subsystem"].isin(receivers)]
@@ -229,6 +283,8 @@ def collect(
     samples: int = 300,
     seed: int = 0,
     targets: TargetHook | None = None,
+    variants: str | Path | None = None,
+    candidates: str | Path | None = None,
     progress: bool | None = None,
 ) -> Content:
     """Solve the model in ``data`` and gather everything its report shows.
@@ -248,7 +304,13 @@ def collect(
         Monte Carlo samples and seed for the spread (only when the model has an
         ``[uncertainty]`` section).
     targets : TargetHook, optional
-        Limits to show with margins.
+        Limits to show with margins (default: the model's own ``[targets]``, if any).
+    variants : path, optional
+        A design-variants file (:func:`seatool.analysis.variants.load_variants`) whose
+        comparison the report shows (levels, margins, added mass, differences to the base).
+    candidates : path, optional
+        A candidate-treatments file (:func:`seatool.analysis.candidates.load_candidates`)
+        whose lightest combination meeting every target the report shows.
     progress : bool, optional
         Progress bar on stderr (default: :func:`seatool.progress.enabled`, i.e. on a
         terminal unless ``--quiet``).
@@ -257,7 +319,8 @@ def collect(
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
     if progress is None:
         progress = progress_bars.enabled()
-    steps = ["model", "solve", "paths", "sensitivity", "spread", "figures", "references"]
+    steps = ["model", "solve", "decisions", "paths", "sensitivity", "spread", "figures",
+             "references"]
     bar = tqdm(total=len(steps), desc="report", disable=not progress, file=sys.stderr,
                leave=False)  # fmt: skip
 
@@ -313,8 +376,14 @@ def collect(
         content.tables["comfort"] = hear.drop(columns="notes")
         content.comfort_notes = sorted({n for x in hear["notes"] for n in str(x).split("; ") if n})
     limits = targets(result) if targets is not None else None
-    if limits is not None:
+    if limits is None and model.targets:
+        limits = _band_limits(result)
+    if limits is not None and len(limits):
         content.tables["margins"] = _margins(result, limits, receivers)
+    else:
+        limits = None
+    _decisions(content, result, variants, candidates, progress)
+    step("decisions")
 
     con = path_analysis.contributions(model, main)
     tot = con.groupby("source", sort=False)["energy_J"].sum()
@@ -371,6 +440,12 @@ def collect(
     )
     if len(rk):
         content.figures["sensitivity"] = _svg(lambda p: plot.plot_sensitivity(rk, main, p))
+    if "target_margins" in content.tables and limits is not None:
+        mt = target_analysis.margin_table(result)
+        content.figures["margins"] = _svg(lambda p: plot.plot_band_margins(mt, p))
+    if "variant_levels" in content.tables:
+        diff = content.tables["variant_difference"]
+        content.figures["variants"] = _svg(lambda p: plot.plot_variants(diff, p))
     if spread_table is not None:
         content.figures["spread"] = _svg(
             lambda p: plot.plot_spread(spread_table, main, model.bands, p)

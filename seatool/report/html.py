@@ -29,6 +29,7 @@ SECTIONS = (
     ("model", "The job and the model"),
     ("levels", "Receiver levels per band"),
     ("overall", "Overall and A-weighted levels"),
+    ("decisions", "Targets and design decisions"),
     ("flow", "Energy flow"),
     ("paths", "Sources and paths"),
     ("sensitivity", "Largest sensitivities"),
@@ -53,9 +54,10 @@ def _cell(column: str, value: Any) -> tuple[str, str]:
         x = float(value)
         if math.isnan(x):
             return "-", "num"
-        if "dB" in column or column.startswith("band"):
-            cls = "num bad" if column.startswith("margin") and x < 0 else "num"
-            return (f"{x:g}" if column.startswith("band") else f"{x:.1f}"), cls
+        hz = column.startswith("band") or column.endswith("_hz")
+        if "dB" in column or "margin" in column or hz:
+            cls = "num bad" if "margin" in column and x < 0 else "num"
+            return (f"{x:g}" if hz else f"{x:.1f}"), cls
         if column in ("share", "source_share"):
             return f"{100 * x:.1f} %", "num"
         return f"{x:.3g}", "num"

@@ -13,6 +13,10 @@ function                 command              tables
 :func:`sensitivity`      ``seatool            ``ranking``, ``bands``
                          sensitivity``
 :func:`level_spread`     ``seatool spread``   ``overall``, ``bands``
+:func:`design_variants`  ``seatool            ``levels``, ``margins``, ``masses``,
+                         variants``           ``difference``
+:func:`lightest`         ``seatool            ``choice``, ``margins``, ``alternatives``
+                         lightest``
 =======================  ===================  =============================================
 """
 
@@ -25,14 +29,17 @@ from pathlib import Path
 
 import pandas as pd
 
+from ..analysis import candidates as candidate_files
+from ..analysis import lightest as lightest_search
 from ..analysis import paths as path_analysis
 from ..analysis import sensitivity as sens
 from ..analysis import uncertainty
+from ..analysis import variants as variant_analysis
 from ..model import Model
 from ..results import CAUTION, Result
 from ..solve import solve
 
-__all__ = ["View", "level_spread", "sensitivity", "source_paths"]
+__all__ = ["View", "design_variants", "level_spread", "lightest", "sensitivity", "source_paths"]
 
 #: Rows of each table shown in a notebook (the DataFrames themselves are complete).
 SHOWN_ROWS = 15
@@ -135,4 +142,42 @@ def level_spread(
         f"{sp.model.title or 'model'}: spread of the levels",
         {"overall": sp.overall(), "bands": sp.table()},
         (f"{sp.samples} samples, seed {sp.seed}, {sp.method}",),
+    )
+
+
+def design_variants(variants_file: str | Path) -> View:
+    """Design variants of a base model side by side (a variants file, as ``seatool
+    variants``).
+
+    Tables: ``levels``, ``margins``, ``masses`` and ``difference`` of
+    :class:`seatool.analysis.variants.Comparison`; the notes name every band a variant
+    raises by more than 1 dB, with the trim resonance that explains it where known.
+    """
+    data, file, folder, vs = variant_analysis.load_variants(variants_file)
+    c = variant_analysis.compare(data, vs, file=file, base_dir=folder)
+    return View(
+        f"design variants of {file}",
+        {"levels": c.levels, "margins": c.margins, "masses": c.masses,
+         "difference": c.difference},
+        tuple(c.flags),
+    )  # fmt: skip
+
+
+def lightest(candidates_file: str | Path, *, progress: bool | None = None) -> View:
+    """The lightest combination of candidate treatments meeting every target (a candidates
+    file, as ``seatool lightest``).
+
+    Tables: ``choice`` (the option chosen per surface), ``margins`` (of the answer,
+    :func:`seatool.analysis.targets.margin_table`) and ``alternatives`` (next-best
+    combinations); the notes are the search's summary (mass, binding limit, method).
+    """
+    data, file, folder, surfaces, settings = candidate_files.load_candidates(candidates_file)
+    got = lightest_search.lightest_treatment(
+        data, surfaces, file=file, base_dir=folder, progress=progress, **settings
+    )
+    choice = pd.DataFrame({"surface": list(got.choice), "option": list(got.choice.values())})
+    return View(
+        f"lightest treatment for {file}",
+        {"choice": choice, "margins": got.margins, "alternatives": got.alternatives},
+        tuple(got.summary().splitlines()),
     )
