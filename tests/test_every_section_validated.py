@@ -95,3 +95,11 @@ def test_bogus_key_in_a_study_file_is_refused(study, tmp_path, capsys):
         assert code == 2, key_path
         assert len(lines) == 1, (key_path, lines)
         assert f": {key_path}: unknown key" in lines[0], lines[0]
+
+
+@pytest.mark.parametrize("study", sorted(STUDY_FILES))
+def test_check_on_a_study_file_names_the_command_that_reads_it(study, capsys):
+    code, lines = _run(["check", str(MODELS / "studies" / study)], capsys)
+    assert code == 2
+    assert len(lines) == 1, lines
+    assert "a study file of" in lines[0] and f"seatool {STUDY_FILES[study]} " in lines[0]
