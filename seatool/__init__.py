@@ -46,6 +46,7 @@ if TYPE_CHECKING:  # what __getattr__ returns, for type checkers and readers
     from .analysis.panel import PanelSpec, panel_table
     from .analysis.paths import connection_powers, contributions, path_ranking, paths
     from .analysis.sensitivity import parameter_sensitivities, ranking, sensitivities
+    from .analysis.sweep import sobol_indices, sweep
     from .analysis.uncertainty import spread
     from .bands import BandAxis, a_weighting
     from .errors import InputError
@@ -82,7 +83,9 @@ __all__ = [
     "ranking",
     "run",
     "sensitivities",
+    "sobol_indices",
     "spread",
+    "sweep",
 ]
 
 
@@ -168,6 +171,10 @@ def _defining_module(name: str) -> ModuleType:
         import seatool.analysis.uncertainty as uncertainty
 
         return uncertainty
+    if name in ("sobol_indices", "sweep"):
+        import seatool.analysis.sweep as sweep
+
+        return sweep
     raise AttributeError(f"module 'seatool' has no attribute {name!r}")
 
 

@@ -2,8 +2,7 @@
 
 All levels are 10 lg(quantity^2 / reference^2) in decibels; every function names its
 reference. Reference values follow ISO 1683:2015 (preferred reference values for
-acoustical and vibratory levels; values from memory of that standard's Table 1, which
-the project's reference sheet also lists).
+acoustical and vibratory levels; values from memory of that standard's Table 1).
 """
 
 from __future__ import annotations

@@ -32,6 +32,8 @@ __all__ = [
     "plot_receiver_levels",
     "plot_sensitivity",
     "plot_spread",
+    "plot_sweep",
+    "plot_sweep_matrix",
     "plot_target",
     "plot_variants",
 ]
@@ -531,3 +533,58 @@ def plot_variants(difference: pd.DataFrame, path: str | os.PathLike[str]) -> Pat
     fig.savefig(out, dpi=130)
     plt.close(fig)
     return out
+
+
+def _finish(fig: Any, path: str | os.PathLike[str]) -> Path:
+    fig.text(0.01, 0.005, "Caution: " + CAUTION, fontsize=5.5, wrap=True)
+    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    out = Path(path)
+    fig.savefig(out, dpi=130)
+    _pyplot().close(fig)
+    return out
+
+
+def plot_sweep(
+    table: pd.DataFrame,
+    parameters: Sequence[str],
+    levels: Sequence[str],
+    path: str | os.PathLike[str],
+) -> Path:
+    """Write a figure of each level column (``RECEIVER.dBA`` ...) of a sweep table against each
+    parameter column, one panel per parameter, to ``path``."""
+    plt = _pyplot()
+    n = max(1, len(parameters))
+    fig, axes = plt.subplots(1, n, figsize=(3.2 * n + 0.8, 3.8), squeeze=False, sharey=True)
+    for ax, par in zip(axes[0], parameters, strict=False):
+        for k, lv in enumerate(levels):
+            ax.scatter(table[par], table[lv], s=6, alpha=0.6, color=PALETTE[k % len(PALETTE)],
+                       label=lv)  # fmt: skip
+        ax.set_xlabel(par, fontsize=8)
+        ax.grid(True, alpha=0.3)
+    axes[0, 0].set_ylabel("level [dB]; dBA: A-weighted re 20 uPa")
+    axes[0, 0].legend(fontsize=7)
+    fig.suptitle("levels over the sweep", fontsize=10)
+    return _finish(fig, path)
+
+
+def plot_sweep_matrix(
+    table: pd.DataFrame, columns: Sequence[str], path: str | os.PathLike[str]
+) -> Path:
+    """Write a scatter matrix of ``columns`` of a sweep table (histograms on the diagonal)."""
+    plt = _pyplot()
+    n = len(columns)
+    fig, axes = plt.subplots(n, n, figsize=(1.9 * n + 0.8, 1.9 * n + 0.8), squeeze=False)
+    for i, yi in enumerate(columns):
+        for j, xj in enumerate(columns):
+            ax = axes[i, j]
+            if i == j:
+                ax.hist(table[xj], bins=20, color=PALETTE[0])
+            else:
+                ax.scatter(table[xj], table[yi], s=3, alpha=0.5, color=PALETTE[0])
+            ax.tick_params(labelsize=6)
+            if i == n - 1:
+                ax.set_xlabel(xj, fontsize=7)
+            if j == 0:
+                ax.set_ylabel(yi, fontsize=7)
+    fig.suptitle("sweep: scatter matrix (levels in dB)", fontsize=10)
+    return _finish(fig, path)

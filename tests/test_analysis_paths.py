@@ -222,7 +222,7 @@ def test_shipped_models_add_up(path):
 
 
 def test_validity_flag_from_physics(mixed):
-    # modes in band N = n Delta_f, overlap M = eta_total f n (PHYSICS.md 1.2)
+    # modes in band N = n Delta_f, overlap M = eta_total f n (Lyon & DeJong 1995, Theory and Application of SEA, 2nd ed., from memory)
     c = contributions(mixed, "b")
     one = c[c["source"] == "p1"]
     bands = mixed.bands

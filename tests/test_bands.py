@@ -79,7 +79,7 @@ A_TABLE = [
 
 def test_iec61260_exact_mid_band_spot_values():
     # IEC 61260-1 base-10 exact mid-band frequencies (values quoted from the standard's
-    # predecessor IEC 1260, as collected in the project's reference sheet, sec. 10.1 [S]).
+    # predecessor IEC 1260:1995, as quoted in secondary sources; from memory).
     f = exact_mid_frequency([-2, -1, 0, 1, 2])
     # Compare to the printed precision of each quoted value (half a unit of the last digit).
     quoted = np.array([630.96, 794.33, 1000.0, 1258.9, 1584.9])

@@ -433,7 +433,7 @@ def _exact_mode_count_density(lx: float, ly: float, d: float, m: float, f1: floa
 def test_point_identical_plates_against_mode_count():
     # Two identical plates joined at one rigid point: eta_12 = 1/(omega n(f)) with the
     # infinite-plate mobility 1/(8 sqrt(D m'')) (Cremer, Heckl & Petersson 2005 ch. 4;
-    # identity in PHYSICS.md 5.4). n(f) counted from exact simply supported modes of a
+    # rigid point connection of Lyon & DeJong 1995, from memory). n(f) counted from exact simply supported modes of a
     # 2 m x 1.5 m steel 2 mm plate over 500-4000 Hz: within 5 %.
     bands = BandAxis.from_range(1000, 1000)
     a = plate("a", bands, lx=2.0, ly=1.5)
@@ -487,7 +487,7 @@ def test_mount_limits(bands):
 def test_leak_open_and_circular(bands):
     r1, r2 = room("r1", bands, 30.0), room("r2", bands, 60.0)
     (op,) = read(bands, "leak", {"area": 0.01, "model": "open"}, [r1, r2])
-    # eta = c S_a/(4 omega V_1) for tau = 1 (Lyon & DeJong 1995; PHYSICS.md 5.5)
+    # eta = c S_a/(4 omega V_1) for tau = 1 (Lyon & DeJong 1995)
     np.testing.assert_allclose(op.coupling_loss_factor, AIR[1] * 0.01 / (4 * bands.omega * 30.0))
     (ba,) = read(bands, "leak", {"area": 0.01, "model": "open"}, [r2, r1])
     reverse_ok(op, ba, {"r1": r1, "r2": r2}, rtol=1e-12)

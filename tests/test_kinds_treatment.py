@@ -118,7 +118,7 @@ def test_sabine_reverberation_time_0161(tmp_path):
 
 def test_air_absorption_matches_iso_9613_2_table(tmp_path):
     # ISO 9613-2:1996 Table 2, 20 C, 70 % RH, octave bands 500 Hz - 8 kHz [dB/km]
-    # (values from memory, PHYSICS.md 7.2): the air adds 4 m V to A, m = alpha/4.343 (ISO 354).
+    # (values from memory): the air adds 4 m V to A, m = alpha/4.343 (ISO 354).
     alpha_db_km = np.array([2.8, 5.0, 9.0, 22.9, 76.6])
     tol = np.maximum(0.06, 0.005 * alpha_db_km)  # table rounding (docs/theory/treatment.md 3)
     v, a = 200.0, 20.0
@@ -299,7 +299,7 @@ def test_free_layer_lowers_point_force_velocity(tmp_path):
 
 def test_free_layer_near_first_order_published_ratio(tmp_path):
     # First-order RKU/Oberst ratio eta/eta2 = e h (3 + 6h + 4h^2 + 2 e h^3 + e^2 h^4) /
-    # ((1 + e h)(1 + 4 e h + 6 e h^2 + 4 e h^3 + e^2 h^4)) (Ungar 1992; PHYSICS.md 7.3) for a
+    # ((1 + e h)(1 + 4 e h + 6 e h^2 + 4 e h^3 + e^2 h^4)) (Ungar 1992, ch. 12 of Beranek & Ver) for a
     # lightly damped layer and an undamped base.
     h1, h2, e2, eta2 = 0.001, 0.002, 1e9, 0.01
     text = _PLATE.format(eta1=0.0, h1=h1, treatment=_FREE.format(h2=h2, e2=e2, eta2=eta2))

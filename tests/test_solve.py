@@ -27,7 +27,7 @@ def test_two_subsystems_hand_solved(one_band):
 
 @pytest.mark.regression
 def test_two_plates_worked_example():
-    # Regression values computed by the reference sheet's author (PHYSICS.md sec. 5.3 [C]):
+    # Regression values computed by hand outside the code (not published):
     # two 1 mm steel plates, 1 m^2 and 1.5 m^2, L-junction eta12 = 3.3493e-3 at 1 kHz,
     # eta = 0.01 each, 1 mW into plate 1 -> E1 = 1.2495e-5 J, E2 = 3.4209e-6 J.
     bands = BandAxis.from_range(1000, 1000)

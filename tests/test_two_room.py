@@ -4,7 +4,7 @@ connection kinds, against published single-panel transmission-loss predictions.
 The model is built from materials and dimensions (subsystem kinds ``plate`` and
 ``cavity``; connections ``radiation`` on each face and ``nonresonant`` through the
 panel). The transmission loss follows from the solved levels as in a laboratory test
-(ISO 10140-2 definition, PHYSICS.md 6.7): TL = L1 - L2 + 10 lg(S/A2), with the receiving
+(ISO 10140-2:2021, clause 3 definition): TL = L1 - L2 + 10 lg(S/A2), with the receiving
 room's equivalent absorption area A2 = 8 pi f eta_2 V_2 / c (Sabine: A = 24 ln(10) V/(c T)
 with T = 6 ln(10)/(pi f eta)). The expected values below are written out from the
 published formulas, not computed with seatool's functions.
@@ -89,7 +89,8 @@ def test_cremer_well_above_coincidence():
     # Steel 6 mm, 2.0 m x 1.5 m: f_c ~ 2 kHz; bands 8-16 kHz (f >= 4 f_c). Cremer (1942):
     # TL = 20 lg(omega m''/(2 rho c)) + 10 lg(2 eta f/(pi f_c)), eta the panel's total loss
     # factor: internal 0.01 plus radiation into both rooms, 2 rho c/(omega m'') (sigma = 1,
-    # Cremer's assumption). PHYSICS.md 4.3: the SEA room-panel-room model reproduces this
+    # Cremer's assumption). Crocker & Price (1969, J. Sound Vib. 9(3), 469-486; from memory):
+    # the SEA room-panel-room model reproduces this
     # exactly with sigma = 1; the band-averaged sigma = (1 - f_c/f)^(-1/2) > 1 lowers TL
     # by 10 lg(sigma^2) = 1.2 dB at 4 f_c and 0.6 dB at 8 f_c. Tolerance 1.5 dB.
     tl, p, f = transmission_loss(two_rooms("steel", 0.006, 2.0, 1.5, 8000, 16000))

@@ -16,7 +16,10 @@ from . import (
     measured,
     panel,
     paths,
+    rating,
     sensitivity,
+    sweep,
+    sweep_run,
     targets,
     uncertainty,
     variants,
@@ -24,4 +27,4 @@ from . import (
 from ._keypath import read_data
 from ._system import receiver_index
 
-__all__ = ["candidates", "comfort", "lightest", "variants", "confidence", "measured", "panel", "paths", "read_data", "receiver_index", "sensitivity", "targets", "uncertainty"]
+__all__ = ["candidates", "comfort", "lightest", "variants", "confidence", "measured", "panel", "paths", "rating", "read_data", "receiver_index", "sensitivity", "sweep", "sweep_run", "targets", "uncertainty"]

@@ -10,7 +10,11 @@ For a material, a thickness and a size ``lx`` x ``ly``, :func:`panel_table` give
   (:func:`seatool.kinds.plate_treatment.read_plate_treatment`,
   :func:`seatool.kinds.layers.lining_absorption`);
 * the band-averaged radiation efficiency and the transmission loss of the two-room SEA
-  model of the panel (:func:`two_room_model`, :func:`room_transmission_loss`).
+  model of the panel (:func:`two_room_model`, :func:`room_transmission_loss`);
+* the panel's total loss factor as mounted (:func:`installed_loss_factor`): unless a
+  loss factor is stated (``mounting="stated"``), the material's internal loss factor plus
+  the losses into the laboratory opening (``"laboratory"``, the default) or into edges of
+  a stated absorption coefficient (``"edges"``).
 
 Bad treatment input raises :class:`seatool.errors.InputError` whose key paths start with
 the :class:`PanelSpec` field name (``damping_layer``, ``cover``, ``trim``).
@@ -34,16 +38,18 @@ from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
 from ..modelfile import Reader, build
-from ..physics import plates, radiation
+from ..physics import installed_damping, plates, radiation
 from ..physics import validity as pv
 from ..solve import solve
 
 __all__ = [
     "DEFAULT_REVERBERATION_TIME",
     "DEFAULT_ROOM_VOLUMES",
+    "MOUNTINGS",
     "PanelSpec",
     "basic_columns",
     "coupling_columns",
+    "installed_loss_factor",
     "panel_table",
     "room_transmission_loss",
     "treatment_columns",
@@ -57,6 +63,8 @@ Array = npt.NDArray[np.float64]
 DEFAULT_ROOM_VOLUMES = (60.0, 75.0)
 #: Default reverberation time of both rooms [s] (common practice for test rooms).
 DEFAULT_REVERBERATION_TIME = 1.5
+#: How the panel's edges lose energy (:func:`installed_loss_factor`).
+MOUNTINGS = ("laboratory", "edges", "stated")
 #: Shape of the rooms: side ratios (product 1) of a shoebox, common practice.
 _ROOM_RATIOS = (0.8, 1.0, 1.25)
 
@@ -75,7 +83,8 @@ class PanelSpec:
     lx, ly : float
         Side lengths [m].
     loss_factor : float
-        Damping loss factor used for the modal overlap and the two-room model [-].
+        The material's internal loss factor [-], or with ``mounting="stated"`` the panel's
+        total loss factor as mounted (a measured value), used as given.
     fluid : Fluid
         Fluid on the panel's faces (coincidence frequency, rooms of the two-room model).
     room_volumes : (float, float)
@@ -88,6 +97,10 @@ class PanelSpec:
         Constraining cover over the damping layer: material name and thickness [m].
     trim : str or None
         Trim layer or build-up of the treatment library on one face.
+    mounting : {"laboratory", "edges", "stated"}
+        Losses at the edges added to ``loss_factor`` (:func:`installed_loss_factor`).
+    edge_absorption : float
+        Bending-wave absorption coefficient of every edge for ``mounting="edges"`` [-].
     """
 
     material: Material
@@ -101,6 +114,16 @@ class PanelSpec:
     damping_layer: str | None = None
     cover: tuple[str, float] | None = None
     trim: str | None = None
+    mounting: str = "laboratory"
+    edge_absorption: float = 0.0
+
+    def __post_init__(self) -> None:
+        if self.mounting not in MOUNTINGS:
+            msg = f"mounting must be one of {MOUNTINGS}, got {self.mounting!r}"
+            raise ValueError(msg)
+        if not 0.0 <= self.edge_absorption <= 1.0:
+            msg = f"edge_absorption must lie in 0 .. 1, got {self.edge_absorption!r}"
+            raise ValueError(msg)
 
     @property
     def area(self) -> float:
@@ -128,17 +151,51 @@ class PanelSpec:
         )
 
 
+def installed_loss_factor(spec: PanelSpec, f: npt.ArrayLike) -> Array:
+    """The panel's loss factor as mounted, per frequency [-] (radiation not included).
+
+    * ``"stated"``: ``spec.loss_factor`` as given (a measured total loss factor wins);
+    * ``"laboratory"`` (default): the internal loss factor plus the losses into the
+      heavy opening of a test laboratory,
+      :func:`seatool.physics.installed_damping.laboratory_loss_factor`
+      (EN ISO 12354-1:2017 Annex C);
+    * ``"edges"``: the internal loss factor plus the absorption of ``edge_absorption`` on
+      the whole perimeter,
+      :func:`seatool.physics.installed_damping.edge_absorption_loss_factor`
+      (EN ISO 12354-1:2017 Annex C, in situ).
+
+    The radiation losses into the rooms are the radiation couplings of the two-room
+    model, not part of this value.
+    """
+    f_a = np.asarray(f, dtype=np.float64)
+    if spec.mounting == "stated":
+        return np.full(f_a.shape, float(spec.loss_factor))
+    if spec.mounting == "edges":
+        edge = installed_damping.edge_absorption_loss_factor(
+            f_a,
+            spec.area,
+            2.0 * (spec.lx + spec.ly) * spec.edge_absorption,
+            spec.critical_frequency,
+            c0=spec.fluid.sound_speed,
+        )
+        return np.asarray(spec.loss_factor + edge, dtype=np.float64)
+    return installed_damping.laboratory_loss_factor(f_a, spec.mass_per_area, spec.loss_factor)
+
+
 def basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:
-    """Coincidence frequency, modal density, modes in band, modal overlap, bending wavelength."""
+    """Coincidence frequency, modal density, modes in band, installed loss factor, modal
+    overlap, bending wavelength."""
     f = bands.centre
     d, m = spec.bending_stiffness, spec.mass_per_area
     n = plates.plate_bending_modal_density(f, spec.area, d, m)
     k = plates.plate_bending_wavenumber(f, d, m)
+    eta = installed_loss_factor(spec, f)
     return {
         "critical_frequency_hz": np.full(f.shape, spec.critical_frequency),
         "modal_density_per_hz": n,
         "modes_in_band": pv.modes_in_band(n, bands.width),
-        "modal_overlap": pv.modal_overlap(f, n, spec.loss_factor),
+        "loss_factor": eta,
+        "modal_overlap": pv.modal_overlap(f, n, eta),
         "bending_wavelength_m": 2.0 * np.pi / k,
     }
 
@@ -245,7 +302,10 @@ def two_room_model(spec: PanelSpec, bands: BandAxis) -> Model:
                 "lx": spec.lx,
                 "ly": spec.ly,
                 "fluid": "panel_fluid",
-                "damping": spec.loss_factor,
+                "damping": {
+                    "band_hz": [float(x) for x in bands.centre],
+                    "values": [float(x) for x in installed_loss_factor(spec, bands.centre)],
+                },
             },
         },
         "connections": {

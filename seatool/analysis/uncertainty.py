@@ -24,8 +24,8 @@ model file is rebuilt. Otherwise each sample is rebuilt with
 :func:`seatool.modelfile.build` and solved (slower).
 
 Not included: the ensemble variance of the response from the published SEA variance
-theory (Langley & Cotoni 2004, JASA 115(2), 706-718). The project's reference sheet
-quotes its formulas from memory and no independent check is available here, so it is
+theory (Langley & Cotoni 2004, JASA 115(2), 706-718). Its formulas were available
+only from memory and no independent check is available here, so it is
 left out; :mod:`seatool.physics.validity` gives the single-subsystem GOE estimate.
 """
 

@@ -18,6 +18,9 @@ paths          :mod:`.analysis`      :func:`seatool.contributions`, :func:`seato
 sensitivity    :mod:`.analysis`      :func:`seatool.analysis.sensitivity.receiver_sensitivities`,
                                      :func:`seatool.ranking`
 spread         :mod:`.analysis`      :func:`seatool.spread`
+sweep          :mod:`.sweep`         :func:`seatool.analysis.sweep.sweep`,
+                                     :func:`seatool.analysis.sweep.sobol_indices`,
+                                     :func:`seatool.plot.plot_sweep`
 report         :mod:`.report`        :func:`seatool.report.write_report`
 =============  ====================  ===================================================
 
@@ -38,7 +41,7 @@ import seatool
 from .._version import __version__
 from ..errors import InputError
 from ..levels import CAUTION
-from . import analysis, decisions, lowfreq, measured, model, panel, report
+from . import analysis, decisions, lowfreq, measured, model, panel, report, sweep
 from ._common import EXIT_INPUT, EXIT_INTERNAL, Command
 
 __all__ = ["COMMANDS", "main"]
@@ -51,6 +54,7 @@ COMMANDS: tuple[Command, ...] = (
     analysis.PATHS,
     analysis.SENSITIVITY,
     analysis.SPREAD,
+    sweep.SWEEP,
     decisions.VARIANTS,
     decisions.LIGHTEST,
     measured.LOSS_FACTORS,

@@ -42,7 +42,16 @@ def _arguments(p: argparse.ArgumentParser) -> None:
     p.add_argument(
         "--loss-factor",
         metavar="ETA",
-        help="damping loss factor for the modal overlap (default: the material's)",
+        help="the panel's total loss factor as mounted, e.g. measured; used as given "
+        "(default: the material's internal loss factor plus the losses into a laboratory "
+        "opening, EN ISO 12354-1 Annex C)",
+    )
+    p.add_argument(
+        "--edge-absorption",
+        metavar="ALPHA",
+        help="bending-wave absorption coefficient (0 .. 1) of the edges: the losses at the "
+        "edges instead of those into a laboratory opening (glazing in gaskets, resilient "
+        "mountings); not with --loss-factor",
     )
     p.add_argument(
         "--fluid",
@@ -145,6 +154,21 @@ def spec_from_args(
     lx = _num(problems, args.lx, "--lx")
     ly = _num(problems, args.ly, "--ly")
     eta = _num(problems, args.loss_factor, "--loss-factor")
+    mounting = "stated" if eta is not None else "laboratory"
+    alpha = _num(problems, args.edge_absorption, "--edge-absorption", minimum=None)
+    if alpha is not None:
+        if not 0.0 <= alpha <= 1.0:
+            problems.append(Problem("", "--edge-absorption", f"must lie in 0 .. 1, got {alpha:g}"))
+        elif args.loss_factor is not None:
+            problems.append(
+                Problem(
+                    "",
+                    "--edge-absorption",
+                    "not with --loss-factor (a stated loss factor is the total as mounted)",
+                )
+            )
+        else:
+            mounting = "edges"
     lo = _num(problems, args.lowest, "--lowest")
     hi = _num(problems, args.highest, "--highest")
     fluids = seatool.materials.load_fluids()
@@ -224,6 +248,8 @@ def spec_from_args(
         damping_layer=args.damping_layer or None,
         cover=cover,
         trim=args.trim or None,
+        mounting=mounting,
+        edge_absorption=alpha or 0.0,
     )
     return spec, bands
 
@@ -267,7 +293,7 @@ def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
         f"panel: {m.name}, h = {spec.thickness:g} m, {spec.lx:g} x {spec.ly:g} m "
         f"(m'' = {spec.mass_per_area:.4g} kg/m^2, D = {spec.bending_stiffness:.4g} N m)",
         f"coincidence frequency in {spec.fluid.name}: {spec.critical_frequency:.0f} Hz; "
-        f"loss factor {spec.loss_factor:g}",
+        f"loss factor {_loss_factor_text(spec)}",
     ]
     cols = [c for c in table.columns if c not in ("band_hz", "band_exact_hz")]
     head = ["band", *cols]
@@ -282,7 +308,23 @@ def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
     fmt = "  ".join(f"{{:>{w}}}" for w in widths)
     lines += [fmt.format(*head), fmt.format(*["-" * w for w in widths])]
     lines += [fmt.format(*r) for r in rows]
+    rating = seatool.analysis.rating.rating_of_bands(
+        bands, table["transmission_loss_sea_dB"].to_numpy()
+    )
+    if rating is not None:
+        lines.append(f"single-number rating of the transmission loss (ISO 717-1): {rating}")
     return "\n".join(lines)
+
+
+def _loss_factor_text(spec: seatool.PanelSpec) -> str:
+    if spec.mounting == "stated":
+        return f"{spec.loss_factor:g} (stated, as mounted)"
+    if spec.mounting == "edges":
+        return (
+            f"{spec.loss_factor:g} internal + edges of absorption coefficient "
+            f"{spec.edge_absorption:g} (EN ISO 12354-1 Annex C)"
+        )
+    return f"{spec.loss_factor:g} internal + laboratory opening (EN ISO 12354-1 Annex C)"
 
 
 def _handler(args: argparse.Namespace) -> int:

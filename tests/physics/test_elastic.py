@@ -7,7 +7,7 @@ import pytest
 
 from seatool.physics import elastic
 
-# steel as used throughout the project's reference sheet (PHYSICS.md conventions)
+# steel: typical handbook values (Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed. Table 3.1; from memory)
 E_ST, RHO_ST, NU_ST = 210e9, 7850.0, 0.30
 
 

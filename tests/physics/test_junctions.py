@@ -87,8 +87,8 @@ def test_bending_only_unequal_plates_vigran_formulas(ratio):
 
 
 def test_bending_only_identical_oblique_and_diffuse():
-    # identical plates: tau(theta) = 2 cos^2(theta)/N^2, tau_bar = 4/(3 N^2) (PHYSICS.md 5.3,
-    # follows from Cremer's model; L 1/3, T 4/27, X 1/12).
+    # identical plates: tau(theta) = 2 cos^2(theta)/N^2, tau_bar = 4/(3 N^2) (Cremer's
+    # bending-only model, Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed. ch. 6, from memory; L 1/3, T 4/27, X 1/12).
     for plates in (l_junction(), t_junction(), x_junction()):
         n = len(plates)
         tau = jn.bending_junction_transmission(1000.0, THETA, plates)
@@ -235,9 +235,10 @@ def k_ij(tau: float, h_j: float) -> float:
     return -10 * math.log10(tau) + 5 * math.log10(critical_frequency(h_j) / 1000.0)
 
 
+@pytest.mark.measured
 def test_vibration_reduction_index_against_en12354_annex_e():
     # EN ISO 12354-1 Annex E empirical K_ij of rigid cross and T junctions of homogeneous
-    # heavy elements, M = lg(m'_perp / m'_i) (from memory, PHYSICS.md sec. 9):
+    # heavy elements, M = lg(m'_perp / m'_i) (from memory):
     #   cross: K_13 = 8.7 + 17.1 M + 5.7 M^2, K_12 = 8.7 + 5.7 M^2
     #   T:     K_13 = 5.7 + 14.1 M + 5.7 M^2, K_12 = 5.7 + 5.7 M^2
     # Model: full wave model, bending -> bending diffuse tau_bar, concrete 150 mm in-line

@@ -82,7 +82,8 @@ def test_plate_mobility_vs_band_averaged_modal_sum_of_finite_plate() -> None:
 
 @pytest.mark.regression
 def test_plate_mobility_regression() -> None:
-    # [C] PHYSICS.md 5.4: steel 1 mm, Y_inf = 0.010174 m/(N s)
+    # computed by hand outside the code (Y = 1/(8 sqrt(D m'')), Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed., not
+    # published): steel 1 mm, Y_inf = 0.010174 m/(N s)
     d = plates.bending_stiffness(E_ST, 1e-3, NU_ST)
     assert complex(mob.plate_point_mobility(d, RHO_ST * 1e-3)).real == pytest.approx(
         0.010174, rel=1e-4
@@ -214,7 +215,7 @@ def test_point_force_power_vs_time_average() -> None:
 
 
 def test_diffuse_field_power_reproduces_cremer_above_coincidence() -> None:
-    # Cremer (1942) resonant transmission above coincidence (PHYSICS.md 6.4, from memory):
+    # Cremer (1942) resonant transmission above coincidence (Akust. Z. 7, 81-104, from memory):
     # tau = (pi / (2 eta)) (f_c / f) (rho c / (pi f m''))^2.
     # SEA route: diffuse field -> panel (this function), panel energy E = P / (w eta),
     # radiated power W = rho c sigma S E / M into the far side, tau = W / (S <p^2>/(4 rho c)).

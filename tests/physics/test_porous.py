@@ -20,7 +20,8 @@ Z0 = RHO0 * C0
 
 @pytest.mark.parametrize("sigma", [5e3, 2e4, 6e4])
 def test_delany_bazley_published_coefficients(sigma):
-    # Delany & Bazley (1970), Applied Acoustics 3, 105-116, as quoted in PHYSICS.md 8.1 [S]:
+    # Delany & Bazley (1970), Applied Acoustics 3, 105-116 (as quoted in
+    # secondary sources; the paper was not re-read):
     # Z = rho0 c0 (1 + 0.0571 X^-0.754 - j 0.087 X^-0.732),
     # k = (omega/c0)(1 + 0.0978 X^-0.700 - j 0.189 X^-0.595), X = rho0 f/sigma
     x = np.array([0.02, 0.1, 0.5, 0.9])
@@ -38,7 +39,7 @@ def test_delany_bazley_published_coefficients(sigma):
 
 
 def test_delany_bazley_close_to_1970_form():
-    # PHYSICS.md 8.1 [S]: the paper's form with (10^3 f/sigma) and coefficients
+    # Delany & Bazley (1970) as quoted in secondary sources: the paper's form with (10^3 f/sigma) and coefficients
     # 9.08/0.75, 11.9/0.73, 10.8/0.70, 10.3/0.59 "gives very close results": within 3 %.
     sigma = 1e4
     f = np.array([150.0, 400.0, 1000.0, 3000.0, 7000.0])
@@ -55,7 +56,8 @@ def test_miki_published_coefficients(sigma):
     # Miki (1990), J. Acoust. Soc. Jpn (E) 11, 19-24, published with F = 10^3 f/sigma:
     # Z = rho0 c0 (1 + 5.50 F^-0.632 - j 8.43 F^-0.632),
     # k = (omega/c0)(1 + 7.81 F^-0.618 - j 11.41 F^-0.618)
-    # (coefficients as quoted in PHYSICS.md 8.2 [S]); checks our conversion to f/sigma.
+    # (Miki 1990, J. Acoust. Soc. Jpn (E) 11(1), 19-24; coefficients as quoted in
+    # secondary sources); checks our conversion to f/sigma.
     f = np.array([0.02, 0.2, 0.8]) * sigma / RHO0
     z, k = por.miki(f, sigma, rho0=RHO0, c0=C0)
     ff = 1e3 * f / sigma
@@ -79,7 +81,7 @@ def test_validity_warning():
 
 
 def test_miki_removes_negative_resistance():
-    # Miki (1990) motivation (PHYSICS.md 8.2 [S]): Delany-Bazley can give Re(Z_s) < 0 for a
+    # Miki (1990, J. Acoust. Soc. Jpn (E) 11(1), 19-24) motivation: Delany-Bazley can give Re(Z_s) < 0 for a
     # thin layer at low X; Miki's model stays positive-real.
     f, sigma, d = 125.0, 2e4, 0.025
     with pytest.warns(por.ValidityWarning):

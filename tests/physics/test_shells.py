@@ -8,7 +8,7 @@ from scipy import integrate, special
 
 from seatool.physics import elastic, plates, shells
 
-# steel as used throughout the project's reference sheet (PHYSICS.md conventions)
+# steel: typical handbook values (Cremer, Heckl & Petersson 2005, Structure-Borne Sound, 3rd ed. Table 3.1; from memory)
 E_ST, RHO_ST, NU_ST = 210e9, 7850.0, 0.30
 
 
@@ -37,7 +37,9 @@ def test_cylinder_ratio_closed_form_vs_quadrature() -> None:
 
 
 def test_cylinder_ratio_asymptotes() -> None:
-    # low: (2/pi) Gamma(1/4)^2 / (4 sqrt(2 pi)) sqrt(nu) (PHYSICS.md 2.5, derived);
+    # low: (2/pi) Gamma(1/4)^2 / (4 sqrt(2 pi)) sqrt(nu) (derived by area counting in wavenumber space
+    # from the Donnell-type shell dispersion relation, Heckl 1962, J. Acoust. Soc. Am. 34(10),
+    # 1553-1557, from memory);
     # high: 1 + 3/(16 nu^2)
     c_low = 2 / np.pi * special.gamma(0.25) ** 2 / (4 * np.sqrt(2 * np.pi))
     nu = np.array([1e-4, 1e-3])
@@ -122,6 +124,7 @@ def test_ring_frequency_is_breathing_mode_of_donnell_equations() -> None:
 
 @pytest.mark.regression
 def test_ring_frequency_regression() -> None:
-    # [C] PHYSICS.md 2.5: steel, a = 1 m -> 863 Hz (computed by the sheet's author)
+    # f_r = c_L'/(2 pi a) (Szechenyi 1971, J. Sound Vib. 19(1), 65-81) computed by hand
+    # outside the code (not published): steel, a = 1 m -> 863 Hz
     fr = shells.ring_frequency(1.0, elastic.plate_longitudinal_speed(E_ST, RHO_ST, NU_ST))
     assert fr == pytest.approx(863, rel=2e-3)

@@ -33,7 +33,7 @@ def test_similarity_property():
 
 @pytest.mark.regression
 def test_rigid_backed_regression_table():
-    # regression: PHYSICS.md 8.3 table [C] (sigma = 10 kPa s/m^2, d = 50 mm), not published
+    # regression: computed by hand outside the code (sigma = 10 kPa s/m^2, d = 50 mm), not published
     f = np.array([250.0, 500.0, 1000.0, 2000.0, 4000.0])
     a_db = surface_absorption.absorption_coefficient(
         surface_absorption.rigid_backed_impedance(f, *por.delany_bazley(f, 1e4), 0.05)
@@ -114,7 +114,7 @@ def test_paris_quadrature_matches_closed_form_local():
 
 
 def test_paris_maximum_0951():
-    # from memory (PHYSICS.md 8.3 [M]): max over real zeta of the locally reacting diffuse
+    # from memory (Paris 1928; Kuttruff 2009, Room Acoustics, 5th ed., ch. 2): max over real zeta of the locally reacting diffuse
     # absorption is 0.951 near zeta = 1.6. Independent method: numerical optimisation of the
     # quadrature (not the closed form).
     def neg(r):

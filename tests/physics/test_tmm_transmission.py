@@ -41,7 +41,7 @@ def test_anechoic_backing_energy_balance():
 
 
 def test_limp_mass_law_normal_incidence():
-    # normal-incidence mass law (PHYSICS.md 6.1, standard): tau = 1/(1 + (omega m/(2 rho c))^2)
+    # normal-incidence mass law (Fahy & Gardonio 2007, Sound and Structural Vibration, 2nd ed., ch. 5; from memory): tau = 1/(1 + (omega m/(2 rho c))^2)
     f = np.array([50.0, 500.0, 5000.0])
     m = 10.0
     tau = tmm_transmission.transmission_coefficient(f, [tmm.LimpLayer(m)], rho0=RHO0, c0=C0)
@@ -49,7 +49,7 @@ def test_limp_mass_law_normal_incidence():
 
 
 def test_field_incidence_mass_law_vigran():
-    # Vigran (2008) Building Acoustics eq. 6.102 [S]: R_field ~= R_0 - 5 dB ~= 20 lg(f m) - 47,
+    # Vigran (2008) Building Acoustics eq. 6.102: R_field ~= R_0 - 5 dB ~= 20 lg(f m) - 47,
     # obtained by integrating the infinite-limp-wall tau to about 78 deg
     for f, m in ((500.0, 10.0), (250.0, 20.0), (1000.0, 5.0)):
         r0 = tmm_transmission.transmission_loss(f, [tmm.LimpLayer(m)], incidence="normal")
@@ -59,7 +59,7 @@ def test_field_incidence_mass_law_vigran():
 
 
 def test_random_incidence_mass_law_london():
-    # London (1950) / Beranek, from memory (PHYSICS.md 6.3 [M]): R_random ~= R_0 - 10 lg(0.23 R_0)
+    # London (1950), J. Acoust. Soc. Am. 22(2), 270-279 / Beranek, from memory: R_random ~= R_0 - 10 lg(0.23 R_0)
     for f, m in ((500.0, 10.0), (1000.0, 20.0)):
         r0 = float(tmm_transmission.transmission_loss(f, [tmm.LimpLayer(m)], incidence="normal"))
         rr = tmm_transmission.transmission_loss(f, [tmm.LimpLayer(m)], incidence="random")
@@ -68,7 +68,7 @@ def test_random_incidence_mass_law_london():
 
 def test_plate_coincidence_frequency_and_transmission():
     plate = tmm.PlateLayer(1e-3, loss_factor=0.02, **STEEL)
-    # Long (2006) Architectural Acoustics Table 9.1 [S]: f_c h = 12.4 Hz m for steel (+-10 %)
+    # Long (2006) Architectural Acoustics Table 9.1: f_c h = 12.4 Hz m for steel (+-10 %)
     assert abs(plate.critical_frequency(c0=C0) * 1e-3 / 12.4 - 1) < 0.1
     # at the coincidence angle the stiffness cancels the mass: Z = eta omega m'' (analytic),
     # tau = 1/(1 + eta omega m'' cos(theta)/(2 rho c))^2
@@ -106,7 +106,7 @@ def test_plate_diffuse_quadrature_against_adaptive_quad():
 
 
 def test_cremer_above_coincidence():
-    # Cremer (1942), from memory (PHYSICS.md 6.4 [M]), valid well above f_c (f > 2 f_c):
+    # Cremer (1942), Akust. Z. 7, 81-104, from memory, valid well above f_c (f > 2 f_c):
     # R = 20 lg(pi f m/(rho c)) + 10 lg(2 eta f/(pi f_c)); tolerance 1.5 dB at f >= 4 f_c
     plate = tmm.PlateLayer(2e-3, loss_factor=0.01, **STEEL)
     fc, m = plate.critical_frequency(), plate.mass_per_area
@@ -134,8 +134,8 @@ def test_reciprocity_reversed_build_up():
 
 @pytest.mark.parametrize(("m1", "m2", "d"), [(10.0, 10.0, 0.1), (20.0, 5.0, 0.05)])
 def test_mass_air_mass_resonance(m1, m2, d):
-    # f0 = (1/2 pi) sqrt(rho0 c^2 (m1 + m2)/(d m1 m2)) (Long 2006 eq. 9.48 region formula /
-    # PHYSICS.md 6.6): the normal-incidence transmission peaks there (tau -> 1 for m1 = m2)
+    # f0 = (1/2 pi) sqrt(rho0 c^2 (m1 + m2)/(d m1 m2)) (Long 2006, Architectural Acoustics,
+    # eq. 9.48): the normal-incidence transmission peaks there (tau -> 1 for m1 = m2)
     f0 = math.sqrt(RHO0 * C0**2 * (m1 + m2) / (d * m1 * m2)) / (2 * math.pi)
     f = np.linspace(0.7 * f0, 1.3 * f0, 6001)
     layers = [tmm.LimpLayer(m1), tmm.AirLayer(d), tmm.LimpLayer(m2)]

@@ -43,8 +43,12 @@ def test_cremer_equals_random_incidence_integral_well_above_coincidence(m, fc, r
     assert float(db(num)) == pytest.approx(float(db(cremer)), abs=1.2)
 
 
+@pytest.mark.consistency
 def test_cremer_formula_dB_form():
-    # R = 20 lg(pi f m''/(rho0 c0)) + 10 lg(2 eta f/(pi f_c)) (Cremer 1942; PHYSICS.md 6.4).
+    # Consistency: the dB form of the same formula. The independent check of Cremer's
+    # result is tests/physics/test_tmm_transmission.py::test_cremer_above_coincidence
+    # (the random-incidence angular integral of the infinite plate).
+    # R = 20 lg(pi f m''/(rho0 c0)) + 10 lg(2 eta f/(pi f_c)) (Cremer 1942, Akust. Z. 7, 81-104).
     f, m, fc, eta = 16000.0, 7.85, 11963.0, 0.01
     expect = (20 * math.log10(math.pi * f * m / (RHO0 * C0))
               + 10 * math.log10(2 * eta * f / (math.pi * fc)))

@@ -107,7 +107,7 @@ def test_library_absorber_sanity(lib):
 
 
 def test_damping_sheet_gives_typical_loss_factor(lib):
-    # common practice (PHYSICS.md 7.4): bitumen-type treatments on vehicle sheet metal give
+    # common practice (no published source confirmed): bitumen-type treatments on vehicle sheet metal give
     # composite loss factors of about 0.05-0.3
     s = lib["damping_sheet_free"]
     res = damping_layers.free_layer_damping(

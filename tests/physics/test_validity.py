@@ -24,8 +24,8 @@ def test_modal_overlap_same_in_hz_and_rad() -> None:
 
 
 @pytest.mark.regression
-def test_reference_sheet_plate_table() -> None:
-    # [C] PHYSICS.md 1.2: steel 1 mm, 1 m^2, eta = 0.01 (computed by the sheet's author)
+def test_plate_validity_table_regression() -> None:
+    # computed by hand outside the code (not published): steel 1 mm, 1 m^2, eta = 0.01
     d = plates.bending_stiffness(210e9, 1e-3, 0.3)
     n = plates.plate_bending_modal_density(100.0, 1.0, d, 7.85)
     bw = (10 ** (1 / 20) - 10 ** (-1 / 20)) * 100.0
@@ -36,7 +36,7 @@ def test_reference_sheet_plate_table() -> None:
 def test_modal_overlap_at_schroeder_frequency() -> None:
     # Schroeder (1962): above f_S = 2000 sqrt(T60 / V) room modes overlap (about 3 modes
     # per half-power bandwidth; the constant 2000 is rounded, from memory). With
-    # eta = 2.2 / (f T60) (ln(10^6)/(2 pi), PHYSICS.md 7.1) and the volume term of the
+    # eta = 2.2 / (f T60) (ln(10^6)/(2 pi); Lyon & DeJong 1995) and the volume term of the
     # cavity modal density, M should be close to 3 at f_S.
     for t60, v in ((1.0, 200.0), (0.5, 50.0), (2.0, 2000.0)):
         f_s = 2000.0 * np.sqrt(t60 / v)
@@ -72,7 +72,7 @@ def test_thin_plate_upper_frequency_gives_six_thicknesses_per_wavelength() -> No
     d = plates.bending_stiffness(e, h, nu)
     lam = plates.plate_bending_phase_speed(f_max, d, rho * h) / f_max
     assert lam == pytest.approx(6 * h, rel=1e-12)
-    assert f_max == pytest.approx(0.0504 * cl / h, rel=1e-3)  # PHYSICS.md 2.1 form
+    assert f_max == pytest.approx(0.0504 * cl / h, rel=1e-3)  # lambda_B = 6 h (common practice)
 
 
 def test_assess_bands_flags_and_messages() -> None:
