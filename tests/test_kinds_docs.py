@@ -36,6 +36,8 @@ def test_declarations_are_well_formed():
     # by name (loss factors, ratios, counts); bounds are ordered
     for k in KINDS:
         assert k.doc, k.name
+        # every derived connection kind says over what it couples (point, line, area)
+        assert k.family != "connection" or k.name == "given" or k.extent, k.name
         for p in k.params:
             assert p.doc, (k.name, p.name)
             if p.bounds is not None:

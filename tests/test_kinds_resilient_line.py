@@ -9,7 +9,9 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from seatool.analysis.confidence import DISTRIBUTED_CONNECTIONS
 from seatool.cli import main
+from seatool.kinds.registry import CONNECTION_KINDS
 from seatool.modelfile import loads
 
 BASE = """
@@ -154,3 +156,12 @@ def test_bad_input_one_line_exit_2(tmp_path, capsys, case, seam, fragments):
     for frag in fragments:
         assert frag in lines[0], lines[0]
     assert not (tmp_path / "o.csv").exists()
+
+
+def test_declared_a_line_coupling():
+    # The spread analysis treats the input of line and area couplings as rain-on-the-roof
+    # loading (Langley & Cotoni 2004, in seatool.analysis.confidence); it reads that from
+    # each kind's declaration, so the new kind is a line coupling like `line` without a
+    # list of kind names to edit.
+    assert CONNECTION_KINDS["resilient_line"].extent == CONNECTION_KINDS["line"].extent == "line"
+    assert {"resilient_line", "line"} <= DISTRIBUTED_CONNECTIONS

@@ -46,6 +46,7 @@ import numpy.typing as npt
 import pandas as pd
 from scipy import special
 
+from ..kinds.registry import CONNECTION_KINDS
 from ..model import Model
 from ..physics.variance import (
     ALPHA_POINT,
@@ -65,9 +66,12 @@ __all__ = [
 
 Array = npt.NDArray[np.float64]
 
-#: Connection kinds whose coupling acts over an area or a line (their input is treated as
-#: rain-on-the-roof loading of the receiving subsystem); every other kind is point-like.
-DISTRIBUTED_CONNECTIONS = frozenset({"radiation", "line", "leak", "nonresonant"})
+#: Connection kinds whose coupling acts over an area or a line, as each kind declares
+#: (``Kind.extent``): their input is treated as rain-on-the-roof loading of the receiving
+#: subsystem; every other kind is point-like.
+DISTRIBUTED_CONNECTIONS = frozenset(
+    k.name for k in CONNECTION_KINDS.values() if k.extent in ("line", "area")
+)
 
 
 def _connection_alpha(kind: str) -> float:

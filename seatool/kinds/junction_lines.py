@@ -308,4 +308,5 @@ LINE = Kind(
     ),
     _line,
     implicit=BETWEEN,
+    extent="line",
 )  # fmt: skip

@@ -193,6 +193,7 @@ POINT = Kind(
     (_POINTS,),
     _point,
     implicit=BETWEEN,
+    extent="point",
 )  # fmt: skip
 
 MOUNT = Kind(
@@ -205,4 +206,5 @@ MOUNT = Kind(
     ),
     _mount,
     implicit=BETWEEN,
+    extent="point",
 )  # fmt: skip

@@ -121,4 +121,5 @@ RESILIENT_LINE = Kind(
     ),
     _resilient_line,
     implicit=BETWEEN,
+    extent="line",
 )  # fmt: skip

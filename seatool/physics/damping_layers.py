@@ -263,7 +263,7 @@ def free_layer_damping(
     rho2 = float(_non_negative("layer_density", layer_density))
     eta1 = float(_non_negative("base_loss_factor", base_loss_factor))
     if isinstance(layer_modulus, ModulusTable) and layer_modulus.quantity != "young":
-        msg = "layer_modulus must be a table of Young's modulus (kind='young') for a free layer"
+        msg = "layer_modulus must be a table of Young's modulus (quantity='young') for a free layer"
         raise ValueError(msg)
     e2 = complex_modulus(f, layer_modulus)
     e1c = e1 * (1.0 + 1j * eta1) / (1.0 - base_poisson**2)
@@ -522,7 +522,7 @@ def constrained_layer_damping(
     eta1 = float(_non_negative("base_loss_factor", base_loss_factor))
     eta3 = float(_non_negative("cover_loss_factor", cover_loss_factor))
     if isinstance(core_shear_modulus, ModulusTable) and core_shear_modulus.quantity != "shear":
-        msg = "core_shear_modulus must be a table of shear modulus (kind='shear')"
+        msg = "core_shear_modulus must be a table of shear modulus (quantity='shear')"
         raise ValueError(msg)
     if wavenumber not in ("composite", "base"):
         msg = f"wavenumber must be 'composite' or 'base', got {wavenumber!r}"
