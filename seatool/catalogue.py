@@ -183,7 +183,7 @@ def _parse_modulus(name: str, kind: str, text: str) -> ModulusTable | None:
         f.append(float(parts[0]))
         e.append(float(parts[1]))
         eta.append(float(parts[2]))
-    return ModulusTable(tuple(f), tuple(e), tuple(eta), kind=kind)  # type: ignore[arg-type]
+    return ModulusTable(tuple(f), tuple(e), tuple(eta), quantity=kind)  # type: ignore[arg-type]
 
 
 def _row_to_treatment(row: Mapping[str, str]) -> Treatment:

@@ -164,10 +164,10 @@ def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacemen
             # A diffuse field's non-resonant part: the modal solution's plane-wave response
             # of the panel's modes already contains the forced (off-resonance) transmission.
             continue
-        if e.kind == "power" and e.subsystem == box.name:
+        if e.drive == "power" and e.subsystem == box.name:
             pt = tuple(f * d for f, d in zip(DEFAULT_SOURCE_POINT, box.dims, strict=True))
             exs.append(PointSource(e.name, (pt[0], pt[1], pt[2]), np.asarray(e.power)))
-        elif e.kind == "power" and e.subsystem in panels and e.level is not None and (
+        elif e.drive == "power" and e.subsystem in panels and e.level is not None and (
             e.quantity in ("force", "diffuse_sound_pressure_level")
         ):
             if e.quantity == "force":
@@ -176,7 +176,7 @@ def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacemen
             else:
                 p2 = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (np.asarray(e.level) / 10)
                 exs.append(DiffuseField(e.name, e.subsystem, p2))
-        elif e.kind == "power" and e.subsystem in panels:
+        elif e.drive == "power" and e.subsystem in panels:
             panel = box.panel(e.subsystem)
             fp = _force_point(box, panels, e.subsystem)
             re_y = float(mobility.plate_point_mobility(panel.bending_stiffness,

@@ -128,8 +128,10 @@ class Connection:
 class Excitation:
     """A source acting on one subsystem.
 
-    ``kind == 'power'``: ``power`` is the band input power [W].
-    ``kind == 'prescribed'``: ``energy`` is the band energy [J] the subsystem is held at
+    ``drive`` says how it acts (not to be confused with the model file's ``kind``, the
+    declared kind that read the entry):
+    ``drive == 'power'``: ``power`` is the band input power [W].
+    ``drive == 'prescribed'``: ``energy`` is the band energy [J] the subsystem is held at
     (converted from a measured level), ``level`` and ``quantity`` keep what was given.
     ``through``: the panel a diffuse field's non-resonant (mass-law) part crosses to reach
     ``subsystem`` (empty for every other excitation).
@@ -137,7 +139,7 @@ class Excitation:
 
     name: str
     subsystem: str
-    kind: Literal["power", "prescribed"]
+    drive: Literal["power", "prescribed"]
     power: Array | None = None
     energy: Array | None = None
     level: Array | None = None
@@ -304,7 +306,7 @@ class Model:
             enames.add(e.name)
             if e.subsystem not in known:
                 raise ModelError(f"excitations.{e.name}: unknown subsystem {e.subsystem!r}")
-            if e.kind == "power":
+            if e.drive == "power":
                 if e.power is None:
                     raise ModelError(f"excitations.{e.name}: power missing")
                 p = _frozen(e.power, nb, f"excitations.{e.name}.power")
@@ -318,11 +320,11 @@ class Model:
                 if not np.all(np.isfinite(en) & (en >= 0)):
                     raise ModelError(f"excitations.{e.name}.energy must be >= 0 and finite")
                 exs.append(_replace(e, energy=en))
-        held = [e.subsystem for e in exs if e.kind == "prescribed"]
+        held = [e.subsystem for e in exs if e.drive == "prescribed"]
         for n in set(held):
             if held.count(n) > 1:
                 raise ModelError(f"subsystem {n!r} has more than one prescribed level")
-            if any(e.kind == "power" and e.subsystem == n for e in exs):
+            if any(e.drive == "power" and e.subsystem == n for e in exs):
                 raise ModelError(
                     f"subsystem {n!r} has a prescribed level and an input power; "
                     "a held level already fixes its energy"

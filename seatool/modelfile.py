@@ -50,6 +50,10 @@ __all__ = [
     "set_load_options",
 ]
 
+#: Sections of the study files (design variants, candidate treatments) and the command
+#: that reads each, for a clear answer when one is given where a model is expected.
+_STUDY_SECTIONS = {"variants": "variants", "surfaces": "lightest"}
+
 _TOP_KEYS = (
     "title",
     "description",
@@ -568,6 +572,13 @@ def build(
     opts = _options(strict, allow_outside_files)
     if _depth(data, MAX_DEPTH) > MAX_DEPTH:
         raise InputError([Problem(file, "", f"nested more than {MAX_DEPTH} levels deep")])
+    study = next((k for k in _STUDY_SECTIONS if k in data), None)
+    if "base" in data and study is not None:
+        msg = (
+            f"a study file of {data['base']!r}, not a model file: read it with "
+            f"`seatool {_STUDY_SECTIONS[study]} {file}`"
+        )
+        raise InputError([Problem(file, study, msg)])
     rd = Reader(
         file=file, base_dir=Path(base_dir), allow_outside_files=opts.allow_outside_files
     )

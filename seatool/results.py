@@ -135,12 +135,12 @@ class Result:
         idx = m.index()
         rows = []
         for e in m.excitations:
-            if e.kind == "power":
+            if e.drive == "power":
                 assert e.power is not None
                 total = float(np.sum(e.power))
             else:
                 total = float(np.sum(self.solution.input_power[idx[e.subsystem]]))
-            rows.append((e.name, e.subsystem, e.quantity or e.kind, total))
+            rows.append((e.name, e.subsystem, e.quantity or e.drive, total))
         return pd.DataFrame(rows, columns=["excitation", "subsystem", "given", "input_W"])
 
     def level_array(self) -> tuple[Array, list[str], list[str]]:

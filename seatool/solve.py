@@ -127,7 +127,7 @@ def assemble(model: Model) -> Assembly:
     power = np.zeros((n, nb))
     for e in model.excitations:
         i = idx[e.subsystem]
-        if e.kind == "power":
+        if e.drive == "power":
             assert e.power is not None
             power[i] += e.power
         else:

@@ -53,7 +53,7 @@ def model_summary(model: Model) -> str:
     out.append(f"excitations ({len(model.excitations)}):")
     overall = 0.0
     for e in model.excitations:
-        if e.kind == "power":
+        if e.drive == "power":
             assert e.power is not None
             total = float(np.sum(e.power))
             overall += total
@@ -65,7 +65,7 @@ def model_summary(model: Model) -> str:
         else:
             assert e.level is not None
             out.append(f"  {e.name}: {e.subsystem} held at {e.quantity} {_range(e.level)} dB")
-    if any(e.kind == "power" for e in model.excitations):
+    if any(e.drive == "power" for e in model.excitations):
         out.append(f"  total input power of the sources: {overall:.3g} W")
     out.extend(summary_lines(model))  # treated plates, linings (mass per area)
     for note in model.notes:

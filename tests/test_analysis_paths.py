@@ -53,7 +53,7 @@ def brute_force(model: Model) -> np.ndarray:
         held = list(np.flatnonzero(sink))
         for e in model.excitations:
             i = idx[e.subsystem]
-            if e.kind == "power":
+            if e.drive == "power":
                 rhs[i] += e.power[j] / model.bands.omega[j]
             else:
                 held.append(i)

@@ -55,7 +55,7 @@ def _scale_con(m, i, f):
 def _scale_exc(m, i, f):
     exs = list(m.excitations)
     e = exs[i]
-    exs[i] = dc.replace(e, power=e.power * f) if e.kind == "power" else dc.replace(e, energy=e.energy * f)
+    exs[i] = dc.replace(e, power=e.power * f) if e.drive == "power" else dc.replace(e, energy=e.energy * f)
     return dc.replace(m, excitations=tuple(exs))
 
 
@@ -71,7 +71,7 @@ def finite_differences(m: Model) -> dict[str, np.ndarray]:
     for i, c in enumerate(m.connections):
         out[f"coupling:{c.name}"] = (levels(_scale_con(m, i, ep)) - levels(_scale_con(m, i, em))) / (2 * H)
     for i, e in enumerate(m.excitations):
-        key = "power" if e.kind == "power" else "held_level"
+        key = "power" if e.drive == "power" else "held_level"
         out[f"{key}:{e.name}"] = (levels(_scale_exc(m, i, ep)) - levels(_scale_exc(m, i, em))) / (2 * H)
     return out
 

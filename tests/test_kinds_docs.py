@@ -26,9 +26,9 @@ def test_a_new_parameter_makes_the_tables_stale(monkeypatch):
 
 def test_an_undocumented_kind_is_reported(monkeypatch):
     text = docs.DOC.read_text(encoding="utf-8")
-    new = Kind("connection", "resilient_line", "test", (Param("length", unit="m"),), lambda *a: None)
+    new = Kind("connection", "undocumented_example", "test", (Param("length", unit="m"),), lambda *a: None)
     monkeypatch.setattr(docs, "KINDS", (*KINDS, new))
-    assert docs.missing_blocks(text) == [("connection", "resilient_line")]
+    assert docs.missing_blocks(text) == [("connection", "undocumented_example")]
 
 
 def test_declarations_are_well_formed():
@@ -36,6 +36,8 @@ def test_declarations_are_well_formed():
     # by name (loss factors, ratios, counts); bounds are ordered
     for k in KINDS:
         assert k.doc, k.name
+        # every derived connection kind says over what it couples (point, line, area)
+        assert k.family != "connection" or k.name == "given" or k.extent, k.name
         for p in k.params:
             assert p.doc, (k.name, p.name)
             if p.bounds is not None:

@@ -56,6 +56,7 @@ import numpy.typing as npt
 import pandas as pd
 from scipy import special
 
+from ..kinds.registry import CONNECTION_KINDS
 from ..model import Model
 from ..physics.variance import (
     ALPHA_POINT,
@@ -90,9 +91,12 @@ BAND_NOTE = (
 
 Array = npt.NDArray[np.float64]
 
-#: Connection kinds whose coupling acts over an area or a line (their input is treated as
-#: rain-on-the-roof loading of the receiving subsystem); every other kind is point-like.
-DISTRIBUTED_CONNECTIONS = frozenset({"radiation", "line", "leak", "nonresonant"})
+#: Connection kinds whose coupling acts over an area or a line, as each kind declares
+#: (``Kind.extent``): their input is treated as rain-on-the-roof loading of the receiving
+#: subsystem; every other kind is point-like.
+DISTRIBUTED_CONNECTIONS = frozenset(
+    k.name for k in CONNECTION_KINDS.values() if k.extent in ("line", "area")
+)
 
 
 def _connection_alpha(kind: str) -> float:
@@ -152,7 +156,7 @@ def relative_variances(
     sources_w: list[Array] = []  # weights (N, B) per input
     sources_a: list[float] = []
     for ex in model.excitations:
-        if ex.kind != "power" or ex.power is None:
+        if ex.drive != "power" or ex.power is None:
             continue
         w = np.zeros((n, nb))
         w[model.index()[ex.subsystem]] = ex.power

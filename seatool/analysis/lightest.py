@@ -97,7 +97,7 @@ def _arrays(model: Model, receivers: Sequence[int]) -> _Arrays:
     power = np.zeros((n, nb))
     idx = model.index()
     for e in model.excitations:
-        if e.kind == "power" and e.power is not None:
+        if e.drive == "power" and e.power is not None:
             power[idx[e.subsystem]] += e.power
     return _Arrays(
         np.vstack([s.damping for s in model.subsystems]),
@@ -272,12 +272,12 @@ def _option_arrays(
         # a diffuse field's non-resonant part is rebuilt with its table
         table = e.name.removesuffix(NONRESONANT_SUFFIX) if e.through else e.name
         if table in exs or any(e.name.startswith(t + "[") for t in exs):
-            if e.kind == "power" and e.power is not None:
+            if e.drive == "power" and e.power is not None:
                 power[idx[e.subsystem]] -= e.power
     for e in m.excitations:
-        if e.kind == "power" and e.power is not None:
+        if e.drive == "power" and e.power is not None:
             power[idx[e.subsystem]] += e.power
-        elif e.kind != "power":
+        elif e.drive != "power":
             raise InputError(
                 [Problem(file, where, "options may not change a held (prescribed) level")]
             )

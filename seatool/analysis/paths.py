@@ -77,7 +77,7 @@ class Source:
     """One source of a model: a power excitation or a held (prescribed-level) subsystem."""
 
     name: str  # excitation name
-    kind: str  # 'power' or 'held level'
+    drive: str  # 'power' or 'held level' (the column source_kind)
     subsystem: str
     index: int
 
@@ -87,8 +87,8 @@ def sources(model: Model) -> list[Source]:
     idx = model.index()
     out = []
     for e in model.excitations:
-        kind = "power" if e.kind == "power" else "held level"
-        out.append(Source(e.name, kind, e.subsystem, idx[e.subsystem]))
+        drive = "power" if e.drive == "power" else "held level"
+        out.append(Source(e.name, drive, e.subsystem, idx[e.subsystem]))
     return out
 
 
@@ -99,7 +99,7 @@ def _source_arrays(model: Model, srcs: list[Source]) -> tuple[Array, Array]:
     by_name = {e.name: e for e in model.excitations}
     for k, s in enumerate(srcs):
         e = by_name[s.name]
-        if e.kind == "power":
+        if e.drive == "power":
             assert e.power is not None
             power[s.index, k] = e.power
         else:
@@ -139,13 +139,13 @@ def _per_source(model: Model) -> _PerSource:
     # External input: given power, or for a held source the power needed to hold it.
     ext = power.copy()
     for k, s in enumerate(srcs):
-        if s.kind == "held level":
+        if s.drive == "held level":
             ext[s.index, k] = damp[s.index, k] + net_out[s.index, k]
     inflow = ext + gross_in
     held_mask = asm.held
     dissipated = np.where(held_mask[:, None, None], -net_out, damp)
     for k, s in enumerate(srcs):
-        if s.kind == "held level":
+        if s.drive == "held level":
             dissipated[s.index, k] = damp[s.index, k]
     del n
     return _PerSource(model, srcs, energy, flow, inflow, dissipated, a, b)
@@ -195,7 +195,7 @@ def _contrib_table(ps: _PerSource, r: int) -> pd.DataFrame:
         {
             "receiver": model.subsystems[r].name,
             "source": np.repeat([s.name for s in ps.srcs], nb),
-            "source_kind": np.repeat([s.kind for s in ps.srcs], nb),
+            "source_kind": np.repeat([s.drive for s in ps.srcs], nb),
             "source_subsystem": np.repeat([s.subsystem for s in ps.srcs], nb),
             **_band_cols(model, ns),
             "energy_J": (np.full_like(e, np.nan) if sink else e).ravel(),
@@ -357,7 +357,7 @@ def paths(
                     {
                         "receiver": names[r],
                         "source": src.name,
-                        "source_kind": src.kind,
+                        "source_kind": src.drive,
                         "path": " > ".join(names[i] for i in path) if path else OTHER_PATHS,
                         "length": len(path) - 1 if path else -1,
                         "band_hz": float(model.bands.nominal[j]),

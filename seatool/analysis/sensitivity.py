@@ -246,7 +246,7 @@ def sensitivities(
     idx = model.index()
     for e in model.excitations:
         i = idx[e.subsystem]
-        if e.kind == "power":
+        if e.drive == "power":
             assert e.power is not None
             names.append(f"power:{e.name}")
             kinds.append("power")

@@ -91,7 +91,7 @@ def _direct_target(data: Mapping[str, Any], model: Model, par: str) -> tuple[str
             return "eta_ab", names.index(name)
     if sec == "excitations" and key == "power":
         names = [e.name for e in model.excitations]
-        if name in names and model.excitations[names.index(name)].kind == "power":
+        if name in names and model.excitations[names.index(name)].drive == "power":
             return "power", names.index(name)
     return None
 

@@ -28,7 +28,9 @@ __all__ = ["DOC", "block_names", "missing_blocks", "render_params", "update"]
 #: The document holding the tables (relative to the repository root).
 DOC = Path(__file__).resolve().parents[2] / "docs" / "model-format.md"
 
-_BLOCK = re.compile(r"(<!-- keys: (\w+) (\w+) -->\n)(.*?)(<!-- end keys -->)", re.S)
+#: A marker block; a new kind's empty block may be written on one line
+#: (``<!-- keys: FAMILY NAME --><!-- end keys -->``): it is filled on the next run.
+_BLOCK = re.compile(r"(<!-- keys: (\w+) (\w+) -->)\n?(.*?)(<!-- end keys -->)", re.S)
 
 
 def _default(p: Param) -> str:
@@ -94,7 +96,7 @@ def update(text: str) -> str:
         key = (m.group(2), m.group(3))
         if key not in tables:
             raise KeyError(f"docs block for an unknown kind: {key[0]} {key[1]}")
-        return m.group(1) + tables[key] + m.group(5)
+        return m.group(1) + "\n" + tables[key] + m.group(5)
 
     return _BLOCK.sub(sub, text)
 

@@ -4,12 +4,17 @@ Wave model with bending and (when the plates carry them) in-plane wave fields,
 ``eta_ij = c_g,i L tau_ij / (pi omega S_i)``
 (:func:`seatool.physics.junctions.line_junction_transmission_diffuse`,
 :func:`seatool.physics.coupling.clf_line_junction`).
+
+What every line-junction kind shares is public here: :func:`junction_plate` (the plate of
+the wave model for a subsystem), :func:`group_speed`, :func:`read_angles` and
+:func:`line_connections`, which turns any diffuse-field transmission function of the
+plates into the coupling loss factors between every pair of wave fields.
 """
 
 from __future__ import annotations
 
 import math
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
 import numpy as np
@@ -23,9 +28,22 @@ from .links import BETWEEN, describe, per_band
 from .params import Kind, Param
 from .reader import Reader
 
-__all__ = ["LINE", "default_angles"]
+__all__ = [
+    "LINE",
+    "Transmission",
+    "default_angles",
+    "group_speed",
+    "junction_plate",
+    "line_connections",
+    "read_angles",
+]
 
 Array = npt.NDArray[np.float64]
+
+#: ``transmission(f, plates, source, incident)``: diffuse-field ``tau_bar[b, p, t]``
+#: ``(B, N, 3)`` of a line junction for the bands ``f`` [Hz] (the plates of those bands,
+#: ``incident`` one of :data:`seatool.physics.junctions.WAVE_TYPES`).
+Transmission = Callable[[Array, Sequence[junctions.JunctionPlate], int, str], Array]
 
 #: Default junction angles [deg] by number of plates: L, T (the second plate is the stem), X.
 _DEFAULT_ANGLES = {2: (0.0, 90.0), 3: (0.0, 90.0, 180.0), 4: (0.0, 90.0, 180.0, 270.0)}
@@ -39,7 +57,7 @@ def default_angles(n: int) -> tuple[float, ...] | None:
     return _DEFAULT_ANGLES.get(n)
 
 
-def _junction_plate(
+def junction_plate(
     rd: Reader, path: str, sub: Subsystem, angle_deg: float, nb: int
 ) -> tuple[list[junctions.JunctionPlate], bool] | None:
     """Per-band plates of the wave model for one subsystem, and whether it is equivalent.
@@ -92,7 +110,7 @@ def _junction_plate(
     return out, not homogeneous
 
 
-def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: Array) -> Array:
+def group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: Array) -> Array:
     """Group speed of a plate wave field: the subsystem's own, else from its material."""
     nb = f.size
     if isinstance(sub.props, PanelProps):
@@ -106,7 +124,8 @@ def _group_speed(sub: Subsystem, plate: junctions.JunctionPlate, wave: str, f: A
     return per_band(elastic.shear_speed(e, rho, nu), nb)
 
 
-def _angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] | None:
+def read_angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] | None:
+    """The ``angles`` of a line junction of ``n`` plates [deg] (defaults: L, T, X)."""
     if "angles" not in s:
         dflt = default_angles(n)
         if dflt is None:
@@ -147,6 +166,17 @@ def _angles(rd: Reader, s: Mapping[str, Any], path: str, n: int) -> list[float] 
 _WAVES = junctions.WAVE_TYPES
 
 
+def _rigid(
+    f: Array, plates: Sequence[junctions.JunctionPlate], source: int, incident: str
+) -> Array:
+    return junctions.line_junction_transmission_diffuse(
+        f,
+        plates,
+        source=source,
+        incident=incident,  # type: ignore[arg-type]
+    )
+
+
 def _line(
     rd: Reader,
     name: str,
@@ -156,8 +186,32 @@ def _line(
     subs: Mapping[str, Subsystem],
     path: str,
 ) -> list[Connection] | None:
+    return line_connections(rd, name, v, s, ends, subs, path, "line", "rigid line junction", _rigid)
+
+
+def line_connections(
+    rd: Reader,
+    name: str,
+    v: Mapping[str, Any],
+    s: Mapping[str, Any],
+    ends: list[Subsystem],
+    subs: Mapping[str, Subsystem],
+    path: str,
+    kind: str,
+    label: str,
+    transmission: Transmission,
+) -> list[Connection] | None:
+    """Coupling loss factors between every pair of wave fields of a line junction.
+
+    ``v`` holds the validated ``length`` [m]; ``s`` is the raw table (``angles`` are read
+    here); ``kind`` names the connections' kind and ``label`` opens their provenance;
+    ``transmission`` gives the diffuse-field transmission coefficients of the plates
+    (see :data:`Transmission`). Each unordered pair of wave fields is stated once, from
+    the lower to the higher (plate, wave) index; the solver adds the other direction by
+    reciprocity. Returns None after reporting problems.
+    """
     length = v["length"]
-    angles = _angles(rd, s, path, len(ends))
+    angles = read_angles(rd, s, path, len(ends))
     per_plate: list[list[junctions.JunctionPlate]] = []
     equivalent: list[str] = []
     ok = length is not None and angles is not None
@@ -174,7 +228,7 @@ def _line(
             ok = False
             continue
         if angles is not None:
-            got = _junction_plate(rd, bp, e, angles[k], nb)
+            got = junction_plate(rd, bp, e, angles[k], nb)
             if got is None:
                 ok = False
             else:
@@ -216,13 +270,8 @@ def _line(
             tau = np.empty((nb, len(ends), 3))
             for idx in groups.values():
                 plates = [pp[idx[0]] for pp in per_plate]
-                tau[idx] = junctions.line_junction_transmission_diffuse(
-                    f[idx],
-                    plates,
-                    source=i,
-                    incident=a,  # type: ignore[arg-type]
-                )
-            cg = _group_speed(src, per_plate[i][0], a, f)
+                tau[idx] = transmission(f[idx], plates, i, a)
+            cg = group_speed(src, per_plate[i][0], a, f)
             for j, fj in enumerate(fields):
                 for b, dst in fj.items():
                     jb = _WAVES.index(b)
@@ -238,10 +287,10 @@ def _line(
                             src.name,
                             dst.name,
                             eta,
-                            kind="line",
+                            kind=kind,
                             provenance={
                                 "coupling_loss_factor": (
-                                    f"rigid line junction, wave model ({a} -> {b}): "
+                                    f"{label}, wave model ({a} -> {b}): "
                                     "c_g L tau_bar/(pi omega S)" + note
                                 )
                             },
@@ -259,4 +308,5 @@ LINE = Kind(
     ),
     _line,
     implicit=BETWEEN,
+    extent="line",
 )  # fmt: skip

@@ -214,7 +214,7 @@ def _read_modulus(rd: Reader, value: Any, path: str, kind: str) -> ModulusTable 
         rd.error(path, "frequency_hz, storage and loss_factor must have the same length")
         return None
     try:
-        return ModulusTable(tuple(cols[0]), tuple(cols[1]), tuple(cols[2]), kind=kind)  # type: ignore[arg-type]
+        return ModulusTable(tuple(cols[0]), tuple(cols[1]), tuple(cols[2]), quantity=kind)  # type: ignore[arg-type]
     except ValueError as exc:
         rd.error(path, str(exc))
         return None
@@ -327,7 +327,7 @@ def _read_item(rd: Reader, value: Any, path: str, modulus_kind: str) -> list[Tri
         if not _keys_ok(rd, t, path, allowed):
             return None
         fields = _read_fields(
-            rd, t, path, kind, base.modulus.kind if base.modulus else modulus_kind
+            rd, t, path, kind, base.modulus.quantity if base.modulus else modulus_kind
         )
         if fields is None:
             return None

@@ -107,4 +107,5 @@ LEAK = Kind(
     ),
     _leak,
     implicit=BETWEEN,
+    extent="area",
 )  # fmt: skip

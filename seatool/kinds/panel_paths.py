@@ -358,6 +358,7 @@ RADIATION = Kind(
     ),
     _radiation,
     implicit=BETWEEN,
+    extent="area",
 )  # fmt: skip
 
 NONRESONANT = Kind(
@@ -369,4 +370,5 @@ NONRESONANT = Kind(
     ),
     _nonresonant,
     implicit=BETWEEN,
+    extent="area",
 )  # fmt: skip

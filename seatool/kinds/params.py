@@ -144,6 +144,11 @@ class Kind:
         (see :mod:`seatool.kinds.registry`).
     implicit : tuple of str
         Keys of the family's tables read by the section reader (``kind``, ``between`` ...).
+    extent : str
+        Connections only: over what the coupling acts, ``"point"``, ``"line"`` or
+        ``"area"`` ('' when not stated: treated as point-like). The spread of the
+        response differs (rain-on-the-roof input for line and area couplings,
+        :mod:`seatool.analysis.confidence`).
     """
 
     family: str
@@ -152,10 +157,15 @@ class Kind:
     params: tuple[Param, ...]
     derive: Callable[..., Any]
     implicit: tuple[str, ...] = ("kind", "description")
+    extent: str = ""
 
     def __post_init__(self) -> None:
         if self.family not in FAMILIES:
             raise ValueError(f"Kind {self.name!r}: unknown family {self.family!r}")
+        if self.extent not in ("", "point", "line", "area") or (
+            self.extent and self.family != "connection"
+        ):
+            raise ValueError(f"Kind {self.name!r}: extent {self.extent!r} not allowed")
         names = [p.name for p in self.params]
         if len(set(names)) != len(names):
             raise ValueError(f"Kind {self.name!r}: a parameter is declared twice")

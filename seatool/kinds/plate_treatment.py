@@ -277,14 +277,14 @@ def read_plate_treatment(
         vt = layer.treatment
         assert vt is not None and vt.modulus is not None and vt.density is not None
         want = "shear" if constrained else "young"
-        if vt.modulus.kind != want:
+        if vt.modulus.quantity != want:
             what = (
                 "a constrained core needs a shear modulus table"
                 if constrained
                 else "a free layer needs a Young's modulus table (a constrained layer needs "
                 "cover = { material, thickness })"
             )
-            rd.error(lp, f"{layer.name!r} has a {vt.modulus.kind} modulus table; {what}")
+            rd.error(lp, f"{layer.name!r} has a {vt.modulus.quantity} modulus table; {what}")
             return None
         if homog is None:
             rd.error(lp, "a damping layer needs a homogeneous plate (thickness and material)")

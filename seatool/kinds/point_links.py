@@ -194,6 +194,7 @@ POINT = Kind(
     (_POINTS,),
     _point,
     implicit=BETWEEN,
+    extent="point",
 )  # fmt: skip
 
 MOUNT = Kind(
@@ -206,4 +207,5 @@ MOUNT = Kind(
     ),
     _mount,
     implicit=BETWEEN,
+    extent="point",
 )  # fmt: skip

@@ -39,6 +39,7 @@ from . import (
     plate_treatment,
     plates,
     point_links,
+    resilient_lines,
     shells,
 )
 from .params import Kind
@@ -70,6 +71,7 @@ KINDS: tuple[Kind, ...] = (
     panel_paths.RADIATION,
     panel_paths.NONRESONANT,
     junction_lines.LINE,
+    resilient_lines.RESILIENT_LINE,
     point_links.POINT,
     point_links.MOUNT,
     leaks.LEAK,

@@ -52,7 +52,7 @@ class ModulusTable:
         Storage (real) modulus at those frequencies [Pa], > 0.
     loss_factor : tuple of float
         Material loss factor eta = E''/E' at those frequencies [-], > 0.
-    kind : {"young", "shear"}
+    quantity : {"young", "shear"}
         Whether the table gives Young's modulus E or the shear modulus G.
 
     Notes
@@ -64,7 +64,7 @@ class ModulusTable:
     frequency: tuple[float, ...]
     storage_modulus: tuple[float, ...]
     loss_factor: tuple[float, ...]
-    kind: Literal["young", "shear"] = "young"
+    quantity: Literal["young", "shear"] = "young"
 
     def __post_init__(self) -> None:
         n = len(self.frequency)
@@ -81,8 +81,8 @@ class ModulusTable:
             raise ValueError(msg)
         _positive("ModulusTable.storage_modulus", self.storage_modulus)
         _positive("ModulusTable.loss_factor", self.loss_factor)
-        if self.kind not in ("young", "shear"):
-            msg = f"ModulusTable.kind must be 'young' or 'shear', got {self.kind!r}"
+        if self.quantity not in ("young", "shear"):
+            msg = f"ModulusTable.quantity must be 'young' or 'shear', got {self.quantity!r}"
             raise ValueError(msg)
 
 
@@ -262,8 +262,8 @@ def free_layer_damping(
     h2 = float(_positive("layer_thickness", layer_thickness))
     rho2 = float(_non_negative("layer_density", layer_density))
     eta1 = float(_non_negative("base_loss_factor", base_loss_factor))
-    if isinstance(layer_modulus, ModulusTable) and layer_modulus.kind != "young":
-        msg = "layer_modulus must be a table of Young's modulus (kind='young') for a free layer"
+    if isinstance(layer_modulus, ModulusTable) and layer_modulus.quantity != "young":
+        msg = "layer_modulus must be a table of Young's modulus (quantity='young') for a free layer"
         raise ValueError(msg)
     e2 = complex_modulus(f, layer_modulus)
     e1c = e1 * (1.0 + 1j * eta1) / (1.0 - base_poisson**2)
@@ -521,8 +521,8 @@ def constrained_layer_damping(
     rho3 = float(_non_negative("cover_density", cover_density))
     eta1 = float(_non_negative("base_loss_factor", base_loss_factor))
     eta3 = float(_non_negative("cover_loss_factor", cover_loss_factor))
-    if isinstance(core_shear_modulus, ModulusTable) and core_shear_modulus.kind != "shear":
-        msg = "core_shear_modulus must be a table of shear modulus (kind='shear')"
+    if isinstance(core_shear_modulus, ModulusTable) and core_shear_modulus.quantity != "shear":
+        msg = "core_shear_modulus must be a table of shear modulus (quantity='shear')"
         raise ValueError(msg)
     if wavenumber not in ("composite", "base"):
         msg = f"wavenumber must be 'composite' or 'base', got {wavenumber!r}"

@@ -1,4 +1,4 @@
-"""Plane-wave scattering at a rigid line junction of plates, batched over bands and angles.
+"""Plane-wave scattering at a line junction of plates, batched over bands and angles.
 
 The numerical core behind :func:`seatool.physics.junctions.line_junction_transmission` and
 :func:`seatool.physics.junctions.line_junction_transmission_diffuse`. Everything here works
@@ -13,6 +13,12 @@ edge dofs: in-plane ``(u, v)`` from the longitudinal and shear waves, out-of-pla
 ``(w, theta)`` from the bending wave and its near field, so the 4 x 4 wave matrices of the
 textbook formulation reduce to two closed-form 2 x 2 blocks; only the junction's global
 4 x 4 system is solved, as one stacked :func:`numpy.linalg.solve`.
+
+Length: a little over 600 lines, kept in one file because the scattering core, its
+diffuse-field average and the interlayer springs it takes are one numerical unit.
+
+A plate may be joined to the line through an elastic interlayer (a strip of springs in
+series with its edge, :func:`interlayer_compliance`); without one the junction is rigid.
 
 Conventions as in :mod:`seatool.physics.junctions`: time dependence exp(+j omega t); local
 axes ``x`` (in the plate, away from the junction), ``y`` (along the junction), ``n`` (plate
@@ -37,6 +43,7 @@ __all__ = [
     "PlateArrays",
     "diffuse_nodes",
     "diffuse_transmission",
+    "interlayer_compliance",
     "outgoing_kx",
     "plate_arrays",
     "scatter",
@@ -192,7 +199,13 @@ def _edge_blocks(
 
 
 def scatter(
-    f: FloatArray, q: FloatArray, plates: PlateArrays, *, source: int, incident: int
+    f: FloatArray,
+    q: FloatArray,
+    plates: PlateArrays,
+    *,
+    source: int,
+    incident: int,
+    compliance: ComplexArray | None = None,
 ) -> FloatArray:
     """Power transmission coefficients for stacked bands and trace wavenumbers.
 
@@ -209,6 +222,11 @@ def scatter(
         Index of the plate carrying the incident wave.
     incident : int
         Incident wave type: 0 bending, 1 longitudinal, 2 shear.
+    compliance : numpy.ndarray, optional
+        Compliance of an elastic interlayer between each plate's edge and the junction
+        line, shape ``(N, 4)``, in the plate's local edge dofs ``(u, v, w, theta)``
+        [m^2/N for the three translations, 1/N for the rotation]; 0 where the plate is
+        joined rigidly (the default: every plate). See :func:`interlayer_compliance`.
 
     Returns
     -------
@@ -225,22 +243,45 @@ def scatter(
     propagating wave of amplitude ``a``: bending ``omega D k_B^2 Re(kx) |a|^2``,
     longitudinal ``omega C Re(kx) |a|^2 / 2``, shear ``omega G h Re(kx) |a|^2 / 2``.
 
+    An elastic interlayer of diagonal compliance ``C_p`` (springs in series with the
+    plate's edge) replaces ``K_p`` by ``K_p (I + C_p K_p)^-1`` (the series combination
+    ``(K_p^-1 + C_p)^-1``), the source term ``g = K_s d_inc - f_inc`` by
+    ``(I + K_s C_s)^-1 g``, and the plate's own edge displacement by
+    ``(I + C_p K_p)^-1 (R_p D + C_p g delta_ps)``; ``C_p = 0`` is the rigid junction.
+
     References
     ----------
     .. [1] Langley, R.S., Heron, K.H. (1990). "Elastic wave transmission through plate/beam
        junctions." J. Sound Vib. 143(2), 241-253. doi:10.1016/0022-460X(90)90953-W
     .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-borne Sound, 3rd ed.
        Springer, ch. 3 and 5. ISBN 978-3-540-22696-3
+    .. [3] Craik, R.J.M. (1996). Sound Transmission through Buildings using Statistical
+       Energy Analysis. Gower (junctions with resilient layers; from memory).
     """
     n_p = plates.count
     w = (2.0 * math.pi * f)[:, None]
     k_all = plates.wavenumbers(f)  # each (N, B)
     stiff_i, stiff_b, inv_i, inv_b, kxs_all = [], [], [], [], []
+    layer: list[tuple[tuple[_C, ...], tuple[_C, ...]] | None] = []
     k_glob = np.zeros((*q.shape, 4, 4), dtype=np.complex128)
     rots = [_rotation(float(a)) for a in plates.angle]
     for p in range(n_p):
         kp = (k_all[0][p][:, None], k_all[1][p][:, None], k_all[2][p][:, None])
         ki, kb, ii, ib, kx_p = _edge_blocks(plates, p, kp, q)
+        soft = None if compliance is None or not np.any(compliance[p]) else compliance[p]
+        if soft is not None:
+            # series interlayer: (I + C K)^-1 per block; the plate behind it acts on the
+            # line with K (I + C K)^-1
+            a_i = _inv2(
+                1.0 + soft[0] * ki[0], soft[0] * ki[1], soft[1] * ki[2], 1.0 + soft[1] * ki[3]
+            )
+            a_b = _inv2(
+                1.0 + soft[2] * kb[0], soft[2] * kb[1], soft[3] * kb[2], 1.0 + soft[3] * kb[3]
+            )
+            layer.append((a_i, a_b))
+            ki, kb = _mul2(ki, a_i), _mul2(kb, a_b)
+        else:
+            layer.append(None)
         stiff_i.append(ki)
         stiff_b.append(kb)
         inv_i.append(ii)
@@ -280,13 +321,34 @@ def scatter(
         k_s = k_all[2][s][:, None]
         d_inc = (-q / k_s + 0j, kx_in / k_s, zero, zero)
         f_inc = (-1j * 2.0 * gh_s * kx_in * q / k_s, 1j * gh_s * (kx_in**2 - q**2) / k_s, zero, zero)  # fmt: skip
-    ki, kb = stiff_i[s], stiff_b[s]
+    if layer[s] is None:
+        ki, kb = stiff_i[s], stiff_b[s]
+    else:  # the plate's own edge stiffness, before the interlayer
+        ki, kb, _, _, _ = _edge_blocks(
+            plates, s, (k_all[0][s][:, None], k_all[1][s][:, None], k_all[2][s][:, None]), q
+        )
     rhs_local = (
         ki[0] * d_inc[0] + ki[1] * d_inc[1] - f_inc[0],
         ki[2] * d_inc[0] + ki[3] * d_inc[1] - f_inc[1],
         kb[0] * d_inc[2] + kb[1] * d_inc[3] - f_inc[2],
         kb[2] * d_inc[2] + kb[3] * d_inc[3] - f_inc[3],
     )
+    g_src = rhs_local
+    lay_s = layer[s]
+    if lay_s is not None:
+        # the force the interlayer passes on: (I + K C)^-1 g = g - K a C g with
+        # a = (I + C K)^-1 (no inverse of C, so a rigid dof with C = 0 is exact)
+        assert compliance is not None
+        cs = compliance[s]
+        ka_i = _mul2(ki, lay_s[0])
+        ka_b = _mul2(kb, lay_s[1])
+        cg = (cs[0] * g_src[0], cs[1] * g_src[1], cs[2] * g_src[2], cs[3] * g_src[3])
+        rhs_local = (
+            g_src[0] - (ka_i[0] * cg[0] + ka_i[1] * cg[1]),
+            g_src[1] - (ka_i[2] * cg[0] + ka_i[3] * cg[1]),
+            g_src[2] - (ka_b[0] * cg[2] + ka_b[1] * cg[3]),
+            g_src[3] - (ka_b[2] * cg[2] + ka_b[3] * cg[3]),
+        )
     rot_s = rots[s]
     rhs = np.zeros((*q.shape, 4, 1), dtype=np.complex128)
     for g in range(4):
@@ -308,6 +370,20 @@ def scatter(
         rot = rots[p]
         d_p = [rot[lo, 0] * disp[..., 0] + rot[lo, 1] * disp[..., 1]
                + rot[lo, 2] * disp[..., 2] + rot[lo, 3] * disp[..., 3] for lo in range(4)]  # fmt: skip
+        lay = layer[p]
+        if lay is not None:
+            # the plate's edge behind the interlayer: (I + C K)^-1 (R D + C g delta_ps)
+            assert compliance is not None
+            cp = compliance[p]
+            if p == s:
+                d_p = [d_p[lo] + cp[lo] * g_src[lo] for lo in range(4)]
+            li, lb = lay
+            d_p = [
+                li[0] * d_p[0] + li[1] * d_p[1],
+                li[2] * d_p[0] + li[3] * d_p[1],
+                lb[0] * d_p[2] + lb[1] * d_p[3],
+                lb[2] * d_p[2] + lb[3] * d_p[3],
+            ]
         if p == s:
             d_p = [d_p[lo] - d_inc[lo] for lo in range(4)]
         ii, ib = inv_i[p], inv_b[p]
@@ -387,7 +463,13 @@ def diffuse_nodes(breaks: FloatArray, n_points: int) -> tuple[FloatArray, FloatA
 
 
 def diffuse_transmission(
-    f: FloatArray, plates: PlateArrays, *, source: int, incident: int, n_points: int
+    f: FloatArray,
+    plates: PlateArrays,
+    *,
+    source: int,
+    incident: int,
+    n_points: int,
+    compliance: ComplexArray | None = None,
 ) -> FloatArray:
     """Diffuse-field average ``int_0^1 tau ds`` (``s = sin(theta)``) for all bands at once.
 
@@ -401,6 +483,8 @@ def diffuse_transmission(
         Source plate index; incident wave type (0 bending, 1 longitudinal, 2 shear).
     n_points : int
         Gauss-Legendre nodes per sub-interval between cut-offs.
+    compliance : numpy.ndarray, optional
+        Interlayer compliances ``(N, 4)`` as in :func:`scatter` (default: rigid).
 
     Returns
     -------
@@ -423,7 +507,7 @@ def diffuse_transmission(
     s, wts = diffuse_nodes(breaks, n_points)
     theta = np.arcsin(np.clip(s, 0.0, 1.0))
     q = k_in[:, None] * np.sin(np.minimum(theta, THETA_MAX))
-    tau = scatter(f, q, plates, source=source, incident=incident)
+    tau = scatter(f, q, plates, source=source, incident=incident, compliance=compliance)
     out: FloatArray = np.einsum("bt,btpw->bpw", wts, tau)
     return out
 
@@ -453,3 +537,76 @@ def plate_arrays(
         poisson=nu,
         angle=np.asarray(angle, dtype=np.float64),
     )
+
+
+def interlayer_compliance(
+    stiffness: float,
+    *,
+    width: float,
+    shear_stiffness: float | None = None,
+    loss_factor: float = 0.0,
+) -> ComplexArray:
+    """Compliance of an elastic strip under a plate's edge, in the edge dofs (u, v, w, theta).
+
+    Parameters
+    ----------
+    stiffness : float
+        Dynamic stiffness per unit length of seam in compression across the strip
+        ``k'`` [N/m^2] (``s' b``: dynamic stiffness per unit area ``s'`` [N/m^3] of the
+        resilient material times the strip width ``b``); ``inf`` for a rigid joint.
+    width : float
+        Width ``b`` of the strip across the seam [m], > 0 (usually the thickness of the
+        plate standing on it; a very narrow strip passes almost no moment: a hinge).
+    shear_stiffness : float, optional
+        Dynamic stiffness per unit length in shear (both directions in the strip's
+        plane) [N/m^2]; default ``k'/3``.
+    loss_factor : float, optional
+        Loss factor ``eta`` of the material [-]: stiffnesses ``k (1 + j eta)``.
+
+    Returns
+    -------
+    numpy.ndarray
+        ``(1/k', 1/k'_s, 1/k'_s, 1/k'_theta)`` (complex, shape ``(4,)``) [m^2/N, m^2/N,
+        m^2/N, 1/N] for the plate's edge dofs: ``u`` (in the plate, compressing the strip),
+        ``v`` (along the seam) and ``w`` (plate normal) shear the strip, ``theta`` rocks it.
+
+    Notes
+    -----
+    The strip is a layer of independent springs (Winkler foundation) of stiffness
+    ``k'/b`` per unit area of contact. Compression of the strip by ``u`` gives a force per
+    unit length ``k' u``; a rotation ``theta`` of the plate's edge about the middle of the
+    strip gives the moment per unit length
+    ``int_{-b/2}^{b/2} (k'/b) theta x^2 dx = k' b^2 theta / 12`` [1]_. The default shear
+    stiffness takes the strip as a free-to-bulge elastomer, ``G = E / 3``
+    (``E = 2 G (1 + nu)``, ``nu = 0.5``) [2]_, so ``k'_s = G b / t = k' / 3``. A dynamic
+    stiffness per unit area is what EN 29052-1 measures for resilient layers [3]_.
+
+    References
+    ----------
+    .. [1] Hetenyi, M. (1946). Beams on Elastic Foundation. University of Michigan Press,
+       ch. 1 (the Winkler foundation) (from memory).
+    .. [2] Timoshenko, S.P., Goodier, J.N. (1970). Theory of Elasticity, 3rd ed.
+       McGraw-Hill, sec. 3 (relations between the elastic constants).
+    .. [3] EN 29052-1:1992 (ISO 9052-1:1989). Acoustics - Determination of dynamic
+       stiffness - Part 1: Materials used under floating floors in dwellings, clause 3.
+    """
+    if not stiffness > 0.0:
+        msg = f"stiffness must be > 0, got {stiffness!r}"
+        raise ValueError(msg)
+    if not (math.isfinite(width) and width > 0.0):
+        msg = f"width must be finite and > 0, got {width!r}"
+        raise ValueError(msg)
+    ks = stiffness / 3.0 if shear_stiffness is None else shear_stiffness
+    if not ks > 0.0:
+        msg = f"shear_stiffness must be > 0, got {shear_stiffness!r}"
+        raise ValueError(msg)
+    if not (math.isfinite(loss_factor) and loss_factor >= 0.0):
+        msg = f"loss_factor must be finite and >= 0, got {loss_factor!r}"
+        raise ValueError(msg)
+    k_rot = stiffness * width**2 / 12.0
+    cplx = 1.0 + 1j * loss_factor
+    out: ComplexArray = np.array(
+        [0.0 if math.isinf(k) else 1.0 / (k * cplx) for k in (stiffness, ks, ks, k_rot)],
+        dtype=np.complex128,
+    )
+    return out

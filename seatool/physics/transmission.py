@@ -30,7 +30,7 @@ import numpy as np
 import numpy.typing as npt
 from scipy import integrate
 
-from seatool.physics.radiation import forced_radiation_efficiency_en12354
+from seatool.physics.radiation_forced import forced_radiation_efficiency_en12354
 
 from . import resonators
 from ._checks import fluid as _check_fluid
@@ -345,7 +345,7 @@ def transmission_nonresonant(
         tau_NR = 0                                                 (f >= f_c)
 
     with ``sigma_f`` from
-    :func:`seatool.physics.radiation.forced_radiation_efficiency_en12354`. Annex B keeps only
+    :func:`seatool.physics.radiation_forced.forced_radiation_efficiency_en12354`. Annex B keeps only
     the resonant term above ``f_c``; the resonant path of the SEA model covers it. This route
     was chosen over the Leppington et al. (1987) closed form because that form is available
     to this project only as a secondary quotation that could not be checked.

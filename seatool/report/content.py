@@ -169,7 +169,7 @@ def _model_tables(model: Model, result: Result, data: Mapping[str, Any]) -> dict
         {
             "excitation": [e.name for e in model.excitations],
             "subsystem": [e.subsystem for e in model.excitations],
-            "given as": [(e.quantity or e.kind).replace("_", " ") for e in model.excitations],
+            "given as": [(e.quantity or e.drive).replace("_", " ") for e in model.excitations],
             "input power [W], band sum": src["input_W"].to_numpy(dtype=float),
             "description": [
                 _description(data, "excitations", e.name) for e in model.excitations

@@ -13,7 +13,7 @@ from seatool.physics import damping_layers
 
 
 def test_modulus_table_log_log_interpolation():
-    table = damping_layers.ModulusTable((100.0, 1000.0), (1e6, 1e7), (0.5, 1.0), kind="shear")
+    table = damping_layers.ModulusTable((100.0, 1000.0), (1e6, 1e7), (0.5, 1.0), quantity="shear")
     g = damping_layers.complex_modulus([100.0, 1000.0, math.sqrt(1e5), 10.0, 1e5], table)
     np.testing.assert_allclose(g.real, [1e6, 1e7, math.sqrt(1e13), 1e6, 1e7], rtol=1e-12)
     np.testing.assert_allclose(g.imag / g.real, [0.5, 1.0, math.sqrt(0.5), 0.5, 1.0], rtol=1e-12)
@@ -95,7 +95,7 @@ def test_free_layer_stiff_thick_limit():
 
 
 def test_free_layer_frequency_dependence_via_table():
-    table = damping_layers.ModulusTable((100.0, 10000.0), (1e8, 1e10), (1.0, 0.2), kind="young")
+    table = damping_layers.ModulusTable((100.0, 10000.0), (1e8, 1e10), (1.0, 0.2), quantity="young")
     f = np.array([100.0, 1000.0, 10000.0])
     res = damping_layers.free_layer_damping(f, 1e-3, E_STEEL, RHO_STEEL, 2e-3, 1800.0, table)
     assert res.loss_factor.shape == (3,)
@@ -118,7 +118,7 @@ def test_free_layer_frequency_dependence_via_table():
             RHO_STEEL,
             2e-3,
             1800.0,
-            damping_layers.ModulusTable((1.0,), (1e6,), (1.0,), kind="shear"),
+            damping_layers.ModulusTable((1.0,), (1e6,), (1.0,), quantity="shear"),
         )
 
 

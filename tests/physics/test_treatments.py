@@ -65,8 +65,8 @@ def test_porous_parameters_physical(lib):
 def test_modulus_tables(lib):
     sheet = lib["damping_sheet_free"].modulus
     core = lib["vem_core_constrained"].modulus
-    assert sheet is not None and sheet.kind == "young"
-    assert core is not None and core.kind == "shear"
+    assert sheet is not None and sheet.quantity == "young"
+    assert core is not None and core.quantity == "shear"
     g = damping_layers.complex_modulus(np.array([10.0, 10000.0]), core)
     np.testing.assert_allclose(g.real, [2.0e5, 8.0e6])
 
