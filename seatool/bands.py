@@ -31,7 +31,7 @@ OCTAVE_RATIO: float = 10.0**0.3
 #: Reference frequency f_r = 1000 Hz [IEC 61260-1:2014, clause 5.3].
 REFERENCE_FREQUENCY: float = 1000.0
 
-BandKind = Literal["third-octave", "octave"]
+BandSpacing = Literal["third-octave", "octave"]
 
 # Nominal mid-band frequencies, 1/3-octave bands 20 Hz - 20 kHz (band index x = -17 .. 13),
 # IEC 61260-1:2014 Annex E / ISO 266 preferred numbers. These are labels only; all arithmetic
@@ -76,16 +76,16 @@ class BandError(ValueError):
     """A band range or band list that cannot be built."""
 
 
-def _fraction(kind: BandKind) -> int:
-    if kind == "third-octave":
+def _fraction(spacing: BandSpacing) -> int:
+    if spacing == "third-octave":
         return 3
-    if kind == "octave":
+    if spacing == "octave":
         return 1
-    raise BandError(f"unknown band kind {kind!r}; use 'third-octave' or 'octave'")
+    raise BandError(f"unknown band spacing {spacing!r}; use 'third-octave' or 'octave'")
 
 
 def exact_mid_frequency(
-    x: npt.ArrayLike, kind: BandKind = "third-octave"
+    x: npt.ArrayLike, spacing: BandSpacing = "third-octave"
 ) -> npt.NDArray[np.float64]:
     """Exact base-10 mid-band frequency of band index ``x``.
 
@@ -93,7 +93,7 @@ def exact_mid_frequency(
     ----------
     x : int or array_like of int
         Band index; ``x = 0`` is the 1000 Hz band.
-    kind : {'third-octave', 'octave'}
+    spacing : {'third-octave', 'octave'}
         Bandwidth designator (b = 3 or b = 1).
 
     Returns
@@ -111,24 +111,24 @@ def exact_mid_frequency(
     IEC 61260-1:2014, Electroacoustics - Octave-band and fractional-octave-band filters -
     Part 1: Specifications, clause 5.4, eq. (2).
     """
-    b = _fraction(kind)
+    b = _fraction(spacing)
     return REFERENCE_FREQUENCY * OCTAVE_RATIO ** (np.asarray(x, dtype=float) / b)
 
 
-def band_index(nominal_hz: float, kind: BandKind = "third-octave") -> int:
+def band_index(nominal_hz: float, spacing: BandSpacing = "third-octave") -> int:
     """Band index x of a nominal mid-band frequency (e.g. 31.5 -> -15).
 
     Accepts nominal labels (ISO 266) and exact values: the nearest band is taken if the
     frequency lies within 2 % of its exact centre (nominal labels differ from the exact
     base-10 values by at most about 1 %), otherwise :class:`BandError` is raised.
     """
-    b = _fraction(kind)
+    b = _fraction(spacing)
     if not np.isfinite(nominal_hz) or nominal_hz <= 0:
         raise BandError(f"band frequency must be a positive number, got {nominal_hz!r}")
     xf = b * np.log(nominal_hz / REFERENCE_FREQUENCY) / np.log(OCTAVE_RATIO)
     x = round(float(xf))
-    if abs(nominal_hz / float(exact_mid_frequency(x, kind)) - 1.0) > 0.02:
-        raise BandError(f"{nominal_hz:g} Hz is not the centre of a {kind} band")
+    if abs(nominal_hz / float(exact_mid_frequency(x, spacing)) - 1.0) > 0.02:
+        raise BandError(f"{nominal_hz:g} Hz is not the centre of a {spacing} band")
     return x
 
 
@@ -151,12 +151,12 @@ class BandAxis:
 
     Attributes
     ----------
-    kind : {'third-octave', 'octave'}
+    spacing : {'third-octave', 'octave'}
     indices : numpy.ndarray of int
         Band indices x (x = 0 is the 1 kHz band).
     """
 
-    kind: BandKind
+    spacing: BandSpacing
     indices: npt.NDArray[np.int64]
     centre: npt.NDArray[np.float64] = field(init=False, repr=False)
     lower: npt.NDArray[np.float64] = field(init=False, repr=False)
@@ -164,13 +164,13 @@ class BandAxis:
     nominal: npt.NDArray[np.float64] = field(init=False, repr=False)
 
     def __post_init__(self) -> None:
-        b = _fraction(self.kind)
+        b = _fraction(self.spacing)
         idx = np.asarray(self.indices, dtype=np.int64)
         if idx.ndim != 1 or idx.size == 0:
             raise BandError("a band axis needs at least one band")
         if np.any(np.diff(idx) != 1):
             raise BandError("bands of an axis must be contiguous and increasing")
-        centre = exact_mid_frequency(idx, self.kind)
+        centre = exact_mid_frequency(idx, self.spacing)
         half = OCTAVE_RATIO ** (1.0 / (2 * b))
         for name, value in (
             ("indices", idx),
@@ -185,16 +185,16 @@ class BandAxis:
 
     @classmethod
     def from_range(
-        cls, lowest_hz: float, highest_hz: float, kind: BandKind = "third-octave"
+        cls, lowest_hz: float, highest_hz: float, spacing: BandSpacing = "third-octave"
     ) -> BandAxis:
         """Bands whose nominal centres run from ``lowest_hz`` to ``highest_hz`` inclusive."""
-        lo = band_index(lowest_hz, kind)
-        hi = band_index(highest_hz, kind)
+        lo = band_index(lowest_hz, spacing)
+        hi = band_index(highest_hz, spacing)
         if hi < lo:
             raise BandError(
                 f"empty band range: lowest band {lowest_hz:g} Hz is above highest {highest_hz:g} Hz"
             )
-        return cls(kind, np.arange(lo, hi + 1, dtype=np.int64))
+        return cls(spacing, np.arange(lo, hi + 1, dtype=np.int64))
 
     @property
     def width(self) -> npt.NDArray[np.float64]:
@@ -212,13 +212,13 @@ class BandAxis:
     def __eq__(self, other: object) -> bool:
         if not isinstance(other, BandAxis):
             return NotImplemented
-        return self.kind == other.kind and np.array_equal(self.indices, other.indices)
+        return self.spacing == other.spacing and np.array_equal(self.indices, other.indices)
 
     def __hash__(self) -> int:
-        return hash((self.kind, tuple(self.indices.tolist())))
+        return hash((self.spacing, tuple(self.indices.tolist())))
 
     def __repr__(self) -> str:
-        return f"BandAxis({self.kind}, {len(self)} bands, {self.label(0)} - {self.label(-1)})"
+        return f"BandAxis({self.spacing}, {len(self)} bands, {self.label(0)} - {self.label(-1)})"
 
     def label(self, i: int) -> str:
         """Display label of band ``i``, e.g. '31.5 Hz' or '1.25 kHz'."""
@@ -232,7 +232,7 @@ class BandAxis:
         """
         out = np.empty(len(nominal_hz), dtype=np.int64)
         for k, f in enumerate(nominal_hz):
-            x = band_index(float(f), self.kind)
+            x = band_index(float(f), self.spacing)
             j = x - int(self.indices[0])
             if not 0 <= j < len(self):
                 raise BandError(f"{f:g} Hz is not in the model's band range {self!r}")

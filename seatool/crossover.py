@@ -392,7 +392,7 @@ def plot_crossover(result: CrossoverResult, path: str | os.PathLike[str]) -> Pat
     last.set_xticklabels([bands.label(k) for k in range(len(bands))][::step], rotation=45,
                          ha="right", fontsize=8)  # fmt: skip
     last.minorticks_off()
-    last.set_xlabel(f"{bands.kind} band (shaded: method = modal; unshaded: method = SEA)")
+    last.set_xlabel(f"{bands.spacing} band (shaded: method = modal; unshaded: method = SEA)")
     axes[0, 0].set_title(
         f"{result.sea.model.title or 'model'}: modal and SEA solutions of {result.modal.box.name}",
         fontsize=10,

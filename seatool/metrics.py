@@ -194,7 +194,7 @@ def octave_levels(
     Part 1: Specifications, clause 5.4 (band indices, base 10).
     """
     lv = _check(levels, bands)
-    if bands.kind == "octave":
+    if bands.spacing == "octave":
         eye = np.broadcast_to(np.eye(len(bands)), (*lv.shape[:-1], len(bands), len(bands)))
         return np.array(bands.nominal), lv.copy(), eye.copy(), ()
     x = bands.indices
@@ -290,7 +290,7 @@ def _loudness_input(
 ) -> tuple[Array | None, npt.NDArray[np.bool_], npt.NDArray[np.int64], list[str]]:
     """The 28 loudness bands from the model's levels (-inf where missing), which of them the
     model has, their positions on the model's axis, and notes."""
-    if bands.kind != "third-octave":
+    if bands.spacing != "third-octave":
         return None, np.array([], dtype=bool), np.array([], dtype=np.int64), [
             "loudness not formed: the Zwicker method needs 1/3-octave band levels, the model "
             "has octave bands"

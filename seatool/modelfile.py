@@ -131,19 +131,28 @@ def _depth(value: Any, limit: int) -> int:
 def _read_bands(rd: Reader, data: Any) -> None:
     path = "bands"
     if data is _MISSING:
-        rd.error(path, "missing required table [bands] (kind, lowest, highest)")
+        rd.error(path, "missing required table [bands] (spacing, lowest, highest)")
         return
     t = rd.table(data, path)
     if t is None:
         return
-    if not rd.keys(t, path, ("kind", "lowest", "highest"), ("lowest", "highest")):
+    # `kind` is the older name of `spacing` and keeps working; `kind` elsewhere in the file
+    # names the declared kind that builds an entry.
+    if not rd.keys(t, path, ("spacing", "kind", "lowest", "highest"), ("lowest", "highest")):
         return
-    kind = t.get("kind", "third-octave")
-    if kind not in ("third-octave", "octave"):
+    if "spacing" in t and "kind" in t:
         rd.error(
             f"{path}.kind",
-            f"must be 'third-octave' or 'octave', got {kind!r}"
-            + closest(str(kind), ["third-octave", "octave"]),
+            "both `spacing` and its older name `kind` are given; keep only `spacing`",
+        )
+        return
+    key = "kind" if "kind" in t else "spacing"
+    spacing = t.get(key, "third-octave")
+    if spacing not in ("third-octave", "octave"):
+        rd.error(
+            f"{path}.{key}",
+            f"must be 'third-octave' or 'octave', got {spacing!r}"
+            + closest(str(spacing), ["third-octave", "octave"]),
         )
         return
     lo = rd.number(t["lowest"], f"{path}.lowest", unit="Hz")
@@ -158,7 +167,7 @@ def _read_bands(rd: Reader, data: Any) -> None:
     if not ok:
         return
     try:
-        rd.bands = BandAxis.from_range(lo, hi, kind)
+        rd.bands = BandAxis.from_range(lo, hi, spacing)
     except BandError as exc:
         rd.error(path, str(exc))
 

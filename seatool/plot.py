@@ -166,7 +166,7 @@ def plot_levels(
     ax_last.set_xticks(ticks[::step])
     ax_last.set_xticklabels(labels[::step], rotation=45, ha="right", fontsize=8)
     ax_last.minorticks_off()
-    ax_last.set_xlabel(f"{bands.kind} band")
+    ax_last.set_xlabel(f"{bands.spacing} band")
     title = model.title or "band levels"
     shaded = "; shaded: 5-95 % confidence band" if confidence is not None else ""
     axes[0, 0].set_title(title + "\n(hatched: bands where SEA validity is weak for a subsystem "
@@ -296,7 +296,7 @@ def _band_axis(ax: Any, bands: Any) -> None:
                        ha="right", fontsize=8)  # fmt: skip
     ax.minorticks_off()
     ax.set_xlim(bands.lower[0], bands.upper[-1])
-    ax.set_xlabel(f"{bands.kind} band")
+    ax.set_xlabel(f"{bands.spacing} band")
 
 
 def _shade_weak(

@@ -30,7 +30,7 @@ def model_summary(model: Model) -> str:
     b = model.bands
     out = [
         f"model: {model.title or '(untitled)'}  [{model.source}]",
-        f"bands: {len(b)} {b.kind} bands, {b.label(0)} - {b.label(-1)}",
+        f"bands: {len(b)} {b.spacing} bands, {b.label(0)} - {b.label(-1)}",
         f"subsystems ({len(model.subsystems)}):",
     ]
     w = max(len(s.name) for s in model.subsystems)

@@ -53,7 +53,7 @@ def valid_model(rng: random.Random) -> dict[str, Any]:
     bands = [_THIRD_OCTAVES[i] for i in range(i0, i1 + 1)]
     data: dict[str, Any] = {
         "title": "random model (invented)",
-        "bands": {"kind": "third-octave", "lowest": bands[0], "highest": bands[-1]},
+        "bands": {"spacing": "third-octave", "lowest": bands[0], "highest": bands[-1]},
     }
     subs: dict[str, Any] = {}
     cons: dict[str, Any] = {}

@@ -29,7 +29,7 @@ from seatool.results import run
 LAB = """
 title = "single panel between a diffuse field and a receiving room (test)"
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 5000
 [subsystems.panel]

@@ -28,7 +28,7 @@ MODELS = Path(__file__).resolve().parents[1] / "models"
 HELD_ROOM = """
 title = "A room held at a given spectrum (invented test case)"
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 25
 highest = 12500
 [subsystems.room]

@@ -122,6 +122,16 @@ def test_held_receiver_is_its_own_source(mixed):
     assert (c[c["source"] != "held"]["energy_J"] == 0).all()
 
 
+def test_source_drive_column_names_how_each_source_is_driven(mixed):
+    # the fixture's excitations: p1, p2, p3 inject power, "held" prescribes e's energy
+    want = {"p1": "power", "p2": "power", "p3": "power", "held": "held level"}
+    c = contributions(mixed, "c")
+    assert dict(zip(c["source"], c["source_drive"], strict=True)) == want
+    p = paths(mixed, "c")
+    assert set(zip(p["source"], p["source_drive"], strict=True)) <= set(want.items())
+    assert "source_kind" not in c.columns and "source_kind" not in p.columns
+
+
 def test_sink_receiver_absorbed_power_sums(mixed):
     res = seatool.run(mixed)
     c = contributions(mixed, "out")

@@ -196,16 +196,16 @@ def test_units_and_identities(mixed):
     np.testing.assert_allclose(t["db_per_db"], t["dL_dlnx_dB"] * np.log(10) / 10)
     np.testing.assert_allclose(t["db_per_percent"], t["dL_dlnx_dB"] / 100)
     # E_r is homogeneous of degree 1 in the sources (superposition): elasticities sum to 1
-    src = t[t["kind"].isin(["power", "held_level"])].groupby("band_hz")["db_per_db"].sum()
+    src = t[t["parameter_type"].isin(["power", "held_level"])].groupby("band_hz")["db_per_db"].sum()
     np.testing.assert_allclose(src.to_numpy(), 1.0, rtol=1e-12)
     # with power sources only, E_r is homogeneous of degree -1 in all loss factors
     # together (omega L E = P); a held level breaks this (its energy stays fixed)
     powered = dc.replace(mixed, excitations=mixed.excitations[:1])
     t = sensitivities(powered, "room")
-    lf = t[t["kind"].isin(["damping", "coupling"])].groupby("band_hz")["db_per_db"].sum()
+    lf = t[t["parameter_type"].isin(["damping", "coupling"])].groupby("band_hz")["db_per_db"].sum()
     np.testing.assert_allclose(lf.to_numpy(), -1.0, rtol=1e-12)
     # and of degree 0 in all modal densities together (only ratios n_a / n_b enter)
-    md = t[t["kind"] == "modal_density"].groupby("band_hz")["db_per_db"].sum()
+    md = t[t["parameter_type"] == "modal_density"].groupby("band_hz")["db_per_db"].sum()
     np.testing.assert_allclose(md.to_numpy(), 0.0, atol=1e-12)
 
 

@@ -11,7 +11,7 @@ from seatool.cli import main
 GOOD = """
 title = "two boxes"
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 500
 highest = 1000
 [subsystems.box]
@@ -120,10 +120,23 @@ CASES = [
         ["bands", "not the centre of a third-octave band"],
     ),
     (
+        "band-spacing",
+        'spacing = "third-octave"',
+        'spacing = "thirds"',
+        ["bands.spacing", "must be 'third-octave' or 'octave'"],
+    ),
+    (
+        # `kind` is the older name of the [bands] key `spacing`: still read, still checked
         "band-kind",
-        'kind = "third-octave"',
+        'spacing = "third-octave"',
         'kind = "thirds"',
         ["bands.kind", "must be 'third-octave' or 'octave'"],
+    ),
+    (
+        "band-spacing-given-twice",
+        'spacing = "third-octave"',
+        'spacing = "third-octave"\nkind = "third-octave"',
+        ["bands.kind", "spacing", "older name", "keep only"],
     ),
     (
         "table-length",
@@ -204,6 +217,17 @@ def test_several_problems_reported_together(tmp_path, capsys):
     assert len(lines) == 2
     assert "subsystems.box.volume" in lines[0]
     assert "subsystems.panel.mass" in lines[1]
+
+
+def test_older_band_key_kind_still_works(tmp_path, capsys):
+    # [bands] kind = ... is the older name of spacing = ...: same model, same levels
+    code_new, _, err_new, csv_new = run(tmp_path, GOOD, capsys)
+    assert code_new == 0, err_new
+    new = csv_new.read_text()
+    older = GOOD.replace('spacing = "third-octave"', 'kind = "third-octave"')
+    code_old, _, err_old, csv_old = run(tmp_path, older, capsys)
+    assert code_old == 0, err_old
+    assert csv_old.read_text() == new
 
 
 def test_missing_file(tmp_path, capsys):

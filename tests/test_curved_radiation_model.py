@@ -77,7 +77,7 @@ def test_rail_cab_roof_radiates_with_the_curved_sigma():
 
 HEAD = """
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 2000
 

@@ -41,7 +41,7 @@ def _lined(trim: str, damping: str, *, key: str = "facing") -> str:
     lx, ly, lz = DIMS
     return f"""
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 4000
 [subsystems.floor]

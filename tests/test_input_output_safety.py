@@ -27,7 +27,7 @@ from seatool.results import csv_text, neutralise_cell
 BASE = """
 title = "file probe (invented)"
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 125
 [subsystems.p]

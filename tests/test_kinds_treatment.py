@@ -124,7 +124,7 @@ def test_air_absorption_matches_iso_9613_2_table(tmp_path):
     v, a = 200.0, 20.0
     text = _room(
         "{ absorption_area = 20.0, air_absorption = { temperature = 20, relative_humidity = 70 } }",
-        bands='kind = "octave"\nlowest = 500\nhighest = 8000',
+        bands='spacing = "octave"\nlowest = 500\nhighest = 8000',
         volume=v,
     )
     _, res = _solve(tmp_path, text)

@@ -27,7 +27,7 @@ from seatool.modelfile import build
 def _text(forces: list[float]) -> str:
     # A small invented cab: steel plates driven by point forces, radiating into the air.
     parts = [
-        '[bands]\nkind = "third-octave"\nlowest = 250\nhighest = 1000\n',
+        '[bands]\nspacing = "third-octave"\nlowest = 250\nhighest = 1000\n',
         '[subsystems.cab]\nkind = "cavity"\ndimensions = [2.0, 1.8, 1.5]\n'
         "damping = 0.02\n",
     ]

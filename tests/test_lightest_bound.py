@@ -26,7 +26,7 @@ from seatool.solve import assemble
 
 RING = """
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 125
 highest = 2000
 [subsystems.cab]

@@ -103,7 +103,7 @@ def test_written_model_reads_back() -> None:
         modal_density={s.name: s.modal_density for s in model.subsystems},
         subsystem_keys=keys,
     )
-    head = '[bands]\nkind = "third-octave"\nlowest = 100\nhighest = 2000\n\n'
+    head = '[bands]\nspacing = "third-octave"\nlowest = 100\nhighest = 2000\n\n'
     back = seatool.loads(head + text)
     d2, eta2 = _true_loss_factors(back)
     np.testing.assert_allclose(d2, damping, rtol=1e-9)

@@ -21,7 +21,7 @@ MODELS = Path(__file__).resolve().parent.parent / "models"
 BASE = """
 title = "plausibility probe (invented)"
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 1000
 [subsystems.p]

@@ -20,7 +20,7 @@ from seatool.model import Model
 
 HEAD = """
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 8000
 

@@ -71,7 +71,7 @@ def test_octave_rating_by_hand():
     # shift -14: 38 41 -> 0 + 1 + 1... = (52-14=38: 0), (55-14=41: 1), (56-14=42: 2) -> 3
     # shift -13: 39 -> 0, 42 -> 2, 43 -> 3 -> 5; shift -12: 0 + 3 + 4 + (45-12=33: 0) = 7
     # shift -11: 41 -> 1, 44 -> 4, 45 -> 5 -> 10 <= 10; shift -10: 2 + 5 + 6 = 13 -> Rw = 41
-    r = weighted_sound_reduction_index(np.full(5, 40.0), kind="octave")
+    r = weighted_sound_reduction_index(np.full(5, 40.0), spacing="octave")
     assert r.rw == 41 and r.unfavourable == 10.0
 
 

@@ -56,7 +56,7 @@ def test_three_subsystem_chain_hand_solved(one_band):
 
 def _random_model(seed: int, n: int = 12, nb: int = 5) -> Model:
     rng = np.random.default_rng(seed)
-    bands = BandAxis(kind="third-octave", indices=np.arange(nb, dtype=np.int64))
+    bands = BandAxis(spacing="third-octave", indices=np.arange(nb, dtype=np.int64))
     subs = tuple(
         Subsystem(
             f"x{i}",
@@ -145,7 +145,7 @@ def test_band_by_band_equals_all_bands():
     m = _random_model(6)
     full = solve(m).energy
     for j in range(len(m.bands)):
-        bj = BandAxis(m.bands.kind, m.bands.indices[j : j + 1])
+        bj = BandAxis(m.bands.spacing, m.bands.indices[j : j + 1])
         mj = Model(
             bj,
             tuple(

@@ -24,7 +24,7 @@ from seatool.errors import InputError
 # expected margin below follows from the input alone.
 HELD = """
 [bands]
-kind = "third-octave"
+spacing = "third-octave"
 lowest = 100
 highest = 1000
 [subsystems.room]

@@ -214,7 +214,7 @@ def metric_sensitivities(
         Per-band level sensitivities of cavities, as returned by
         :func:`seatool.analysis.sensitivity.sensitivities` or
         :func:`~seatool.analysis.sensitivity.parameter_sensitivities` (columns
-        ``receiver, parameter, kind, target, band_exact_hz, dL_dlnx_dB``).
+        ``receiver, parameter, parameter_type, target, band_exact_hz, dL_dlnx_dB``).
     metric : str
         A key of :data:`seatool.metrics.METRICS`.
     field : {'diffuse', 'free'}
@@ -223,8 +223,8 @@ def metric_sensitivities(
     Returns
     -------
     pandas.DataFrame
-        One row per receiver and parameter: ``receiver, parameter, kind, target, metric,
-        value, unit, dM_dlnx`` (change of the metric per unit change of ln x) and
+        One row per receiver and parameter: ``receiver, parameter, parameter_type, target,
+        metric, value, unit, dM_dlnx`` (change of the metric per unit change of ln x) and
         ``dM_per_percent`` (linearised change for a 1 % increase of x).
 
     Notes
@@ -251,12 +251,22 @@ def metric_sensitivities(
             d = float(np.sum(np.where(w != 0.0, w * dl, 0.0)))
         first = grp.iloc[0]
         rows.append(
-            (rec, par, first["kind"], first["target"], metric, float(m.value), m.unit, d, d / 100.0)
+            (
+                rec,
+                par,
+                first["parameter_type"],
+                first["target"],
+                metric,
+                float(m.value),
+                m.unit,
+                d,
+                d / 100.0,
+            )
         )
     columns = [
         "receiver",
         "parameter",
-        "kind",
+        "parameter_type",
         "target",
         "metric",
         "value",

@@ -282,7 +282,7 @@ def two_room_model(spec: PanelSpec, bands: BandAxis) -> Model:
     mat = spec.material
     data = {
         "bands": {
-            "kind": bands.kind,
+            "spacing": bands.spacing,
             "lowest": float(bands.nominal[0]),
             "highest": float(bands.nominal[-1]),
         },

@@ -77,7 +77,7 @@ class Source:
     """One source of a model: a power excitation or a held (prescribed-level) subsystem."""
 
     name: str  # excitation name
-    drive: str  # 'power' or 'held level' (the column source_kind)
+    drive: str  # 'power' or 'held level' (the column source_drive)
     subsystem: str
     index: int
 
@@ -164,7 +164,7 @@ def contributions(model: Model, receiver: str) -> pd.DataFrame:
     Returns
     -------
     pandas.DataFrame
-        One row per source and band: ``receiver, source, source_kind, source_subsystem,
+        One row per source and band: ``receiver, source, source_drive, source_subsystem,
         band_hz, band_exact_hz, energy_J`` (receiver energy with only this source on; NaN
         for the exterior sink), ``power_W`` (power the receiver dissipates, for the sink:
         absorbs, with only this source on), ``share`` (fraction of the receiver's total;
@@ -195,7 +195,7 @@ def _contrib_table(ps: _PerSource, r: int) -> pd.DataFrame:
         {
             "receiver": model.subsystems[r].name,
             "source": np.repeat([s.name for s in ps.srcs], nb),
-            "source_kind": np.repeat([s.drive for s in ps.srcs], nb),
+            "source_drive": np.repeat([s.drive for s in ps.srcs], nb),
             "source_subsystem": np.repeat([s.subsystem for s in ps.srcs], nb),
             **_band_cols(model, ns),
             "energy_J": (np.full_like(e, np.nan) if sink else e).ravel(),
@@ -322,7 +322,7 @@ def paths(
     Returns
     -------
     pandas.DataFrame
-        One row per path and band: ``receiver, source, source_kind, path`` (subsystem
+        One row per path and band: ``receiver, source, source_drive, path`` (subsystem
         names joined by ``' > '``; ``'(other paths)'`` for the remainder), ``length``
         (connections), ``band_hz, band_exact_hz, path_power_W`` (power the path delivers
         into the receiver in the one-source solve), ``source_share`` (fraction of the
@@ -357,7 +357,7 @@ def paths(
                     {
                         "receiver": names[r],
                         "source": src.name,
-                        "source_kind": src.drive,
+                        "source_drive": src.drive,
                         "path": " > ".join(names[i] for i in path) if path else OTHER_PATHS,
                         "length": len(path) - 1 if path else -1,
                         "band_hz": float(model.bands.nominal[j]),
@@ -372,7 +372,7 @@ def paths(
                     }
                 )
     cols = [
-        "receiver", "source", "source_kind", "path", "length", "band_hz", "band_exact_hz",
+        "receiver", "source", "source_drive", "path", "length", "band_hz", "band_exact_hz",
         "path_power_W", "source_share", "power_W" if sink else "energy_J", "share",
         "rank", "modes_in_band", "modal_overlap", "valid",
     ]  # fmt: skip

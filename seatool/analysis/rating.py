@@ -77,15 +77,15 @@ class Rating:
         return f"Rw (C; Ctr) = {self.rw} ({self.c}; {self.ctr}) dB"
 
 
-def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, kind: str = "third-octave") -> Rating:
+def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, spacing: str = "third-octave") -> Rating:
     """Rw, C and Ctr of a sound reduction index curve (ISO 717-1).
 
     Parameters
     ----------
     r_db : array_like (16,) or (5,)
-        Sound reduction index [dB] in the bands :data:`THIRD_OCTAVE_BANDS` (``kind =
-        "third-octave"``) or :data:`OCTAVE_BANDS` (``kind = "octave"``).
-    kind : {"third-octave", "octave"}
+        Sound reduction index [dB] in the bands :data:`THIRD_OCTAVE_BANDS` (``spacing =
+        "third-octave"``) or :data:`OCTAVE_BANDS` (``spacing = "octave"``).
+    spacing : {"third-octave", "octave"}
         Band width of ``r_db``.
 
     Returns
@@ -108,16 +108,16 @@ def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, kind: str = "third-oc
        building elements -- Part 1: Airborne sound insulation. Clauses 4.4, 4.5, Tables 3
        and 4 (values from memory).
     """
-    if kind not in _REFERENCE:
-        msg = f"kind must be 'third-octave' or 'octave', got {kind!r}"
+    if spacing not in _REFERENCE:
+        msg = f"spacing must be 'third-octave' or 'octave', got {spacing!r}"
         raise ValueError(msg)
-    ref = _REFERENCE[kind]
+    ref = _REFERENCE[spacing]
     r = np.asarray(r_db, dtype=np.float64)
     if r.shape != ref.shape or not np.all(np.isfinite(r)):
-        msg = f"r_db must hold {ref.size} finite values ({kind} bands), got shape {r.shape}"
+        msg = f"r_db must hold {ref.size} finite values ({spacing} bands), got shape {r.shape}"
         raise ValueError(msg)
     r = np.round(r, 1)
-    limit = _LIMIT[kind]
+    limit = _LIMIT[spacing]
     # the largest shift whose unfavourable deviations stay within the limit; the sum only
     # grows with the shift, so start where it is zero and step up
     shift = int(np.floor(np.min(r - ref)))
@@ -126,7 +126,7 @@ def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, kind: str = "third-oc
     unfavourable = float(np.sum(np.maximum(ref + shift - r, 0.0)))
     rw = 52 + shift
     terms = []
-    for spectrum in (_SPECTRUM_C[kind], _SPECTRUM_CTR[kind]):
+    for spectrum in (_SPECTRUM_C[spacing], _SPECTRUM_CTR[spacing]):
         x_a = -10.0 * np.log10(np.sum(10.0 ** ((spectrum - r) / 10.0)))
         terms.append(int(np.round(x_a - rw)))
     return Rating(rw=rw, c=terms[0], ctr=terms[1], unfavourable=round(unfavourable, 1))
@@ -134,10 +134,10 @@ def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, kind: str = "third-oc
 
 def rating_of_bands(bands: BandAxis, r_db: npt.ArrayLike) -> Rating | None:
     """The ISO 717-1 rating of ``r_db`` on ``bands``, or None if a rating band is missing."""
-    wanted = THIRD_OCTAVE_BANDS if bands.kind == "third-octave" else OCTAVE_BANDS
+    wanted = THIRD_OCTAVE_BANDS if bands.spacing == "third-octave" else OCTAVE_BANDS
     nominal = [float(x) for x in bands.nominal]
     if not all(float(b) in nominal for b in wanted):
         return None
     r = np.asarray(r_db, dtype=np.float64)
     pick = [nominal.index(float(b)) for b in wanted]
-    return weighted_sound_reduction_index(r[pick], kind=str(bands.kind))
+    return weighted_sound_reduction_index(r[pick], spacing=str(bands.spacing))

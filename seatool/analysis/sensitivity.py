@@ -164,7 +164,7 @@ def _rows(
     asm: Assembly,
     g: Gradients,
     names: list[str],
-    kinds: list[str],
+    parameter_types: list[str],
     targets: list[str],
     d_e: list[Array],
     d_offset: list[float] | None = None,
@@ -183,7 +183,7 @@ def _rows(
         {
             "receiver": model.subsystems[g.receiver].name,
             "parameter": np.repeat(names, nb),
-            "kind": np.repeat(kinds, nb),
+            "parameter_type": np.repeat(parameter_types, nb),
             "target": np.repeat(targets, nb),
             "band_hz": np.tile(model.bands.nominal, k),
             "band_exact_hz": np.tile(model.bands.centre, k),
@@ -209,7 +209,7 @@ def sensitivities(
     Returns
     -------
     pandas.DataFrame
-        One row per parameter and band: ``receiver, parameter, kind, target, band_hz,
+        One row per parameter and band: ``receiver, parameter, parameter_type, target, band_hz,
         band_exact_hz, dL_dlnx_dB, db_per_db, db_per_percent, modes_in_band,
         modal_overlap, valid``. NaN where the receiver gets no energy (its level is
         minus infinity).
@@ -217,7 +217,7 @@ def sensitivities(
     asm = assemble(model)
     g = gradients(model, receiver, result=result, asm=asm)
     names: list[str] = []
-    kinds: list[str] = []
+    parameter_types: list[str] = []
     targets: list[str] = []
     d_e: list[Array] = []
     sinks = np.array([s.sink for s in model.subsystems])
@@ -225,12 +225,12 @@ def sensitivities(
         if s.sink:
             continue
         names.append(f"damping:{s.name}")
-        kinds.append("damping")
+        parameter_types.append("damping")
         targets.append(s.name)
         d_e.append(asm.damping[i] * g.damping[i])
     for c, con in enumerate(model.connections):
         names.append(f"coupling:{con.name}")
-        kinds.append("coupling")
+        parameter_types.append("coupling")
         targets.append(con.name)
         d_e.append(asm.eta_ab[c] * g.eta_ab[c] + asm.eta_ba[c] * g.eta_ba[c])
     term = asm.eta_ba * g.eta_ba  # dE_r / d ln eta_ba, (C, B)
@@ -240,7 +240,7 @@ def sensitivities(
         as_a = (asm.a == i) & ~sinks[asm.b]
         as_b = asm.b == i
         names.append(f"modal_density:{s.name}")
-        kinds.append("modal_density")
+        parameter_types.append("modal_density")
         targets.append(s.name)
         d_e.append(term[as_a].sum(axis=0) - term[as_b].sum(axis=0))
     idx = model.index()
@@ -249,15 +249,15 @@ def sensitivities(
         if e.drive == "power":
             assert e.power is not None
             names.append(f"power:{e.name}")
-            kinds.append("power")
+            parameter_types.append("power")
             d_e.append(e.power * g.power[i])
         else:
             assert e.energy is not None
             names.append(f"held_level:{e.name}")
-            kinds.append("held_level")
+            parameter_types.append("held_level")
             d_e.append(e.energy * g.held_energy[i])
         targets.append(e.name)
-    return _rows(model, asm, g, names, kinds, targets, d_e)
+    return _rows(model, asm, g, names, parameter_types, targets, d_e)
 
 
 def _same_structure(m0: Model, m1: Model, a0: Assembly, a1: Assembly) -> str | None:
@@ -311,7 +311,7 @@ def parameter_sensitivities(
     Returns
     -------
     pandas.DataFrame
-        As :func:`sensitivities`, ``kind = 'parameter'``, ``parameter`` = the key path.
+        As :func:`sensitivities`, ``parameter_type = 'parameter'``, ``parameter`` = the key path.
 
     Notes
     -----
@@ -396,7 +396,7 @@ def ranking(table: pd.DataFrame) -> pd.DataFrame:
     lv = t["level_dB"].to_numpy(dtype=float)
     t["_q"] = np.where(np.isfinite(lv), db_to_ratio(lv), 0.0)
     out = []
-    for (param, kind), grp in t.groupby(["parameter", "kind"], sort=False):
+    for (param, ptype), grp in t.groupby(["parameter", "parameter_type"], sort=False):
         q = grp["_q"].to_numpy()
         s = grp["db_per_db"].to_numpy(dtype=float)
         w = q / q.sum() if q.sum() > 0 else np.zeros_like(q)
@@ -406,7 +406,7 @@ def ranking(table: pd.DataFrame) -> pd.DataFrame:
         out.append(
             {
                 "parameter": param,
-                "kind": kind,
+                "parameter_type": ptype,
                 "overall_db_per_db": overall,
                 "max_abs_db_per_db": float(np.abs(s[k])) if ok.any() else float("nan"),
                 "band_of_max": float(grp["band_hz"].to_numpy()[k]),

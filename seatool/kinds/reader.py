@@ -213,7 +213,7 @@ class Reader:
                 ok = False
                 continue
             try:
-                x = band_index(float(f), bands.kind)
+                x = band_index(float(f), bands.spacing)
             except BandError as exc:
                 self.error(where, str(exc))
                 ok = False
