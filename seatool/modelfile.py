@@ -10,6 +10,12 @@ The kinds of subsystems, connections, excitations and damping forms are read gen
 through the explicit list of :mod:`seatool.kinds.registry`: each table is checked against
 its kind's declaration (:func:`seatool.kinds.validate.check`), then the kind's derive
 function builds the subsystems or couplings from the validated values.
+
+Why this file is longer than about 600 lines: it is the one place where the sections are
+read in order and tied together (bands, fluids, materials, subsystems, facing trims,
+connections, excitations, the sections of limits, spreads and low-frequency requests, the
+plausibility pass, the load options). Each section's own rules live in ``seatool.kinds``;
+splitting the order itself across modules would hide it.
 """
 
 from __future__ import annotations
