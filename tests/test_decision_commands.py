@@ -8,8 +8,10 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
+import seatool
 from seatool.analysis.candidates import load_candidates
 from seatool.analysis.lightest import lightest_treatment
+from seatool.analysis.targets import probability_from_variance
 from seatool.analysis.treatment_mass import total_added_mass
 from seatool.analysis.variants import apply_changes
 from seatool.cli import main
@@ -110,3 +112,20 @@ def test_bad_candidates_files(tmp_path, capsys, text, words):
     assert main(["lightest", str(tmp_path / "c.toml")]) == 2
     err = capsys.readouterr().err
     assert words in err and "Traceback" not in err
+
+
+def test_variants_and_lightest_print_the_confidence_of_meeting(capsys):
+    # The variants table carries, per variant and target, the probability of meeting it over
+    # nominally identical builds; it is the SEA-variance estimate of
+    # seatool.analysis.targets.probability_from_variance (checked against scipy's Gamma
+    # distribution in tests/test_confidence_outputs.py), here for the base model.
+    assert main(["variants", str(MODELS / "studies" / "operator_cab_variants.toml")]) == 0
+    out = capsys.readouterr().out
+    assert "confidence" in out and "SEA variance estimate" in out
+    base = seatool.run(seatool.load(MODELS / "operator_cab.toml"))
+    p = float(probability_from_variance(base)["probability"].iloc[0])
+    line = next(x for x in out.splitlines() if x.split()[:2] == ["base", "operator_ear"])
+    assert line.split()[-2:] == [f"{100 * p:.0f}", "%"]
+    assert main(["lightest", str(MODELS / "studies" / "operator_cab_candidates.toml")]) == 0
+    out = capsys.readouterr().out
+    assert "% confidence" in out

@@ -23,10 +23,11 @@ models up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse solve per sample
 model file is rebuilt. Otherwise each sample is rebuilt with
 :func:`seatool.modelfile.build` and solved (slower).
 
-Not included: the ensemble variance of the response from the published SEA variance
-theory (Langley & Cotoni 2004, JASA 115(2), 706-718). Its formulas were available
-only from memory and no independent check is available here, so it is
-left out; :mod:`seatool.physics.validity` gives the single-subsystem GOE estimate.
+Not included here: the ensemble variance of the response over nominally identical builds
+(manufacturing scatter of the modes). That comes from the SEA variance theory, without
+sampling, in :mod:`seatool.analysis.confidence` (5-95 % confidence bands; Langley & Cotoni
+2004, JASA 115(2), 706-718, as read in ``docs/theory/variance.md``); the two spreads answer
+different questions and are reported separately.
 """
 
 from __future__ import annotations

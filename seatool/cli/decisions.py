@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+from typing import Any
 
 import seatool
 
@@ -33,6 +34,18 @@ def _variants_args(p: argparse.ArgumentParser) -> None:
     )
 
 
+def _confidence_of_meeting(results: Any) -> dict[tuple[str, str], float]:
+    """(variant, target) -> probability of meeting it from the SEA ensemble variance."""
+    out: dict[tuple[str, str], float] = {}
+    for name, result in results.items():
+        if not result.model.targets:
+            continue
+        pm = seatool.analysis.targets.probability_from_variance(result)
+        for _, r in pm.iterrows():
+            out[(str(name), str(r["target"]))] = float(r["probability"])
+    return out
+
+
 def _cmd_variants(args: argparse.Namespace) -> int:
     out = _csv_target(args.csv, "--csv")
     out_m = _csv_target(args.margins_csv, "--margins-csv")
@@ -54,11 +67,17 @@ def _cmd_variants(args: argparse.Namespace) -> int:
         print()
         print("margins to the targets (limit - level; positive = met)")
         summary = c.margins.groupby(["variant", "target"], sort=False)["margin"].min()
+        confidence = _confidence_of_meeting(c.results)
         rows = []
         for key, m in summary.items():
             names = [str(x) for x in key] if isinstance(key, tuple) else [str(key), ""]
-            rows.append([*names, f"{m:+.1f}", "met" if m >= 0 else "MISSED"])
-        print("\n".join(_fmt_table(["variant", "target", "smallest margin", "verdict"], rows)))
+            p = confidence.get((names[0], names[1]))
+            rows.append([*names, f"{m:+.1f}", "met" if m >= 0 else "MISSED",
+                         "-" if p is None else f"{100 * p:.0f} %"])  # fmt: skip
+        head = ["variant", "target", "smallest margin", "verdict", "confidence"]
+        print("\n".join(_fmt_table(head, rows)))
+        print("confidence: probability of meeting the target over nominally identical builds "
+              "(SEA variance estimate, seatool.analysis.targets.probability_from_variance)")
     if len(c.masses):
         print()
         print("added mass per treatment")
@@ -117,6 +136,9 @@ def _cmd_lightest(args: argparse.Namespace) -> int:
         **settings,
     )
     print(ans.summary())
+    if ans.found:
+        pm = seatool.analysis.targets.probability_from_variance(ans.result)
+        print(seatool.analysis.targets.render_confidence(pm))
     if len(ans.alternatives):
         print()
         print("next-best combinations meeting every target")
