@@ -462,7 +462,7 @@ def solve_modal(
     if check_factor is not None and check_factor < truncation_factor:
         ms2, _, _ = _solve_once(box, excitations, pos, check_factor * f_top, lines, used)
         with np.errstate(divide="ignore", invalid="ignore"):
-            diffs = [np.abs(10 * np.log10(ms[k] / ms2[k])) for k in ms]
+            diffs = [np.abs(levels.db(ms[k] / ms2[k])) for k in ms]
         conv = float(np.nanmax(np.concatenate(diffs)))
         notes.append(
             f"{box.name}: convergence check, largest band-level change {conv:.2g} dB between "

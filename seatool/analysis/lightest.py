@@ -45,6 +45,7 @@ from tqdm import tqdm
 
 from ..errors import InputError, Problem
 from ..kinds.excitations import NONRESONANT_SUFFIX
+from ..levels import db
 from ..model import Model, Target
 from ..modelfile import build
 from ..results import Result
@@ -426,7 +427,7 @@ def lightest_treatment(
             damp[:, rows_g] = table[tuple(combos[:, g] for g in group)]
         e = _batched_dense(base, damp, modal, eta, power, held, held_energy)
         with np.errstate(divide="ignore"):
-            return 10.0 * np.log10(e[:, r_idx, :]) + off[:, :, None]
+            return db(e[:, r_idx, :]) + off[:, :, None]
 
     def judge(levels: Array) -> tuple[npt.NDArray[np.bool_], Array]:
         met = np.ones(levels.shape[0], dtype=bool)

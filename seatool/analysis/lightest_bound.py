@@ -59,6 +59,7 @@ import numpy.typing as npt
 import scipy.sparse as sp
 from threadpoolctl import threadpool_limits
 
+from ..levels import db
 from ..model import Model
 from ..solve import assemble
 
@@ -288,7 +289,7 @@ class LevelFloor:
                 energy[:, self.free, j] = np.maximum(x, 0.0)
         energy[:, self.held, :] = self.he[self.held][None]
         with np.errstate(divide="ignore"):
-            return 10.0 * np.log10(energy[:, self.receivers, :]) + off_lo[:, :, None]
+            return db(energy[:, self.receivers, :]) + off_lo[:, :, None]
 
 
 @dataclass

@@ -38,7 +38,7 @@ from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
 from ..modelfile import Reader, build
-from ..physics import installed_damping, plates, radiation
+from ..physics import damping, installed_damping, plates, radiation
 from ..physics import validity as pv
 from ..solve import solve
 
@@ -367,7 +367,7 @@ def room_transmission_loss(
     p1 = energy[idx[source]] / s1.volume
     p2 = energy[idx[receiver]] / s2.volume
     f = model.bands.centre
-    a2 = 8.0 * np.pi * f * s2.damping * s2.volume / s2.sound_speed
+    a2 = damping.absorption_area_from_loss_factor(f, s2.volume, s2.damping, c0=s2.sound_speed)
     return np.asarray(db(p1 / p2) + db(area / a2), dtype=float)
 
 

@@ -14,6 +14,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..bands import BandAxis
+from ..levels import db, db_to_ratio
 
 __all__ = [
     "OCTAVE_BANDS",
@@ -127,7 +128,7 @@ def weighted_sound_reduction_index(r_db: npt.ArrayLike, *, spacing: str = "third
     rw = 52 + shift
     terms = []
     for spectrum in (_SPECTRUM_C[spacing], _SPECTRUM_CTR[spacing]):
-        x_a = -10.0 * np.log10(np.sum(10.0 ** ((spectrum - r) / 10.0)))
+        x_a = -db(np.sum(db_to_ratio(spectrum - r)))
         terms.append(int(np.round(x_a - rw)))
     return Rating(rw=rw, c=terms[0], ctr=terms[1], unfavourable=round(unfavourable, 1))
 

@@ -23,6 +23,7 @@ import pandas as pd
 
 from ..bands import BandAxis
 from ..errors import InputError, Problem, closest
+from ..levels import db
 from ..metrics import METRICS
 from ..model import Model, Target
 from ..results import Result
@@ -364,7 +365,7 @@ def probability_from_variance(
         pos = r2 > 0
         shape = np.where(pos, 1.0 / np.where(pos, r2, 1.0), 1.0)
         ratio = np.where(pos, rng.gamma(shape, 1.0 / shape, size=(samples, lv.size)), 1.0)
-        draws = lv + 10.0 * np.log10(np.maximum(ratio, 1e-30))
+        draws = lv + db(np.maximum(ratio, 1e-30))
         p = float(np.mean(margins_of_levels(draws, model.bands, t, field=field).met))
         nominal = margins_of_levels(lv, model.bands, t, field=field)
         rows.append(
