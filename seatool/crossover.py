@@ -174,7 +174,7 @@ def _excitations(model: Model, box: ModalBox, panels: Mapping[str, PanelPlacemen
                 fp = _force_point(box, panels, e.subsystem)
                 exs.append(PointForce(e.name, e.subsystem, fp, np.asarray(e.level)))
             else:
-                p2 = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (np.asarray(e.level) / 10)
+                p2 = levels.REFERENCE["sound_pressure"] ** 2 * levels.db_to_ratio(e.level)
                 exs.append(DiffuseField(e.name, e.subsystem, p2))
         elif e.drive == "power" and e.subsystem in panels:
             panel = box.panel(e.subsystem)

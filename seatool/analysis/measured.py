@@ -164,7 +164,7 @@ def energy_from_level(
     if quantity == "velocity":
         if mass is None or not mass > 0:
             raise ValueError("a velocity level needs the subsystem mass > 0 [kg]")
-        return np.asarray(mass * ref["velocity"] ** 2 * 10.0 ** (lv / 10.0))
+        return np.asarray(mass * ref["velocity"] ** 2 * levels.db_to_ratio(lv))
     if quantity == "sound_pressure":
         if not all(x is not None and x > 0 for x in (volume, density, sound_speed)):
             raise ValueError(
@@ -172,10 +172,10 @@ def energy_from_level(
                 "sound_speed [m/s], all > 0"
             )
         assert volume is not None and density is not None and sound_speed is not None
-        p_sq = ref["sound_pressure"] ** 2 * 10.0 ** (lv / 10.0)
+        p_sq = ref["sound_pressure"] ** 2 * levels.db_to_ratio(lv)
         return np.asarray(p_sq * volume / (density * sound_speed**2))
     if quantity == "energy":
-        return np.asarray(ref["energy"] * 10.0 ** (lv / 10.0))
+        return np.asarray(ref["energy"] * levels.db_to_ratio(lv))
     raise ValueError(f"quantity must be 'velocity', 'sound_pressure' or 'energy', got {quantity!r}")
 
 

@@ -57,7 +57,7 @@ def _power(rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]) -
 def _power_level(
     rd: Reader, sub: Subsystem, v: Array, path: str, t: dict[str, Any]
 ) -> tuple[str, Array]:
-    return "power", levels.REFERENCE["power"] * 10.0 ** (v / 10.0)
+    return "power", levels.REFERENCE["power"] * levels.db_to_ratio(v)
 
 
 def _spl(
@@ -66,7 +66,7 @@ def _spl(
     if not _need(rd, sub, path, "sound_pressure"):
         return None
     assert sub.volume is not None and sub.density is not None and sub.sound_speed is not None
-    p_sq = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (v / 10.0)
+    p_sq = levels.REFERENCE["sound_pressure"] ** 2 * levels.db_to_ratio(v)
     return "prescribed", p_sq * sub.volume / (sub.density * sub.sound_speed**2)
 
 
@@ -76,7 +76,7 @@ def _velocity(
     if not _need(rd, sub, path, "velocity"):
         return None
     assert sub.mass is not None
-    return "prescribed", sub.mass * levels.REFERENCE["velocity"] ** 2 * 10.0 ** (v / 10.0)
+    return "prescribed", sub.mass * levels.REFERENCE["velocity"] ** 2 * levels.db_to_ratio(v)
 
 
 def _acceleration(
@@ -85,7 +85,7 @@ def _acceleration(
     if not _need(rd, sub, path, "velocity"):
         return None
     assert sub.mass is not None and rd.bands is not None
-    a_sq = levels.REFERENCE["acceleration"] ** 2 * 10.0 ** (v / 10.0)
+    a_sq = levels.REFERENCE["acceleration"] ** 2 * levels.db_to_ratio(v)
     return "prescribed", sub.mass * a_sq / rd.bands.omega**2
 
 
@@ -161,7 +161,7 @@ def _diffuse(
     sigma = radiation_efficiency_band(
         b.centre, p.lx, p.ly, f_c, f_lower=b.lower, f_upper=b.upper, c0=c0
     )
-    p2 = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (v / 10.0)
+    p2 = levels.REFERENCE["sound_pressure"] ** 2 * levels.db_to_ratio(v)
     power = mob.diffuse_field_power_input(
         b.centre, p2, sigma, sub.modal_density, p.mass_per_area, c0
     )
@@ -256,7 +256,7 @@ def diffuse_nonresonant(
         b.centre, p.mass_per_area, p.lx, p.ly, f_c, rho0=rho0, c0=c0
     )
     tau = tau * treatment_factor(p, None, len(b))
-    p2 = levels.REFERENCE["sound_pressure"] ** 2 * 10.0 ** (v / 10.0)
+    p2 = levels.REFERENCE["sound_pressure"] ** 2 * levels.db_to_ratio(v)
     power = mob.diffuse_field_transmitted_power(p2, p.area, tau, rho0, c0)
     return recv, power
 
