@@ -84,7 +84,6 @@ def best(fn: Callable[[], Any], repeat: int, before: Callable[[], Any] | None = 
 def shipped_models(repeat: int) -> None:
     print("Shipped models: seatool load (first, empty memo) and repeated, against tomllib")
     print(f"{'model':<24} {'tomllib ms':>10} {'load ms':>9} {'ratio':>7} {'warm ms':>8}")
-    modelfile.register_readers()
     for path in sorted(MODELS.glob("*.toml")):
         modelfile.load(path)  # imports and first-use costs out of the way
 

@@ -49,7 +49,7 @@ import scipy.sparse.linalg as spla
 import seatool
 from seatool.bands import BandAxis
 from seatool.model import Connection, Excitation, Model, Subsystem
-from seatool.physics import acoustic, coupling, radiation, structural
+from seatool.physics import acoustic, coupling, plates, radiation
 from seatool.solve import assemble, solve
 
 TOL = 1e-9
@@ -104,17 +104,17 @@ def lattice_model(n: int, seed: int = 0) -> Model:
         if parity[i] == 0:
             h = float(rng.choice([1e-3, 1.5e-3, 2e-3, 3e-3]))
             lx, ly = rng.uniform(0.6, 1.8, 2)
-            stiff = structural.bending_stiffness(2.1e11, h, 0.3)
+            stiff = plates.bending_stiffness(2.1e11, h, 0.3)
             m2 = 7850.0 * h
             sigma = radiation.radiation_efficiency_leppington(
-                f, lx, ly, structural.critical_frequency(stiff, m2, c0)
+                f, lx, ly, plates.critical_frequency(stiff, m2, c0)
             )
             plate_props[i] = (m2, sigma)
             subs.append(
                 Subsystem(
                     f"s{i}",
                     "structure",
-                    structural.plate_bending_modal_density(f, lx * ly, stiff, m2),
+                    plates.plate_bending_modal_density(f, lx * ly, stiff, m2),
                     np.full(f.size, rng.uniform(0.003, 0.02)),
                     quantity="velocity",
                     mass=float(m2 * lx * ly),
