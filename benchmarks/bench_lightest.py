@@ -24,6 +24,7 @@ Run: ``python benchmarks/bench_lightest.py`` (``DROP=1 HARD=3`` by default).
 
 from __future__ import annotations
 
+import argparse
 import os
 import time
 import tomllib
@@ -72,6 +73,7 @@ def surfaces(n: int) -> list[Surface]:
 
 
 def main() -> None:
+    argparse.ArgumentParser(description=(__doc__ or "").splitlines()[0]).parse_args()
     data = tomllib.loads(MODEL.read_text())
     for name in PANELS:  # the base: the treated panels bare (the floors' sheets removed)
         data["subsystems"][name].pop("treatment", None)
