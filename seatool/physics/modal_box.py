@@ -474,9 +474,12 @@ def plane_wave_modal_forces(
     st = np.sin(d[:, 0])
     ku = k[:, None] * (st * np.cos(d[:, 1]))[None, :]  # (L, R)
     kv = k[:, None] * (st * np.sin(d[:, 1]))[None, :]
-    iu = sine_exponential_integral(plate.p[None, :, None], plate.a, ku[:, None, :])
-    iv = sine_exponential_integral(plate.q[None, :, None], plate.b, kv[:, None, :])
-    return np.asarray(2.0 * iu * iv, dtype=np.complex128)
+    # each factor depends on one half-wave number only: evaluated once per distinct number
+    up, at_p = np.unique(plate.p, return_inverse=True)
+    uq, at_q = np.unique(plate.q, return_inverse=True)
+    iu = sine_exponential_integral(up[None, :, None], plate.a, ku[:, None, :])
+    iv = sine_exponential_integral(uq[None, :, None], plate.b, kv[:, None, :])
+    return np.asarray(2.0 * iu[:, at_p.ravel(), :] * iv[:, at_q.ravel(), :], dtype=np.complex128)
 
 
 def diffuse_field_directions(n_theta: int = 8, n_phi: int = 16) -> tuple[FloatArray, FloatArray]:

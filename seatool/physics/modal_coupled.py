@@ -143,23 +143,37 @@ def _rhs(x: npt.ArrayLike | None, n_lines: int, size: int) -> ComplexArray:
 
 
 def _apply(b: FloatArray, x: ComplexArray) -> ComplexArray:
-    """b @ x[f] for every line f: real (S, G) times complex (F, G, R) -> (F, S, R), as two
-    real matrix products over all lines at once."""
+    """b @ x[f] for every line f: real (S, G) times complex (F, G, R) -> (F, S, R).
+
+    The complex array is read as real pairs (F, G, 2R), so every line is one real matrix
+    product and nothing is transposed or copied; loads that are the same at every line (a
+    broadcast first axis) are multiplied once.
+    """
     nf, ng, nr = x.shape
-    xt = x.transpose(1, 0, 2).reshape(ng, nf * nr)
-    re = b @ np.ascontiguousarray(xt.real)
-    im = b @ np.ascontiguousarray(xt.imag)
-    return np.asarray((re + 1j * im).reshape(b.shape[0], nf, nr).transpose(1, 0, 2))
+    if nf > 1 and x.strides[0] == 0:
+        once = _apply(b, x[:1])
+        return np.broadcast_to(once, (nf, b.shape[0], nr))
+    xc = np.ascontiguousarray(x, dtype=np.complex128)
+    out = np.matmul(b, xc.view(np.float64))  # (F, S, 2R) real: (re, im) pairs
+    return out.view(np.complex128)
 
 
 def _reduced(diag: ComplexArray, inv_other: ComplexArray, b: FloatArray) -> ComplexArray:
     """diag(d) + B diag(1/o) B^T for a block of lines: (F, S) + (S, G) (F, G) (G, S)."""
     nf, ns = diag.shape
-    g = _apply(b, inv_other[:, :, None] * b.T[None, :, :])
-    g = np.ascontiguousarray(g)
+    bt = b.T if b.T.flags.c_contiguous else np.ascontiguousarray(b.T)
+    g = _apply(b, inv_other[:, :, None] * bt[None, :, :])
     idx = np.arange(ns)
     g[:, idx, idx] += diag
     return g
+
+
+def _nonzero_columns(x: ComplexArray) -> npt.NDArray[np.int64]:
+    """Right-hand-side columns (last axis) of (L, S, R) loads that are not zero everywhere."""
+    if x.size == 0:
+        return np.zeros(0, dtype=np.int64)
+    compact = x[:1] if x.strides[0] == 0 else x
+    return np.flatnonzero(np.any(compact != 0, axis=(0, 1))).astype(np.int64)
 
 
 def _batched_solve(a: ComplexArray, b: ComplexArray) -> ComplexArray:
@@ -233,23 +247,37 @@ def solve_coupled(
     prs = np.empty((nl, nn, nr), dtype=np.complex128)
     ns, ng = (nk, nn) if keep == "structure" else (nn, nk)
     block = max(1, _BLOCK_ELEMENTS // max(1, ns * max(ns, ng)))
-    for s in range(0, nl, block):
-        sl = slice(s, min(nl, s + block))
-        zi, yi = z[sl], y[sl]
-        if keep == "structure":
-            yinv = 1.0 / yi
-            g = _reduced(zi, yinv, c.T)
-            rhs = f[sl] - _apply(c.T, yinv[:, :, None] * q[sl])
-            v = _batched_solve(g, rhs)
-            p = yinv[:, :, None] * (q[sl] + _apply(c, v))
-        else:
-            zinv = 1.0 / zi
-            g = _reduced(yi, zinv, c)
-            rhs = q[sl] + _apply(c, zinv[:, :, None] * f[sl])
-            p = _batched_solve(g, rhs)
-            v = zinv[:, :, None] * (f[sl] - _apply(c.T, p))
-        vel[sl] = v
-        prs[sl] = p
+    # only the columns where a load is given take part in the elimination's load terms
+    fcols, qcols = _nonzero_columns(f), _nonzero_columns(q)
+    ct = np.ascontiguousarray(c.T)  # C-ordered, so the products below copy nothing
+    with threadpool_limits(limits=1, user_api="blas"):
+        for s in range(0, nl, block):
+            sl = slice(s, min(nl, s + block))
+            zi, yi = z[sl], y[sl]
+            if keep == "structure":
+                yinv = 1.0 / yi
+                g = _reduced(zi, yinv, ct)
+                rhs = np.array(f[sl], dtype=np.complex128)
+                if qcols.size:
+                    rhs[:, :, qcols] -= _apply(ct, yinv[:, :, None] * q[sl][:, :, qcols])
+                v = _batched_solve(g, rhs)
+                p = np.array(_apply(c, v))
+                if qcols.size:
+                    p[:, :, qcols] += q[sl][:, :, qcols]
+                p *= yinv[:, :, None]
+            else:
+                zinv = 1.0 / zi
+                g = _reduced(yi, zinv, c)
+                rhs = np.array(q[sl], dtype=np.complex128)
+                if fcols.size:
+                    rhs[:, :, fcols] += _apply(c, zinv[:, :, None] * f[sl][:, :, fcols])
+                p = _batched_solve(g, rhs)
+                v = -np.array(_apply(ct, p))
+                if fcols.size:
+                    v[:, :, fcols] += f[sl][:, :, fcols]
+                v *= zinv[:, :, None]
+            vel[sl] = v
+            prs[sl] = p
     return vel, prs
 
 
