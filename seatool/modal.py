@@ -411,7 +411,7 @@ class _Load:
         out = np.zeros((nl, nk, self.columns), dtype=np.complex128)
         if self.force_vector is not None:
             out[:, self.panel_slice, 0] = self.force_vector
-        elif self.plate is not None:
+        elif self.plate is not None and self.directions is not None:
             out[:, self.panel_slice, :] = mb.plane_wave_modal_forces(
                 self.plate, self.wavenumber[sl], self.directions
             )

@@ -176,6 +176,11 @@ def _nonzero_columns(x: ComplexArray) -> npt.NDArray[np.int64]:
     return np.flatnonzero(np.any(compact != 0, axis=(0, 1))).astype(np.int64)
 
 
+def _writable(x: ComplexArray) -> ComplexArray:
+    """``x`` itself if it owns writable memory, else a copy (a broadcast product)."""
+    return x if x.flags.writeable else np.array(x)
+
+
 def _batched_solve(a: ComplexArray, b: ComplexArray) -> ComplexArray:
     """Batched LU solves, one BLAS thread: many small factorisations gain nothing from
     threads and lose much to thread contention on a busy machine (measured 50x slower with
@@ -261,7 +266,7 @@ def solve_coupled(
                 if qcols.size:
                     rhs[:, :, qcols] -= _apply(ct, yinv[:, :, None] * q[sl][:, :, qcols])
                 v = _batched_solve(g, rhs)
-                p = np.array(_apply(c, v))
+                p = _writable(_apply(c, v))
                 if qcols.size:
                     p[:, :, qcols] += q[sl][:, :, qcols]
                 p *= yinv[:, :, None]
@@ -272,7 +277,8 @@ def solve_coupled(
                 if fcols.size:
                     rhs[:, :, fcols] += _apply(c, zinv[:, :, None] * f[sl][:, :, fcols])
                 p = _batched_solve(g, rhs)
-                v = -np.array(_apply(ct, p))
+                v = _writable(_apply(ct, p))
+                np.negative(v, out=v)
                 if fcols.size:
                     v[:, :, fcols] += f[sl][:, :, fcols]
                 v *= zinv[:, :, None]
