@@ -32,8 +32,7 @@ def _loads(nl: int, plate: mb.PlateModes, cav: mb.CavityModes, k: np.ndarray
     return f, q
 
 
-@pytest.mark.parametrize("keep", ["structure", "cavity"])
-def test_many_mixed_loads_agree_with_the_full_system(keep: str) -> None:
+def _system() -> tuple[np.ndarray, ...]:
     cav = mb.cavity_modes(0.9, 0.75, 0.7, 343.0, 450.0)
     plate = mb.plate_modes(0.5, 0.4, float(st.bending_stiffness(210e9, 1e-3, 0.3)), 7.85, 450.0)
     c = mb.coupling_matrix(plate, cav, "z0", (0.2, 0.175))
@@ -42,6 +41,12 @@ def test_many_mixed_loads_agree_with_the_full_system(keep: str) -> None:
     y = mc.cavity_modal_admittance_term(w, cav.frequency, cav.norm, 0.03, density=1.21,
                                         sound_speed=343.0)  # fmt: skip
     f, q = _loads(w.size, plate, cav, w / 343.0)
+    return z, y, c, f, q, cav.norm / 0.4725
+
+
+@pytest.mark.parametrize("keep", ["structure", "cavity", "groups"])
+def test_many_mixed_loads_agree_with_the_full_system(keep: str) -> None:
+    z, y, c, f, q, _ = _system()
     v0, p0 = mc.solve_coupled_full(z, y, c, f, q)
     v, p = mc.solve_coupled(z, y, c, f, q, keep=keep)  # type: ignore[arg-type]
     # every column alone: a column's own scale, not the largest load's, sets the tolerance
@@ -50,6 +55,18 @@ def test_many_mixed_loads_agree_with_the_full_system(keep: str) -> None:
                                    atol=1e-12 * np.abs(v0[:, :, r]).max())  # fmt: skip
         np.testing.assert_allclose(p[:, :, r], p0[:, :, r], rtol=1e-8,
                                    atol=1e-12 * np.abs(p0[:, :, r]).max())  # fmt: skip
+
+
+def test_weighted_pressure_squares_through_the_coupling_groups() -> None:
+    # a panel in one face couples cavity modes that differ only in the index normal to the
+    # face through the same row (up to sign): the groups are fewer than either mode set
+    z, y, c, f, q, weight = _system()
+    groups, _, _ = mc._coupling_groups(c)
+    assert groups.shape[0] < min(c.shape)
+    v0, p0 = mc.solve_coupled_full(z, y, c, f, q)
+    v, p2 = mc.solve_coupled_squares(z, y, c, f, q, pressure_weight=weight)
+    np.testing.assert_allclose(v, v0, rtol=1e-8, atol=1e-12 * np.abs(v0).max())
+    np.testing.assert_allclose(p2, np.einsum("n,lnr->lr", weight, np.abs(p0) ** 2), rtol=1e-8)
 
 
 def test_loads_the_same_at_every_line_are_multiplied_once() -> None:
