@@ -332,6 +332,9 @@ def _solve_once(
         y = mc.cavity_modal_admittance_term(w, cav.frequency, cav.norm, cav_eta,
                                             density=box.density, sound_speed=box.sound_speed)  # fmt: skip
         ns, ng = min(nk, nn), max(nk, nn)
+        groups = mc.coupling_group_count(md.coupling)
+        if groups < ns:  # the coupling groups are eliminated: (lines, K, G) temporaries
+            ns, ng = nk, groups
         step = max(1, _BLOCK_ELEMENTS // max(1, ns * max(ng, nr)))
     ms_p = np.empty(nl)
     ms_v = np.empty((nl, len(box.panels)))
@@ -361,11 +364,10 @@ def _solve_once(
     return out, counts, solver
 
 
-#: Complex numbers held per block of lines (about 4 MB): the reduced matrices of the direct
-#: solve or the responses to every load. Small blocks keep the temporaries in memory that
-#: is reused instead of fresh pages (on the rail cab's box 16 MB blocks spent 0.2 s of
-#: system time on page faults, 4 MB blocks 0.1 s; 1 MB blocks lost more to per-block work).
-_BLOCK_ELEMENTS = 250_000
+#: Complex numbers held per block of lines (about 8 MB): the reduced matrices of the direct
+#: solve or the responses to every load. Blocks of a few MB keep the temporaries in memory
+#: that is reused rather than in fresh pages (page faults are system time).
+_BLOCK_ELEMENTS = 500_000
 
 
 def _abs2(x: npt.NDArray[np.complex128]) -> Array:

@@ -50,6 +50,7 @@ from ._threads import one_blas_thread
 __all__ = [
     "band_lines",
     "cavity_modal_admittance_term",
+    "coupling_group_count",
     "line_average",
     "modal_impedance",
     "solve_coupled",
@@ -309,6 +310,12 @@ def solve_coupled(
             vel[sl] = v
             prs[sl] = p
     return vel, prs
+
+
+def coupling_group_count(coupling: npt.ArrayLike) -> int:
+    """Number of groups of cavity modes whose coupling rows are equal up to sign (Notes of
+    :func:`solve_coupled`); the groups are eliminated together when fewer than both sets."""
+    return int(_coupling_groups(np.asarray(coupling, dtype=np.float64))[0].shape[0])
 
 
 def _coupling_groups(c: FloatArray) -> tuple[FloatArray, npt.NDArray[np.int64], FloatArray]:
