@@ -40,9 +40,11 @@ the receiver within about 20 % of Monte Carlo estimates that themselves scatter 
 between seeds (heavy tails); without item 3 the receiver would be low by a factor of 2 to
 4, without item 4 by about 25 %.
 
-Levels are quantiles of a Gamma distribution with the SEA mean and the predicted
-variance (:func:`seatool.physics.variance.level_quantiles`; docs/theory/variance.md says
-why Gamma). Held subsystems (measured levels) and sinks have no spread.
+Levels are quantiles of a log-normal distribution with the SEA mean and the predicted
+variance (:data:`seatool.physics.variance.DISTRIBUTION`,
+:func:`seatool.physics.variance.level_quantiles`; docs/theory/variance.md, section 3, gives
+the Monte Carlo evidence against the Gamma distribution). Held subsystems (measured levels)
+and sinks have no spread.
 """
 
 from __future__ import annotations
@@ -61,6 +63,7 @@ from ..model import Model
 from ..physics.variance import (
     ALPHA_POINT,
     ALPHA_RAIN_ON_THE_ROOF,
+    DISTRIBUTION,
     combined_alpha,
     level_quantiles,
     product_variance_band,
@@ -85,8 +88,10 @@ BAND_NOTE = (
     "5-95 % band: the levels that 90 % of nominally identical builds fall between, from the "
     "SEA ensemble variance of each subsystem's band energy (scatter of natural frequencies "
     "and mode shapes; Langley & Brown 2004, Langley & Cotoni 2004), the energy taken as "
-    "Gamma-distributed about the SEA mean (the distribution of a sum of squared modal "
-    "responses); parameter spreads of an [uncertainty] section are not included."
+    "log-normal about the SEA mean (a product of factors along the transmission path; "
+    "closer to random-matrix simulations than a Gamma law, whose low bound falls far too "
+    "low where the spread is large); parameter spreads of an [uncertainty] section are "
+    "not included."
 )
 
 Array = npt.NDArray[np.float64]
@@ -232,7 +237,7 @@ def confidence_bands(
     result: Result,
     levels: Sequence[float] = (0.05, 0.95),
     *,
-    distribution: Literal["gamma", "lognormal"] = "gamma",
+    distribution: Literal["gamma", "lognormal"] = DISTRIBUTION,
     spacing: Literal["goe", "poisson"] = "goe",
     relative_variance: npt.ArrayLike | None = None,
 ) -> pd.DataFrame:
@@ -245,9 +250,9 @@ def confidence_bands(
         The solved model (``seatool.run(model)``).
     levels : sequence of float, optional
         Probabilities (default 5 % and 95 %); the median (50 %) is always included.
-    distribution : {'gamma', 'lognormal'}, optional
+    distribution : {'lognormal', 'gamma'}, optional
         Distribution of the energy with the SEA mean and the predicted variance
-        (default Gamma; see :func:`seatool.physics.variance.level_quantiles`).
+        (default log-normal; see :func:`seatool.physics.variance.level_quantiles`).
     spacing : {'goe', 'poisson'}, optional
         Natural-frequency statistics (default GOE).
     relative_variance : array_like (N, B), optional
