@@ -58,7 +58,9 @@ import numpy.typing as npt
 import pandas as pd
 from scipy import special
 
+from ..bands import BandAxis
 from ..kinds.registry import CONNECTION_KINDS
+from ..metrics import weighted_level
 from ..model import Model
 from ..physics.variance import (
     ALPHA_POINT,
@@ -78,6 +80,7 @@ __all__ = [
     "DISTRIBUTED_CONNECTIONS",
     "band_limits",
     "confidence_bands",
+    "overall_relative_variance",
     "relative_variances",
     "render_bands",
     "table_with_confidence",
@@ -371,3 +374,41 @@ def render_bands(
     out.extend(fmt.format(*r) for r in rows)
     return "\n".join(out)
 
+
+
+def overall_relative_variance(
+    levels: npt.ArrayLike,
+    relative_variance: npt.ArrayLike,
+    bands: BandAxis,
+    weighting: Literal["Z", "A"] = "A",
+) -> Array:
+    """Relative variance [-] of an overall (energetic band sum) level's energy.
+
+    Parameters
+    ----------
+    levels : array_like (..., B)
+        Band levels (SEA means) [dB].
+    relative_variance : array_like (..., B)
+        r^2 of each band energy (:func:`relative_variances`); NaN counts as 0.
+    bands : BandAxis
+    weighting : {'Z', 'A'}
+        Unweighted (overall dB) or A-weighted sum.
+
+    Returns
+    -------
+    numpy.ndarray (...)
+        r_sum^2 = sum_k s_k^2 r_k^2 with s_k each band's share of the (weighted) mean
+        square: the band energies are independent (different bands hold different modes),
+        so their variances add. Turned into levels with
+        :func:`seatool.physics.variance.level_quantiles`, the sum is taken as log-normal
+        like each band (the Fenton-Wilkinson approximation of a sum of log-normal
+        variables; checked against sampled sums in tests/test_sweep_confidence.py).
+
+    References
+    ----------
+    .. [1] Fenton, L.F. (1960). The sum of log-normal probability distributions in scatter
+       transmission systems. IRE Trans. Commun. Syst. 8(1), 57-67.
+    """
+    share = weighted_level(levels, bands, weighting).gradient
+    r2 = np.nan_to_num(np.asarray(relative_variance, dtype=float), nan=0.0)
+    return np.asarray(np.sum(share**2 * r2, axis=-1), dtype=float)
