@@ -10,7 +10,9 @@ excitation coefficients (Langley & Brown 2004a, b). Poisson-distributed natural
 frequencies (Lyon 1969) are available for comparison.
 
 The single-frequency formula is :func:`seatool.physics.validity.relative_variance_goe`;
-the propagation through a coupled model is in :mod:`seatool.analysis.confidence`.
+the propagation through a coupled model is in :mod:`seatool.analysis.confidence`; the law
+that turns a relative variance into level quantiles is in
+:mod:`seatool.physics.level_distribution` (re-exported here).
 """
 
 from __future__ import annotations
@@ -23,6 +25,7 @@ from scipy import special
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
+from .level_distribution import DISTRIBUTION, energy_ratio_samples, level_quantiles
 from .validity import relative_variance_goe
 
 __all__ = [
@@ -34,6 +37,7 @@ __all__ = [
     "energy_ratio_samples",
     "goe_form_factor",
     "level_quantiles",
+    "point_response_cross_variance",
     "relative_variance_band",
     "relative_variance_alpha_slope",
     "product_variance_band",
@@ -54,12 +58,6 @@ _GL_X, _GL_W = np.polynomial.legendre.leggauss(16)
 _PANELS_PER_DECADE = 60
 # Above k B > _OSC_LIMIT the factor sin^2(pi k B) is replaced by its mean 1/2.
 _OSC_LIMIT = 77.0
-_RATIO_FLOOR = 1e-30
-
-#: Distribution assumed for a band energy with a given mean and relative variance when it is
-#: turned into level quantiles or drawn: log-normal (the evidence is in
-#: :func:`level_quantiles` and docs/theory/variance.md, section 3).
-DISTRIBUTION: Literal["lognormal"] = "lognormal"
 
 
 def goe_form_factor(k: npt.ArrayLike) -> FloatArray:
@@ -286,6 +284,93 @@ def relative_variance_alpha_slope(
     return np.asarray(out.reshape(shape), dtype=np.float64)
 
 
+def point_response_cross_variance(
+    modal_overlap: npt.ArrayLike, modes_in_band: npt.ArrayLike
+) -> FloatArray:
+    """Extra relative variance of a band-averaged squared point response from its
+    cross-modal terms [-].
+
+    Parameters
+    ----------
+    modal_overlap : float or array_like
+        Modal overlap factor m [-], > 0.
+    modes_in_band : float or array_like
+        Expected number of modes in the band B [-], > 0.
+
+    Returns
+    -------
+    numpy.ndarray
+        r_x^2 [-]: the band average of |sum_j c_j H_j(f)|^2, with c_j = phi_j(x_1)
+        phi_j(x_2) products of independent zero-mean mode-shape values, has the relative
+        variance r^2(m, B, alpha_c) (:func:`relative_variance_band`, the modal sum's part)
+        plus r_x^2. It is the part that the signs of the c_j add: a response at a point is
+        a sum of complex modal amplitudes, not a sum of modal energies.
+
+    Notes
+    -----
+    With unit mean spacing, H(x, f) = 1 / (x - f - i m/2) and GOE natural frequencies, the
+    cross terms of E[|X(f)|^2 |X(f')|^2] add to the normalised covariance over the lag u
+
+        c_x(u) = (1 - beta) m^2 / (u^2 + m^2)
+                 - (4 m^2 / u^2) int_0^inf b(k) exp(-2 pi m k) sin^2(pi k u) dk,
+        beta = 2 int_0^inf b(k) exp(-2 pi m k) dk
+
+    (b the GOE two-level form factor, :func:`goe_form_factor`; the first term is the
+    Rayleigh-like correlation of a complex sum of many overlapping modes, reduced by level
+    repulsion; the second removes the pairs of one mode counted twice). Band averaging,
+    r_x^2 = (1/B) int_{-B}^{B} (1 - |u|/B) c_x(u) du, gives
+
+        r_x^2 = (1 - beta) (2m/B) [arctan(B/m) - (m / 2B) ln(1 + B^2/m^2)]
+                - (8 m^2 / B) int_0^inf b(k) exp(-2 pi m k) K(k) dk,
+        K(k) = pi k Si(2 pi k B) - sin^2(pi k B) / B - Cin(2 pi k B) / (2B)
+
+    (Si the sine integral, Cin(x) = gamma + ln x - Ci(x); Abramowitz & Stegun 5.2.1-5.2.2).
+    Limits: m -> 0: r_x^2 -> 0 (one mode at a time); m -> infinity: beta -> 0 and
+    r_x^2 -> pi m / B for B >> m, -> 1 for B << m (a complex Gaussian response at one
+    frequency). Derivation (Fourier transforms of products of Lorentzians) in
+    docs/theory/variance.md, section 2; checked against a Monte Carlo of point responses in
+    tests/physics/test_variance.py.
+
+    References
+    ----------
+    .. [1] Langley, R.S., Brown, A.W.M. (2004b). The ensemble statistics of the
+       band-averaged energy of a random system. J. Sound Vib. 275, 847-857 (from memory
+       for volume and pages; the spectral form with the GOE form factor).
+    .. [2] Mehta, M.L. (2004). Random Matrices, 3rd ed., Elsevier, ch. 6 (b(k)).
+    .. [3] Abramowitz, M., Stegun, I.A. (1964). Handbook of Mathematical Functions, NBS,
+       5.2 (sine and cosine integrals).
+    """
+    m = _positive("modal_overlap", modal_overlap)
+    bw = _positive("modes_in_band", modes_in_band)
+    shape = np.broadcast_shapes(m.shape, bw.shape)
+    m_ = np.broadcast_to(m, shape).ravel()[:, None]
+    b_ = np.broadcast_to(bw, shape).ravel()[:, None]
+    c = 2.0 * np.pi * m_
+    # composite Gauss-Legendre in ln k from 1e-6 / max(1, m, B) to 40 / (2 pi m)
+    lo = np.log(1e-6 / np.maximum(np.maximum(1.0, m_), b_))
+    hi = np.log(40.0 / c)
+    n_panels = 48  # 1e-6 relative against 160 panels (m 0.01-100, B 0.05-3000)
+    edges = np.linspace(0.0, 1.0, n_panels + 1)
+    left = lo + (hi - lo) * edges[None, :-1]
+    half = 0.5 * (hi - lo) / n_panels
+    t = (left[:, :, None] + half[:, :, None] * (_GL_X[None, None, :] + 1.0)).reshape(
+        m_.shape[0], n_panels * _GL_X.size
+    )
+    w = (half[:, :, None] * _GL_W[None, None, :]).repeat(n_panels, axis=1).reshape(t.shape)
+    k = np.exp(t)
+    weight = goe_form_factor(k) * np.exp(-c * k) * k * w  # dk = k dt
+    x = 2.0 * np.pi * k * b_
+    si, ci = special.sici(x)
+    cin = np.euler_gamma + np.log(x) - ci
+    kern = np.pi * k * si - np.sin(0.5 * x) ** 2 / b_ - cin / (2.0 * b_)
+    beta = 2.0 * (np.sum(goe_form_factor(k) * np.exp(-c * k) * k * w, axis=1) + np.exp(lo[:, 0]))
+    first = (1.0 - beta) * (2.0 * m_[:, 0] / b_[:, 0]) * (
+        np.arctan(b_[:, 0] / m_[:, 0]) - m_[:, 0] / (2.0 * b_[:, 0]) * np.log1p((b_[:, 0] / m_[:, 0]) ** 2)
+    )
+    second = 8.0 * m_[:, 0] ** 2 / b_[:, 0] * np.sum(weight * kern, axis=1)
+    return np.asarray(np.maximum(first - second, 0.0).reshape(shape), dtype=np.float64)
+
+
 def product_variance_band(
     f: npt.ArrayLike,
     bandwidth: npt.ArrayLike,
@@ -433,119 +518,3 @@ def combined_alpha(weights: npt.ArrayLike, alphas: npt.ArrayLike) -> FloatArray:
     with np.errstate(divide="ignore", invalid="ignore"):
         out = np.where(total > 0, 1.0 + num / np.where(total > 0, total, 1.0) ** 2, 1.0)
     return np.asarray(out, dtype=np.float64)
-
-
-def level_quantiles(
-    relative_variance: npt.ArrayLike,
-    probabilities: npt.ArrayLike,
-    *,
-    distribution: Literal["gamma", "lognormal"] = DISTRIBUTION,
-) -> FloatArray:
-    """Level quantiles relative to the level of the mean energy [dB].
-
-    Parameters
-    ----------
-    relative_variance : float or array_like
-        r^2 = Var[E] / E[E]^2 [-], >= 0.
-    probabilities : float or array_like
-        Probabilities in (0, 1); a new trailing axis is added when it is an array (the
-        result has shape ``r2.shape + p.shape``).
-    distribution : {'lognormal', 'gamma'}, optional
-        Distribution of the energy with mean E[E] and relative variance r^2: log-normal
-        (default, :data:`DISTRIBUTION`) or Gamma with shape 1 / r^2.
-
-    Returns
-    -------
-    numpy.ndarray
-        10 lg(E_p / E[E]) [dB]: add to the SEA (mean) level to get the level that the
-        energy of a fraction p of the ensemble stays below. 0 where r^2 = 0; floored
-        at -300 dB.
-
-    Notes
-    -----
-    Log-normal: E_p / E[E] = exp(-s^2 / 2 + s z_p), s^2 = ln(1 + r^2), z_p the standard
-    normal quantile; Gamma: E_p / E[E] = r^2 P^-1(1 / r^2, p) (regularised incomplete
-    gamma function inverse). Both have the given mean and variance; they differ in the
-    tails. Against the random-matrix Monte Carlo of point-driven band energies and of a
-    subsystem driven through a point junction (docs/theory/variance.md, section 3;
-    tests/test_confidence_distribution.py) the upper 95 % quantile of either is within
-    about 1 dB, but where r^2 >= 1 the Gamma lower 5 % quantile is far too low (at
-    r^2 = 3 for one subsystem -36 dB against -15 dB simulated; its shape 1 / r^2 < 1
-    puts a large probability at almost zero energy), while the log-normal one is within
-    2-5 dB; below r^2 = 0.3 the log-normal band is 0.5-1 dB narrow on the low side. A
-    band energy of a built-up system is a product of factors along the path (source
-    response, junction, receiver response), whose logarithm is a sum: the log-normal
-    form is the limit of that product. The log-normal is therefore the default.
-
-    References
-    ----------
-    .. [1] Johnson, N.L., Kotz, S., Balakrishnan, N. (1994). Continuous Univariate
-       Distributions, vol. 1, 2nd ed., Wiley, ch. 14 (log-normal) and ch. 17 (gamma).
-    .. [2] Langley, R.S., Cotoni, V. (2004). J. Acoust. Soc. Am. 115(2), 706-718
-       (confidence bounds from the predicted mean and variance).
-    """
-    r2 = _nonnegative("relative_variance", relative_variance)
-    p = np.asarray(probabilities, dtype=np.float64)
-    if np.any((p <= 0) | (p >= 1)) or not np.all(np.isfinite(p)):
-        msg = "probabilities must lie strictly between 0 and 1"
-        raise ValueError(msg)
-    _check_distribution(distribution)
-    r2e = r2.reshape(r2.shape + (1,) * p.ndim)
-    pos = r2e > 0
-    safe = np.where(pos, r2e, 1.0)
-    if distribution == "gamma":
-        ratio = special.gammaincinv(1.0 / safe, p) * safe
-    else:
-        s2 = np.log1p(safe)
-        ratio = np.exp(-0.5 * s2 + np.sqrt(s2) * special.ndtri(p))
-    out = np.where(pos, 10.0 * np.log10(np.maximum(ratio, _RATIO_FLOOR)), 0.0)
-    return np.asarray(out, dtype=np.float64)
-
-
-def energy_ratio_samples(
-    relative_variance: npt.ArrayLike,
-    size: int,
-    rng: np.random.Generator,
-    *,
-    distribution: Literal["gamma", "lognormal"] = DISTRIBUTION,
-) -> FloatArray:
-    """Random draws of E / E[E] for energies of the given relative variance [-].
-
-    Parameters
-    ----------
-    relative_variance : float or array_like
-        r^2 [-], >= 0 (shape S).
-    size : int
-        Number of draws (a new leading axis: the result has shape (size, *S)).
-    rng : numpy.random.Generator
-    distribution : {'lognormal', 'gamma'}, optional
-        As :func:`level_quantiles` (default :data:`DISTRIBUTION`).
-
-    Returns
-    -------
-    numpy.ndarray
-        Draws with mean 1 and relative variance r^2 (1 where r^2 = 0).
-
-    References
-    ----------
-    .. [1] Johnson, N.L., Kotz, S., Balakrishnan, N. (1994). Continuous Univariate
-       Distributions, vol. 1, 2nd ed., Wiley, ch. 14 and ch. 17.
-    """
-    r2 = _nonnegative("relative_variance", relative_variance)
-    _check_distribution(distribution)
-    pos = r2 > 0
-    safe = np.where(pos, r2, 1.0)
-    shape = (int(size), *r2.shape)
-    if distribution == "gamma":
-        k = 1.0 / safe
-        draws = rng.gamma(k, 1.0 / k, size=shape)
-    else:
-        s2 = np.log1p(safe)
-        draws = np.exp(-0.5 * s2 + np.sqrt(s2) * rng.standard_normal(shape))
-    return np.asarray(np.where(pos, draws, 1.0), dtype=np.float64)
-
-
-def _check_distribution(distribution: str) -> None:
-    if distribution not in ("gamma", "lognormal"):
-        msg = f"distribution must be 'gamma' or 'lognormal', got {distribution!r}"
-        raise ValueError(msg)
