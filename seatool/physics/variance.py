@@ -153,6 +153,29 @@ def _form_factor_integral(c: FloatArray, bw: FloatArray) -> FloatArray:
     return np.asarray(out + lo, dtype=np.float64)  # [0, lo]: b ~ 1, exp ~ 1, sinc ~ 1
 
 
+# Values of _form_factor_integral by (c, B): a model re-solved with a few parameters changed
+# (sweeps, searches) keeps most subsystems' overlap and modes in band, and the integral is
+# the whole cost of relative_variance_band. Exact (the same floating-point values).
+_MEMO: dict[tuple[float, float], float] = {}
+_MEMO_LIMIT = 200_000
+
+
+def _form_factor_integral_memo(c: FloatArray, bw: FloatArray) -> FloatArray:
+    """:func:`_form_factor_integral`, remembering every value computed (up to
+    :data:`_MEMO_LIMIT` pairs; the memory is cleared when full)."""
+    keys = list(zip(c.tolist(), bw.tolist(), strict=True))
+    found = [_MEMO.get(key) for key in keys]
+    todo = [i for i, v in enumerate(found) if v is None]
+    out = np.array([np.nan if v is None else v for v in found], dtype=np.float64)
+    if todo:
+        new = _form_factor_integral(c[todo], bw[todo])
+        out[todo] = new
+        if len(_MEMO) + len(todo) > _MEMO_LIMIT:
+            _MEMO.clear()
+        _MEMO.update(zip((keys[i] for i in todo), new.tolist(), strict=True))
+    return out
+
+
 def relative_variance_band(
     modal_overlap: npt.ArrayLike,
     modes_in_band: npt.ArrayLike,
@@ -238,7 +261,7 @@ def relative_variance_band(
     a_ = np.broadcast_to(a, shape).ravel()
     r2 = 2.0 * a_ * _sinc2_exp_integral(c, np.pi * b_)
     if spacing == "goe":
-        r2 = r2 - 2.0 * _form_factor_integral(c, b_)
+        r2 = r2 - 2.0 * _form_factor_integral_memo(c, b_)
     return np.asarray(np.maximum(r2, 0.0).reshape(shape), dtype=np.float64)
 
 

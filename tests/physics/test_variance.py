@@ -270,3 +270,18 @@ def test_product_term_narrow_band_limit() -> None:
         f * n2 * eta2, alpha=3.0
     )
     assert t[0] == pytest.approx(float(single)) and np.all(np.diff(t) <= 0)
+
+
+def test_remembered_values_are_the_computed_ones() -> None:
+    # relative_variance_band remembers the form-factor integral by (overlap, modes in band):
+    # a repeated call, alone or mixed with new values, returns the same numbers bit for bit
+    # as the integral computed afresh
+    m = np.array([0.3, 1.0, 3.0])
+    width = np.array([2.0, 10.0, 40.0])
+    first = v.relative_variance_band(m, width)
+    again = v.relative_variance_band(np.append(m, 0.7), np.append(width, 5.0))
+    assert np.array_equal(again[:3], first)
+    fresh = 2.0 * 3.0 * v._sinc2_exp_integral(2 * np.pi * m, np.pi * width) - 2.0 * (
+        v._form_factor_integral(2 * np.pi * m, width)
+    )
+    assert np.array_equal(first, np.maximum(fresh, 0.0))
