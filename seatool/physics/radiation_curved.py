@@ -78,9 +78,10 @@ def _mode_class_sigma(
     k2 = k * k
     kx2 = s * c2
     ky2 = s - kx2
+    d = s - k2
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        fast = k / np.sqrt(k2 - s)
-        ex = (s - k2) ** 1.5
+        fast = k / np.sqrt(-d)
+        ex = d * np.sqrt(d)
         edge_y = k * (2.0 * ky2 - (k2 - kx2)) / (l2 * np.sqrt(ky2) * ex)
         edge_x = k * (2.0 * kx2 - (k2 - ky2)) / (l1 * np.sqrt(kx2) * ex)
     edge = np.where(ky2 < k2, edge_x, 0.0)
@@ -309,64 +310,61 @@ def radiation_efficiency_curved_panel(
     xs, ws = gauss_legendre(n_wavenumber)
     us, ws = 0.5 * (xs + 1.0), 0.5 * ws
 
-    col = (slice(None), None)
-    num = np.zeros_like(f_b)
-    den = np.zeros_like(f_b)
-    for j in range(edges.shape[-1] - 1):
-        pa, pb = edges[:, j][col], edges[:, j + 1][col]
-        phi = pa + (pb - pa) * tau  # (B, n_angle)
-        jac = (pb - pa) * dtau
-        c2 = np.cos(phi) ** 2
-        c4 = c2 * c2
-        s1 = (kc[col] / c0) * np.sqrt(np.maximum(w1[col] ** 2 - wm[col] ** 2 * c4, 0.0))
-        s2 = (kc[col] / c0) * np.sqrt(np.maximum(w2[col] ** 2 - wm[col] ** 2 * c4, 0.0))
-        # along phi, k^2 = s^2/k_c^2 + (omega_m/c0)^2 cos^4 phi; class boundaries in s:
-        # s = k^2, s cos^2 phi = k^2, s sin^2 phi = k^2 (quadratics in s)
-        kc2 = (kc**2)[col]
-        cc = ((wm / c0) ** 2)[col] * c4 * kc2
-        roots = [
-            *_quadratic_roots(kc2 * np.ones_like(c2), cc),
-            *_quadratic_roots(kc2 * c2, cc),
-            *_quadratic_roots(kc2 * (1.0 - c2), cc),
-        ]
-        if lattice:
-            # boundaries of the strips next to the axes that hold no mode (k_x = kx0 and
-            # k_y = ky0 in s = k_p^2 along phi)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                roots.append(kx0[col] ** 2 / c2)
-                roots.append(ky0[col] ** 2 / (1.0 - c2))
-        pts = np.sort(
-            np.stack(
-                [
-                    s1,
-                    s2,
-                    *(np.clip(np.nan_to_num(r, nan=-1.0, posinf=-1.0), s1, s2) for r in roots),
-                ],
-                -1,
-            ),
-            axis=-1,
-        )
-        sa, sb = pts[..., :-1, None], pts[..., 1:, None]
-        weight = jac[..., None, None] * (sb - sa) * ws  # (B, n_angle, segments, n_wavenumber)
-        if lattice:
-            s_all = sa + (sb - sa) * us
-            b4 = (slice(None), None, None, None)
-            c2e, c4e = c2[..., None, None], c4[..., None, None]
-            in_lattice = (s_all * c2e >= kx0[b4] ** 2) & (s_all * (1.0 - c2e) >= ky0[b4] ** 2)
-            # k^2 at the node; s >= k^2 is the slow (edge, corner) side, kept as counted
-            slow = s_all >= (s_all / kc[b4]) ** 2 + (wm[b4] / c0) ** 2 * c4e
-            weight = np.where(in_lattice | slow, weight, 0.0)
-        den += np.sum(weight, axis=(1, 2, 3))
-        # empty sub-intervals (weight exactly 0) are common; evaluate only the others
-        band, ia, iseg, iw = np.nonzero(weight)
-        if band.size == 0:
-            continue
-        sa_n, sb_n = sa[band, ia, iseg, 0], sb[band, ia, iseg, 0]
-        s = sa_n + (sb_n - sa_n) * us[iw]
-        c4n = c4[band, ia]
-        k = np.sqrt((s / kc[band]) ** 2 + (wm[band] / c0) ** 2 * c4n)
-        cap = (0.5 - 0.15 * short[band] / long_[band]) * np.sqrt(k * short[band])
-        sigma = _mode_class_sigma(s, c2[band, ia], k, l1_b[band], l2_b[band], cap, closed)
-        num += np.bincount(band, weights=weight[band, ia, iseg, iw] * sigma, minlength=num.size)
+    # every angular sub-interval of every band at once: axes (band, interval, angle node)
+    b3 = (slice(None), None, None)
+    pa, pb = edges[:, :-1, None], edges[:, 1:, None]
+    phi = pa + (pb - pa) * tau  # (B, J, n_angle)
+    jac = (pb - pa) * dtau
+    c2 = np.cos(phi) ** 2
+    c4 = c2 * c2
+    kcc = (kc / c0)[b3]
+    wm2 = (wm**2)[b3]
+    s1 = kcc * np.sqrt(np.maximum((w1**2)[b3] - wm2 * c4, 0.0))
+    s2 = kcc * np.sqrt(np.maximum((w2**2)[b3] - wm2 * c4, 0.0))
+    # along phi, k^2 = s^2/k_c^2 + (omega_m/c0)^2 cos^4 phi; class boundaries in s:
+    # s = k^2, s cos^2 phi = k^2, s sin^2 phi = k^2 (quadratics in s)
+    kc2 = (kc**2)[b3]
+    cc = ((wm / c0) ** 2)[b3] * c4 * kc2
+    roots = [
+        *_quadratic_roots(kc2 * np.ones_like(c2), cc),
+        *_quadratic_roots(kc2 * c2, cc),
+        *_quadratic_roots(kc2 * (1.0 - c2), cc),
+    ]
+    if lattice:
+        # boundaries of the strips next to the axes that hold no mode (k_x = kx0 and
+        # k_y = ky0 in s = k_p^2 along phi)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            roots.append(kx0[b3] ** 2 / c2)
+            roots.append(ky0[b3] ** 2 / (1.0 - c2))
+    pts = np.sort(
+        np.stack(
+            [s1, s2, *(np.clip(np.nan_to_num(r, nan=-1.0, posinf=-1.0), s1, s2) for r in roots)],
+            -1,
+        ),
+        axis=-1,
+    )  # (B, J, n_angle, points)
+    sa, sb = pts[..., :-1], pts[..., 1:]
+    # only the non-empty wavenumber segments are expanded into quadrature nodes
+    band, ij, ia, iseg = np.nonzero((sb > sa) & (jac > 0.0)[..., None])
+    sa_n, sb_n = sa[band, ij, ia, iseg], sb[band, ij, ia, iseg]
+    weight = (jac[band, ij, ia] * (sb_n - sa_n))[:, None] * ws  # (segments, n_wavenumber)
+    s = sa_n[:, None] + (sb_n - sa_n)[:, None] * us
+    c2n = c2[band, ij, ia][:, None]
+    c4n = c2n * c2n
+    bn = band[:, None]
+    # k^2 at the node
+    k2 = (s / kc[bn]) ** 2 + (wm[bn] / c0) ** 2 * c4n
+    if lattice:
+        in_lattice = (s * c2n >= kx0[bn] ** 2) & (s * (1.0 - c2n) >= ky0[bn] ** 2)
+        # s >= k^2 is the slow (edge, corner) side, kept as counted
+        weight = np.where(in_lattice | (s >= k2), weight, 0.0)
+    den = np.bincount(band, weights=weight.sum(axis=1), minlength=f_b.size)
+    # sigma on every node of the non-empty segments (zero-weight nodes add nothing); the
+    # per-band data broadcast along the segment's nodes
+    kn = np.sqrt(k2)
+    sh = short[bn]
+    cap = (0.5 - 0.15 * sh / long_[bn]) * np.sqrt(kn * sh)
+    sigma = _mode_class_sigma(s, c2n, kn, l1_b[bn], l2_b[bn], cap, closed)
+    num = np.bincount(band, weights=(weight * sigma).sum(axis=1), minlength=f_b.size)
     out: FloatArray = (num / den).reshape(shape)
     return out
