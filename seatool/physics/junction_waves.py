@@ -66,8 +66,15 @@ THETA_MAX = 0.5 * math.pi - 1e-7
 
 
 def _rotation(angle: float) -> FloatArray:
-    """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta)."""
+    """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta).
+
+    A cosine or sine below 1e-15 in magnitude is the rounding of a right angle given in
+    degrees (cos(pi/2) = 6e-17 in floating point) and is taken as exactly 0, so that the
+    stiffness entries a plate at a right angle does not touch stay empty.
+    """
     ca, sa = math.cos(angle), math.sin(angle)
+    ca = 0.0 if abs(ca) < 1e-15 else ca
+    sa = 0.0 if abs(sa) < 1e-15 else sa
     out: FloatArray = np.array(
         [[ca, sa, 0.0, 0.0], [0.0, 0.0, 1.0, 0.0], [-sa, ca, 0.0, 0.0], [0.0, 0.0, 0.0, 1.0]]
     )
@@ -103,41 +110,60 @@ def _edge_blocks(
     p: int,
     k: tuple[FloatArray, FloatArray, FloatArray],
     q: FloatArray,
+    q2: FloatArray,
 ) -> tuple[tuple[_C, ...], tuple[_C, ...], tuple[_C, ...], tuple[_C, ...], tuple[_C, _C, _C]]:
     """Wave matrices of the outgoing waves of plate ``p`` as two 2 x 2 blocks.
 
     Returns the in-plane and bending blocks of the edge stiffness ``K = F Phi^-1`` and of
     ``Phi^-1`` (entries row-wise), and the x-wavenumbers of bending, longitudinal and shear
     waves. ``k`` holds this plate's ``(k_B, k_L, k_S)`` with shape ``(B, 1)``; ``q`` is
-    ``(B, T)``.
+    ``(B, T)`` and ``q2 = q^2``.
+
+    Bending block, rows ``(w, theta)``, columns (propagating/evanescent wave ``kx_B``,
+    near field ``kx_N = -j sqrt(k_B^2 + q^2)``): ``Phi = [[1, 1], [-j kx_B, -j kx_N]]``,
+    shear forces ``j D kx (kx^2 + (2 - nu) q^2)`` and moments ``D (kx^2 + nu q^2)``
+    (Kirchhoff plate; Cremer, Heckl & Petersson 2005, ch. 3 and 5). With
+    ``a = k_B^2``, ``b = (1 - nu) q^2`` and ``g = 1/(kx_B - kx_N)`` the product
+    ``F Phi^-1`` is written out: ``K_ww = -2 j D a kx_B kx_N g``,
+    ``K_wt = K_tw = -D (kx_N (a - b) + kx_B (a + b)) g``, ``K_tt = 2 j D a g``.
+
+    In-plane block, rows ``(u, v)``, columns (longitudinal, shear): the longitudinal wave
+    moves along its wavevector ``(kx_L, q)/k_L``, the shear wave across it
+    ``(-q, kx_S)/k_S``; with ``h = 1/(kx_L kx_S + q^2)``:
+    ``K_uu = j h kx_S (C (k_L^2 - b) + 2 G h q^2)``,
+    ``K_uv = j h q (C (k_L^2 - b) - 2 G h kx_L kx_S)``,
+    ``K_vu = j h q G h (2 kx_L kx_S - k_S^2 + 2 q^2)``, ``K_vv = j h G h kx_L k_S^2``.
     """
     k_b, k_l, k_s = k
     dd = pl.bending[p][:, None]
     c = pl.membrane[p][:, None]
     gh = pl.shear[p][:, None]
     nu = pl.poisson[p][:, None]
+    kb2 = k_b**2
     kxb = outgoing_kx(k_b, q)
-    kxn = -1j * np.sqrt(k_b**2 + q**2) + 0j  # bending near field, always decaying
+    kxn = -1j * np.sqrt(kb2 + q2)  # bending near field, always decaying
     kxl = outgoing_kx(k_l, q)
     kxs = outgoing_kx(k_s, q)
-    # bending block: rows (w, theta), columns (propagating/evanescent wave, near field)
-    one = np.ones_like(kxb)
-    th_b, fw_b = _bending_block(dd, nu, kxb, q)
-    th_n, fw_n = _bending_block(dd, nu, kxn, q)
-    phi_b = (one, one, th_b, th_n)
-    frc_b = (fw_b, fw_n, dd * (kxb**2 + nu * q**2), dd * (kxn**2 + nu * q**2))
-    # in-plane block: rows (u, v), columns (longitudinal, shear); the longitudinal wave
-    # moves along its wavevector (kx, q)/k_L, the shear wave across it (-q, kx)/k_S
-    phi_i = (kxl / k_l, -q / k_s + 0j, q / k_l + 0j, kxs / k_s)
-    frc_i = (
-        1j * c * (kxl**2 + nu * q**2) / k_l,
-        -1j * 2.0 * gh * kxs * q / k_s,
-        1j * gh * 2.0 * q * kxl / k_l,
-        1j * gh * (kxs**2 - q**2) / k_s,
+    b = (1.0 - nu) * q2
+    # bending block
+    g = 1.0 / (kxb - kxn)
+    two_da = 2.0 * dd * kb2
+    k_wt = -dd * (kxn * (kb2 - b) + kxb * (kb2 + b)) * g
+    k_bend = (-1j * two_da * kxb * kxn * g, k_wt, k_wt, 1j * two_da * g)
+    inv_b = (-g * kxn, 1j * g, g * kxb, -1j * g)
+    # in-plane block
+    h = 1.0 / (kxl * kxs + q2)
+    jh = 1j * h
+    lx_s = kxl * kxs
+    cl = c * (k_l**2 - b)
+    k_in = (
+        jh * kxs * (cl + 2.0 * gh * q2),
+        jh * q * (cl - 2.0 * gh * lx_s),
+        jh * q * gh * (2.0 * lx_s - k_s**2 + 2.0 * q2),
+        jh * gh * kxl * k_s**2,
     )
-    inv_i = sa.inv2(*phi_i)
-    inv_b = sa.inv2(*phi_b)
-    return sa.mul2(frc_i, inv_i), sa.mul2(frc_b, inv_b), inv_i, inv_b, (kxb, kxl, kxs)
+    inv_i = (h * k_l * kxs, h * k_l * q, -h * k_s * q, h * k_s * kxl)
+    return k_in, k_bend, inv_i, inv_b, (kxb, kxl, kxs)
 
 
 def scatter(
@@ -272,6 +298,7 @@ def scatter_many(
         )
         raise ValueError(msg)
     q = qs[0] if len(qs) == 1 else np.concatenate(qs, axis=1)
+    q2 = q * q
     cuts = np.cumsum([0] + [x.shape[1] for x in qs])
     segs = [slice(int(cuts[i]), int(cuts[i + 1])) for i in range(len(qs))]
     n_p = plates.count
@@ -288,7 +315,7 @@ def scatter_many(
     layer: list[tuple[tuple[_C, ...], tuple[_C, ...]] | None] = []
     for p in range(n_p):
         kp = (k_all[0][p][:, None], k_all[1][p][:, None], k_all[2][p][:, None])
-        ki, kb, ii, ib, kx_p = _edge_blocks(plates, p, kp, q)
+        ki, kb, ii, ib, kx_p = _edge_blocks(plates, p, kp, q, q2)
         own.append((ki, kb))
         soft = None if compliance is None or not np.any(compliance[p]) else compliance[p]
         if soft is not None:
