@@ -87,9 +87,8 @@ def _mode_class_sigma(
     edge = np.where(ky2 < k2, edge_x, 0.0)
     if not closed:
         edge = edge + np.where(kx2 < k2, edge_y, 0.0)
-    sigma = np.where(s < k2, fast, edge)
-    sigma = np.where(np.isfinite(sigma), sigma, np.inf)
-    out: FloatArray = np.minimum(sigma, cap)
+    # capped; fmin takes the cap where sigma is not a number (0/0 at a class boundary)
+    out: FloatArray = np.fmin(np.where(s < k2, fast, edge), cap)
     return out
 
 
@@ -379,12 +378,19 @@ def radiation_efficiency_curved_panel(
             in_lattice, weight, np.where(s >= k2, weight * (1.0 - k2_membrane / k2), 0.0)
         )
     den = np.bincount(band, weights=weight.sum(axis=1), minlength=f_b.size)
-    # sigma on every node of the non-empty segments (zero-weight nodes add nothing); the
-    # per-band data broadcast along the segment's nodes
-    kn = np.sqrt(k2)
-    sh = short[bn]
-    cap = (0.5 - 0.15 * sh / long_[bn]) * np.sqrt(kn * sh)
-    sigma = _mode_class_sigma(s, c2n, kn, l1_b[bn], l2_b[bn], cap, closed)
-    num = np.bincount(band, weights=(weight * sigma).sum(axis=1), minlength=f_b.size)
+    # sigma on the segments that hold a mode of non-zero modal sigma (fast or edge class;
+    # corner modes radiate nothing here); zero-weight nodes add nothing. The per-band data
+    # broadcast along the segment's nodes.
+    kx2 = s * c2n
+    radiating = (s < k2) | (s - kx2 < k2)
+    if not closed:
+        radiating |= kx2 < k2
+    rows = np.flatnonzero(radiating.any(axis=1) & (weight > 0.0).any(axis=1))
+    bn_r = bn[rows]
+    kn = np.sqrt(k2[rows])
+    sh = short[bn_r]
+    cap = (0.5 - 0.15 * sh / long_[bn_r]) * np.sqrt(kn * sh)
+    sigma = _mode_class_sigma(s[rows], c2n[rows], kn, l1_b[bn_r], l2_b[bn_r], cap, closed)
+    num = np.bincount(band[rows], weights=(weight[rows] * sigma).sum(axis=1), minlength=f_b.size)
     out: FloatArray = (num / den).reshape(shape)
     return out
