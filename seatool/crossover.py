@@ -306,6 +306,14 @@ class LowFrequencyResult:
     table: pd.DataFrame
     notes: tuple[str, ...]
 
+    def box_rows(self, requests: Sequence[LowFrequency]) -> pd.DataFrame:
+        """The rows of each box's cavity and panels, box after box (``requests`` in the
+        order the boxes were solved), as one table."""
+        return pd.concat(
+            [b.table[b.table["subsystem"].isin([rq.cavity, *rq.panels])]
+             for rq, b in zip(requests, self.boxes, strict=True)]
+        )  # fmt: skip
+
 
 def solve_low_frequency(
     model: Model, sea: Result | None = None, requests: Sequence[LowFrequency] | None = None

@@ -16,17 +16,18 @@ from __future__ import annotations
 import os
 from collections.abc import Mapping, Sequence
 from pathlib import Path
-from typing import IO, Any
+from typing import IO, TYPE_CHECKING, Any
 
-import networkx as nx
 import numpy as np
-import pandas as pd
 
-from .analysis.confidence import band_limits
+from . import analysis
 from .errors import InputError, Problem
 from .levels import CAUTION, power_level
 from .outputs import output_file
 from .results import Result
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = [
     "PALETTE",
@@ -315,7 +316,7 @@ def _steps(bands: Any, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 
 def _shade_band(ax: Any, bands: Any, confidence: pd.DataFrame, name: str, colour: str) -> None:
     """Shade the 5-95 % confidence band of ``name`` (a confidence_bands table)."""
-    lo, hi = band_limits(confidence, name, bands.nominal)
+    lo, hi = analysis.confidence.band_limits(confidence, name, bands.nominal)
     if not np.any(np.isfinite(lo)):
         return
     x, y_lo = _steps(bands, lo)
@@ -434,6 +435,8 @@ def plot_energy_flow(
     model = result.model
     power = result.solution.connection_power
     p = power.sum(axis=1) if band is None else power[:, band]
+    import networkx as nx  # heavy, and needed by this figure only (not at start-up)
+
     g = nx.Graph()
     g.add_nodes_from(model.names)
     for c in model.connections:

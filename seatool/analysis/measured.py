@@ -22,12 +22,14 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
 import numpy.typing as npt
 import pandas as pd
 
 from .. import levels
+from ..errors import InputError, Problem
 
 __all__ = [
     "SENSITIVITY_LIMIT",
@@ -35,6 +37,7 @@ __all__ = [
     "energy_from_level",
     "estimate_toml",
     "power_injection",
+    "read_measurements",
 ]
 
 Array = npt.NDArray[np.float64]
@@ -442,3 +445,81 @@ def _key(name: str) -> str:
     if name and all(c.isalnum() or c in "_-" for c in name):
         return name
     return '"' + name.replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+
+# the measurements file of `seatool loss-factors`
+COLUMNS = ("band_hz", "driven", "input_W", "subsystem", "energy_J")
+
+
+def read_measurements(path: Path) -> tuple[np.ndarray, np.ndarray, np.ndarray, list[str]]:
+    """Bands (B,), input powers (N, B), energies (N, N, B) and names from the CSV."""
+    file = str(path)
+    try:
+        df = pd.read_csv(path)
+    except FileNotFoundError:
+        raise InputError([Problem(file, "", "file not found")]) from None
+    except (OSError, ValueError, pd.errors.ParserError) as exc:
+        raise InputError([Problem(file, "", f"cannot read as CSV: {exc}")]) from None
+    missing = [c for c in COLUMNS if c not in df.columns]
+    if missing:
+        raise InputError(
+            [
+                Problem(
+                    file,
+                    "header",
+                    f"missing column(s) {', '.join(missing)}; expected {','.join(COLUMNS)}",
+                )
+            ]
+        )
+    for col in ("band_hz", "input_W", "energy_J"):
+        vals = pd.to_numeric(df[col], errors="coerce")
+        bad = vals.isna() | ~np.isfinite(vals) | (vals < 0) | ((vals <= 0) & (col == "band_hz"))
+        if bad.any():
+            row = int(np.flatnonzero(bad.to_numpy())[0]) + 2
+            raise InputError(
+                [Problem(file, f"line {row}, {col}", "must be a finite number >= 0 (band_hz > 0)")]
+            )
+        df[col] = vals
+    names = sorted(set(df["subsystem"].astype(str)))
+    drivers = sorted(set(df["driven"].astype(str)))
+    if drivers != names:
+        raise InputError(
+            [
+                Problem(
+                    file,
+                    "driven",
+                    "every measured subsystem must be driven once: driven "
+                    f"{drivers}, measured {names}",
+                )
+            ]
+        )
+    bands = np.sort(df["band_hz"].unique())
+    n, nb = len(names), bands.size
+    idx = {s: i for i, s in enumerate(names)}
+    bidx = {b: j for j, b in enumerate(bands)}
+    energy = np.full((n, n, nb), np.nan)
+    power = np.full((n, nb), np.nan)
+    for sub, drv, fb, e_j, p_w in zip(
+        df["subsystem"].astype(str),
+        df["driven"].astype(str),
+        df["band_hz"],
+        df["energy_J"],
+        df["input_W"],
+        strict=True,
+    ):
+        i, k, j = idx[sub], idx[drv], bidx[fb]
+        energy[i, k, j] = e_j
+        power[k, j] = p_w
+    if np.isnan(energy).any():
+        i, k, j = (int(x[0]) for x in np.nonzero(np.isnan(energy)))
+        raise InputError(
+            [
+                Problem(
+                    file,
+                    "rows",
+                    f"no energy of {names[i]} with {names[k]} driven at "
+                    f"{bands[j]:g} Hz; every subsystem is measured in every experiment",
+                )
+            ]
+        )
+    return bands, power, energy, names

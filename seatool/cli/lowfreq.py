@@ -7,7 +7,6 @@ import argparse
 from pathlib import Path
 
 import numpy as np
-import pandas as pd
 
 import seatool
 
@@ -38,10 +37,8 @@ def _cmd(args: argparse.Namespace) -> int:
         raise InputError([Problem(args.model, "low_frequency", "add a [low_frequency.CAVITY] "
                                   "table naming a cavity and its panels")])  # fmt: skip
     merged = seatool.crossover.solve_low_frequency(model)
-    tables = []
     for rq, res in zip(requests, merged.boxes, strict=True):
         t = res.table[res.table["subsystem"].isin([rq.cavity, *rq.panels])]
-        tables.append(t)
         print(model.title or model.source)
         bands = model.bands
         for name in [rq.cavity, *rq.panels]:
@@ -61,7 +58,7 @@ def _cmd(args: argparse.Namespace) -> int:
             seatool.crossover.plot_crossover(res, target)
             print(f"wrote {target}")
     if csv_path is not None:
-        seatool.results.write_csv(pd.concat(tables), csv_path)
+        seatool.results.write_csv(merged.box_rows(requests), csv_path)
         print(f"wrote {csv_path}")
     print_caution()
     return 0

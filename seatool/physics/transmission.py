@@ -28,7 +28,6 @@ import math
 
 import numpy as np
 import numpy.typing as npt
-from scipy import integrate
 
 from seatool.physics.radiation_forced import forced_radiation_efficiency_en12354
 
@@ -219,6 +218,10 @@ def transmission_infinite_panel_diffuse(
     if not 0.0 < theta_limit <= 0.5 * math.pi + 1e-12:
         msg = f"theta_limit must lie in (0, pi/2], got {theta_limit!r}"
         raise ValueError(msg)
+    # heavy (about 0.5 s: scipy.integrate imports scipy.optimize) and needed by this
+    # function only, so imported when it runs rather than when a model file is read
+    from scipy import integrate
+
     u_lim = math.sin(theta_limit) ** 2
     out = np.empty(f_a.shape, dtype=np.float64)
     for idx in np.ndindex(f_a.shape):
