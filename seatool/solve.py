@@ -19,7 +19,9 @@ lets the exact 1-norm of the inverse be read from one transposed solve
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 import numpy.typing as npt
@@ -34,6 +36,7 @@ __all__ = [
     "FreeBlock",
     "SolveError",
     "assemble",
+    "condition_bound",
     "free_block_matrices",
     "solve",
     "solve_free",
@@ -150,16 +153,30 @@ def assemble(model: Model) -> Assembly:
 
 @dataclass(frozen=True)
 class Solution:
-    """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people."""
+    """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people.
+
+    ``condition`` (B,) is the 1-norm condition number of each band's solved block
+    (:func:`condition_numbers`); on the iterative route it is computed when first read,
+    since :func:`solve` needs it only where the cheap bound ``condition_bound`` exceeds
+    :data:`CONDITION_NOTE`.
+    """
 
     energy: Array  # (N, B) [J]
     input_power: Array  # (N, B) [W] external input (held subsystems: power to hold them)
     dissipated_power: Array  # (N, B) [W] damping loss (sinks: power absorbed)
     connection_power: Array  # (C, B) [W] net power from a to b of each connection
     residual: Array  # (B,) relative conservation residual
-    condition: Array  # (B,) 1-norm condition number of the solved block
+    condition_bound: Array  # (B,) upper bound of the condition number (condition_bound())
     notes: tuple[str, ...]
     method: str = "lu"  # how the bands were solved (see seatool.bandsolve.spd_solve)
+    condition_of: Callable[[], Array] | None = field(default=None, repr=False, compare=False)
+
+    @cached_property
+    def condition(self) -> Array:
+        """1-norm condition number of the solved block of every band (B,)."""
+        if self.condition_of is None:
+            return np.ones_like(self.residual)
+        return self.condition_of()
 
 
 def _check_singular(model: Model, asm: Assembly) -> None:
@@ -304,6 +321,52 @@ def solve_free(
     return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
 
 
+def condition_bound(mats: BandMatrices, n_free: Array) -> tuple[Array, Array]:
+    """``||L_j||_1`` and an upper bound of the condition number of every band (B,), (B,).
+
+    ``L = C diag(1/n)`` is the free block of the power balance. With the column excess
+    ``delta_i = |L_ii| - sum_(k != i) |L_ki|`` (for the power balance: the damping loss
+    factor of subsystem i plus its coupling loss factors into held subsystems), a matrix
+    whose columns are strictly diagonally dominant has ``||L^-1||_1 <= 1 / min(delta)``
+    (Varah 1975, applied to ``L^T``), so ``cond_1(L) <= ||L||_1 / min(delta)``; infinite
+    where some ``delta_i <= 0``.
+
+    References
+    ----------
+    .. [1] Varah, J.M. (1975). "A lower bound for the smallest singular value of a
+       matrix." Linear Algebra and its Applications 11(1), 3-5 (the bound
+       ``||A^-1||_inf <= 1 / min_i (|a_ii| - sum_(j != i) |a_ij|)``).
+    """
+    col = mats.column_of_entry()
+    absv = np.abs(mats.values) / n_free[col]
+    col_abs = np.zeros(n_free.shape)
+    add_rows(col_abs, col, absv)
+    excess = 2.0 * mats.diagonal() / n_free - col_abs
+    norm = np.asarray(col_abs.max(axis=0), dtype=float)
+    low = excess.min(axis=0)
+    with np.errstate(divide="ignore"):
+        bound = np.where(low > 0, norm / np.where(low > 0, low, 1.0), np.inf)
+    return norm, np.asarray(bound, dtype=float)
+
+
+def _condition_vectors(
+    model: Model,
+    asm: Assembly,
+    free: npt.NDArray[np.int64],
+    mats: BandMatrices,
+    n_free: Array,
+    bands: npt.NDArray[np.int64],
+) -> Array:
+    """``L^-T 1 = C^-1 n`` of the bands ``bands`` (nf, len(bands)); for an M-matrix its
+    largest entry is ``||L^-1||_1`` exactly."""
+    sub = BandMatrices(mats.indptr, mats.indices, mats.values[:, bands])
+    try:
+        y, _ = solve_free(sub, n_free[:, bands, None], CONDITION_VECTOR_TOLERANCE)
+    except SingularBandError as exc:
+        raise _singular(model, asm, free, int(bands[exc.band])) from None
+    return y[:, :, 0]
+
+
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
     """Solve the SEA power balance of ``model`` in every band.
 
@@ -319,29 +382,40 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     rhs = blk.rhs(asm.power, asm.held_energy)
 
     energy = asm.held_energy.copy()
-    condition = np.ones(nb)
+    bound = np.ones(nb)
+    condition_of: Callable[[], Array] | None = None
     notes: list[str] = []
     method = "none (every subsystem is held)"
     if nf:
         n_free, mats = blk.n_free, blk.mats  # C = L_UU diag(n_U), one pattern for all bands
-        col = mats.column_of_entry()
-        norm_l = np.zeros((nf, nb))
-        add_rows(norm_l, col, np.abs(mats.values) / n_free[col])
-        # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
+        norm_l, bound = condition_bound(mats, n_free)
+        # Small models: the second column L^-T 1 = C^-1 n costs one more substitution with
+        # the same factors; large ones compute it only where the bound does not settle it.
+        eager = nf <= ITERATIVE_ABOVE
+        cols = [rhs, n_free] if eager else [rhs]
         try:
             xy, method = solve_free(
                 mats,
-                np.stack([rhs, n_free], axis=2),
-                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE],
+                np.stack(cols, axis=2),
+                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE][: len(cols)],
             )
         except SingularBandError as exc:
             raise _singular(model, asm, free, exc.band) from None
-        col_sums = xy[:, :, 1]
-        condition = norm_l.max(axis=0) * col_sums.max(axis=0)
-        bad = ~np.isfinite(condition) | (condition > CONDITION_LIMIT) | np.any(col_sums < 0, axis=0)
+        known = np.full(nb, np.nan)
+        col_sums = np.zeros((nf, nb))
+        check = np.arange(nb) if eager else np.flatnonzero(~(bound <= CONDITION_NOTE))
+        if eager:
+            col_sums = xy[:, :, 1]
+        elif check.size:
+            col_sums[:, check] = _condition_vectors(model, asm, free, mats, n_free, check)
+        known[check] = norm_l[check] * col_sums[:, check].max(axis=0)
+        bad = np.zeros(nb, dtype=bool)
+        bad[check] = ~np.isfinite(known[check]) | (known[check] > CONDITION_LIMIT) | np.any(
+            col_sums[:, check] < 0, axis=0
+        )
         if bad.any():
             j = int(np.flatnonzero(bad)[0])
-            cond = condition[j]
+            cond = known[j]
             worst = np.argsort(col_sums[:, j])[::-1][:3]
             names = ", ".join(model.subsystems[free[i]].name for i in worst)
             raise SolveError(
@@ -350,12 +424,21 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
                 "damping and coupling loss factors"
             )
         energy[free] = n_free * xy[:, :, 0]
-        worst_band = int(np.argmax(condition))
-        if condition[worst_band] > CONDITION_NOTE:
-            notes.append(
-                f"condition number {condition[worst_band]:.2g} in band "
-                f"{model.bands.label(worst_band)}: results are sensitive to rounding"
-            )
+        if check.size:
+            worst_band = int(check[np.argmax(known[check])])
+            if known[worst_band] > CONDITION_NOTE:
+                notes.append(
+                    f"condition number {known[worst_band]:.2g} in band "
+                    f"{model.bands.label(worst_band)}: results are sensitive to rounding"
+                )
+
+        def condition_of() -> Array:
+            rest = np.flatnonzero(np.isnan(known))
+            out = known.copy()
+            if rest.size:
+                y = _condition_vectors(model, asm, free, mats, n_free, rest)
+                out[rest] = norm_l[rest] * y.max(axis=0)
+            return out
 
     if np.any(energy < 0):
         i, j = (int(v) for v in np.unravel_index(int(np.argmin(energy)), energy.shape))
@@ -395,7 +478,8 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
         dissipated_power=dissipated,
         connection_power=connection_power,
         residual=residual,
-        condition=condition,
+        condition_bound=bound,
         notes=tuple(notes),
         method=method,
+        condition_of=condition_of if nf else None,
     )
