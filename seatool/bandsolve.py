@@ -43,6 +43,7 @@ ill-conditioned systems and energies spanning hundreds of decibels.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any
 
 import numpy as np
@@ -116,18 +117,28 @@ class BandMatrices:
 
     @classmethod
     def from_entries(
-        cls, nf: int, rows: IntArray, cols: IntArray, vals: Array
+        cls,
+        nf: int,
+        rows: IntArray,
+        cols: IntArray,
+        vals: Array,
+        source: IntArray | None = None,
     ) -> BandMatrices:
-        """Sum entries ``vals`` (K, B) at ``(rows, cols)`` (duplicates add) into the pattern."""
+        """Sum entries at ``(rows, cols)`` (duplicates add) into the pattern.
+
+        The values of entry k are ``vals[k]`` (``vals`` (K, B)), or ``vals[source[k]]`` if
+        ``source`` is given (entries sharing a row of ``vals``, e.g. both triangles).
+        """
         order = np.lexsort((rows, cols))
         rs, cs = rows[order], cols[order]
         start = np.ones(rs.size, dtype=bool)
         start[1:] = (rs[1:] != rs[:-1]) | (cs[1:] != cs[:-1])
         first = np.flatnonzero(start)
+        take = order if source is None else source[order]
         if first.size == order.size:
-            values = vals[order]  # no repeated entry (no parallel connections)
+            values = vals[take]  # no repeated entry (no parallel connections)
         else:
-            values = np.add.reduceat(vals[order], first, axis=0) if first.size else vals[:0]
+            values = np.add.reduceat(vals[take], first, axis=0) if first.size else vals[:0]
         indptr = np.zeros(nf + 1, dtype=np.int64)
         np.cumsum(np.bincount(cs[first], minlength=nf), out=indptr[1:])
         return cls(indptr=indptr, indices=rs[first].astype(np.int64), values=values)
@@ -139,54 +150,63 @@ class BandMatrices:
             (np.ascontiguousarray(self.values[:, j]), self.indices, self.indptr), shape=(n, n)
         )
 
+    @cached_property
+    def _col(self) -> IntArray:
+        return np.repeat(np.arange(self.nf, dtype=np.int64), np.diff(self.indptr))
+
+    @cached_property
+    def _on(self) -> npt.NDArray[np.bool_]:
+        return np.asarray(self.indices == self._col)
+
     def column_of_entry(self) -> IntArray:
-        return np.repeat(np.arange(self.nf), np.diff(self.indptr))
+        """Column of every stored entry (nnz,)."""
+        return self._col
 
     def diagonal(self) -> Array:
         """Diagonal entries (nf, B)."""
-        col = self.column_of_entry()
-        on = self.indices == col
+        return self._diagonal.copy()
+
+    @cached_property
+    def _diagonal(self) -> Array:
         d = np.zeros((self.nf, self.nb))
-        d[col[on]] = self.values[on]
+        d[self._col[self._on]] = self.values[self._on]
         return d
 
     def m_matrix_signs(self) -> bool:
         """Positive diagonal and non-positive off-diagonal entries in every band."""
-        col = self.column_of_entry()
-        on = self.indices == col
-        return bool(np.all(self.values[on] > 0) and np.all(self.values[~on] <= 0))
-
-    def one_norm(self) -> Array:
-        """||C_j||_1 of every band (B,)."""
-        out = np.zeros((self.nf, self.nb))
-        add_rows(out, self.column_of_entry(), np.abs(self.values))
-        return np.asarray(out.max(axis=0), dtype=float)
+        on = self._on
+        return bool(np.all(self._diagonal > 0) and on.sum() == self.nf
+                    and np.all(self.values[~on] <= 0))
 
 
 class _Scaled:
-    """The Jacobi-scaled matrices ``S C_j S`` (``S = diag(C_j)^-1/2``) of every band, band
-    by band contiguous, and the weights of the balance check in scaled variables.
+    """The Jacobi-scaled matrices ``S C_j S = I + N_j`` (``S = diag(C_j)^-1/2``) of every
+    band: the off-diagonal parts ``N_j`` band by band contiguous, and the weights of the
+    balance check in scaled variables.
 
     With ``x = s y``: the throughput of subsystem i is ``C_ii x_i = y_i / s_i`` and its
     dissipation ``d_i x_i = d_i s_i y_i`` (``d = C 1``).
     """
 
     def __init__(self, mats: BandMatrices, diag: Array) -> None:
-        self.nf, self.nnz = mats.nf, int(mats.indptr[-1])
+        off = ~mats._on
+        col = mats.column_of_entry()[off]
+        rows = mats.indices[off]
+        self.nf, self.nnz = mats.nf, int(rows.size)
         self.scale = 1.0 / np.sqrt(diag)  # (nf, B)
-        col = mats.column_of_entry()
         s = self.scale
-        self.data = np.ascontiguousarray((mats.values * s[mats.indices] * s[col]).T)  # (B, nnz)
+        self.data = np.ascontiguousarray((mats.values[off] * s[rows] * s[col]).T)  # (B, nnz)
         d = np.zeros((mats.nf, mats.nb))
         add_rows(d, mats.indices, mats.values)
         self.thr_w = np.ascontiguousarray((1.0 / s).T)  # (B, nf)
         self.dis_w = np.ascontiguousarray((np.maximum(d, 0.0) * s).T)
-        self.indices = mats.indices.astype(np.int32)
-        self.indptr = mats.indptr.astype(np.int32)
+        self.indices = rows
+        self.indptr = np.zeros(mats.nf + 1, dtype=np.int64)
+        np.cumsum(np.bincount(col, minlength=mats.nf), out=self.indptr[1:])
         self._pattern: dict[int, tuple[npt.NDArray[np.signedinteger[Any]], ...]] = {}
 
     def block(self, start: int, stop: int) -> sp.csr_matrix:
-        """Block-diagonal matrix of bands ``start:stop`` (band-major unknowns).
+        """Block-diagonal matrix of ``N_j``, bands ``start:stop`` (band-major unknowns).
 
         Built as CSR from the CSC arrays, i.e. the transpose: the same matrix up to
         rounding (C is symmetric by reciprocity), and a row-wise product is the faster one.
@@ -203,6 +223,13 @@ class _Scaled:
         indices, indptr = self._pattern[k]
         data = self.data[start:stop].ravel()
         return sp.csr_matrix((data, indices, indptr), shape=(k * nf, k * nf), copy=False)
+
+
+def _apply(off: sp.csr_matrix, v: Array) -> Array:
+    """``(I + N) v`` for the scaled matrix with off-diagonal part ``off`` (flat vectors)."""
+    out = off @ v
+    out += v
+    return np.asarray(out)
 
 
 class _Check:
@@ -241,7 +268,7 @@ def _cg(op: sp.csr_matrix, rhs: Array, x0: Array, rtol: float, maxiter: int, che
     if k == 1:
         return _cg_one(op, rhs[0], x0[0], rtol, maxiter, check)[None, :]
     x = x0.copy()
-    r = rhs - (op @ x.ravel()).reshape(k, nf)
+    r = rhs - _apply(op, x.ravel()).reshape(k, nf)
     p = r.copy()
     rr = np.einsum("ij,ij->i", r, r)
     stop = (rtol * rtol) * np.einsum("ij,ij->i", rhs, rhs)
@@ -249,7 +276,7 @@ def _cg(op: sp.csr_matrix, rhs: Array, x0: Array, rtol: float, maxiter: int, che
     for _ in range(maxiter):
         if not active.any():
             break
-        q = (op @ p.ravel()).reshape(k, nf)
+        q = _apply(op, p.ravel()).reshape(k, nf)
         pq = np.einsum("ij,ij->i", p, q)
         ok = active & (pq > 0)
         alpha = np.divide(rr, pq, out=np.zeros(k), where=ok)
@@ -270,7 +297,7 @@ def _cg(op: sp.csr_matrix, rhs: Array, x0: Array, rtol: float, maxiter: int, che
 def _cg_one(op: sp.csr_matrix, b: Array, x0: Array, rtol: float, maxiter: int, check: _Check) -> Array:
     """:func:`_cg` for one system (1-D vectors, level-1 BLAS updates in place)."""
     x = np.array(x0, dtype=np.float64)
-    r = b - op @ x
+    r = b - _apply(op, x)
     p = r.copy()
     rr = float(_ddot(r, r))
     stop = rtol * rtol * float(_ddot(b, b))
@@ -278,7 +305,7 @@ def _cg_one(op: sp.csr_matrix, b: Array, x0: Array, rtol: float, maxiter: int, c
     for _ in range(maxiter):
         if rr <= stop:
             break
-        q = op @ p
+        q = _apply(op, p)
         pq = float(_ddot(p, q))
         if not pq > 0:
             break
@@ -358,7 +385,7 @@ def _solve_group(
     y0[easy] = b[easy] * thr_w[easy] / dis_w[easy]
     y = _cg(op, b, y0, CG_RTOL, CG_MAXITER, check)
     np.maximum(y, 0.0, out=y)
-    res = b - (op @ y.ravel()).reshape(k, nf)
+    res = b - _apply(op, y.ravel()).reshape(k, nf)
     good = check(y, res)
     live = ~good
     rho = _rho(y, res)
@@ -367,7 +394,7 @@ def _solve_group(
         before = rho
         for _ in range(_SWEEPS_PER_CHECK):
             y += res * live[:, None]
-            res = b - (op @ y.ravel()).reshape(k, nf)
+            res = b - _apply(op, y.ravel()).reshape(k, nf)
         sweeps += _SWEEPS_PER_CHECK
         rho = _rho(y, res)
         good = check(y, res)

@@ -77,6 +77,8 @@ class Assembly:
     power : ndarray (N, B)
         Input powers from power excitations [W].
     omega : ndarray (B,)
+    modal : ndarray (N, B) or None
+        Modal densities [1/Hz] (sinks: infinite).
     """
 
     eta_ab: Array
@@ -89,6 +91,7 @@ class Assembly:
     held_energy: Array
     power: Array
     omega: Array
+    modal: Array | None = None
 
     @property
     def shape(self) -> tuple[int, int]:
@@ -148,6 +151,7 @@ def assemble(model: Model) -> Assembly:
         held_energy=held_energy,
         power=power,
         omega=model.bands.omega.copy(),
+        modal=modal,
     )
 
 
@@ -229,15 +233,28 @@ def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) 
 def free_block_matrices(
     asm: Assembly, pos: npt.NDArray[np.int64], n_free: Array
 ) -> BandMatrices:
-    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns."""
+    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns.
+
+    ``C_ii = L_ii n_i``; a connection between free subsystems a and b gives
+    ``C_ab = C_ba = -eta_ab n_a`` (``= -eta_ba n_b``, reciprocity), one value for both
+    triangles, so C is symmetric to the last bit.
+    """
     nf = n_free.shape[0]
+    nb = n_free.shape[1] if n_free.ndim == 2 else asm.diag.shape[1]
     a, b = asm.a, asm.b
-    ff = (pos[a] >= 0) & (pos[b] >= 0)
+    ff = np.flatnonzero((pos[a] >= 0) & (pos[b] >= 0))
+    pa, pb = pos[a[ff]], pos[b[ff]]
+    m = ff.size
     free = np.flatnonzero(pos >= 0)
-    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-    vals = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
-    return BandMatrices.from_entries(nf, rows, cols, vals * n_free[cols])
+    src = np.empty((nf + m, nb))
+    np.multiply(asm.diag[free], n_free, out=src[:nf])
+    np.multiply(asm.eta_ab[ff], n_free[pa], out=src[nf:])
+    np.negative(src[nf:], out=src[nf:])
+    unknowns = np.arange(nf, dtype=np.int64)
+    links = np.arange(nf, nf + m, dtype=np.int64)
+    rows = np.concatenate([unknowns, pa, pb])
+    cols = np.concatenate([unknowns, pb, pa])
+    return BandMatrices.from_entries(nf, rows, cols, src, np.concatenate([unknowns, links, links]))
 
 
 @dataclass(frozen=True)
@@ -277,7 +294,9 @@ class FreeBlock:
         free = np.flatnonzero(~asm.held).astype(np.int64)
         pos = np.full(n, -1, dtype=np.int64)
         pos[free] = np.arange(free.size)
-        if free.size:
+        if asm.modal is not None:
+            n_free = asm.modal[free]
+        elif free.size:
             n_free = np.array([model.subsystems[i].modal_density for i in free], dtype=float)
         else:
             n_free = np.zeros((0, nb))
