@@ -174,7 +174,10 @@ def _rows(
     nb = len(model.bands)
     er = g.receiver_energy
     k = len(names)
-    rel = np.vstack(list(d_e)) if len(d_e) else np.zeros((0, nb))
+    if isinstance(d_e, np.ndarray):
+        rel = d_e
+    else:
+        rel = np.vstack(d_e) if d_e else np.zeros((0, nb))
     with np.errstate(divide="ignore", invalid="ignore"):
         rel = np.where(er > 0, rel / er, np.nan)
     dl = DB_PER_NEPER * rel
