@@ -340,15 +340,16 @@ def solve_free(
     return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
 
 
-def condition_bound(mats: BandMatrices, n_free: Array) -> tuple[Array, Array]:
+def condition_bound(blk: FreeBlock) -> tuple[Array, Array]:
     """``||L_j||_1`` and an upper bound of the condition number of every band (B,), (B,).
 
-    ``L = C diag(1/n)`` is the free block of the power balance. With the column excess
-    ``delta_i = |L_ii| - sum_(k != i) |L_ki|`` (for the power balance: the damping loss
-    factor of subsystem i plus its coupling loss factors into held subsystems), a matrix
-    whose columns are strictly diagonally dominant has ``||L^-1||_1 <= 1 / min(delta)``
-    (Varah 1975, applied to ``L^T``), so ``cond_1(L) <= ||L||_1 / min(delta)``; infinite
-    where some ``delta_i <= 0``.
+    ``L = L_UU`` is the free block of the power balance. Its column i holds the total loss
+    factor ``L_ii`` and the coupling loss factors from i to the other free subsystems
+    (negative); their sum, the column excess ``delta_i = |L_ii| - sum_(k != i) |L_ki|``, is
+    the damping loss factor of i plus its coupling loss factors into held subsystems
+    (computed as that sum, without cancellation). A matrix whose columns are strictly
+    diagonally dominant has ``||L^-1||_1 <= 1 / min(delta)`` (Varah 1975, applied to
+    ``L^T``), so ``cond_1(L) <= ||L||_1 / min(delta)``; infinite where ``min(delta) <= 0``.
 
     References
     ----------
@@ -356,11 +357,14 @@ def condition_bound(mats: BandMatrices, n_free: Array) -> tuple[Array, Array]:
        matrix." Linear Algebra and its Applications 11(1), 3-5 (the bound
        ``||A^-1||_inf <= 1 / min_i (|a_ii| - sum_(j != i) |a_ij|)``).
     """
-    col = mats.column_of_entry()
-    absv = np.abs(mats.values) / n_free[col]
-    col_abs = np.zeros(n_free.shape)
-    add_rows(col_abs, col, absv)
-    excess = 2.0 * mats.diagonal() / n_free - col_abs
+    asm, pos = blk.asm, blk.pos
+    a, b = asm.a, asm.b
+    excess = np.array(asm.damping[blk.free])
+    to_held = (pos[a] >= 0) & asm.held[b]
+    add_rows(excess, pos[a[to_held]], asm.eta_ab[to_held])
+    from_held = (pos[b] >= 0) & asm.held[a]
+    add_rows(excess, pos[b[from_held]], asm.eta_ba[from_held])
+    col_abs = 2.0 * asm.diag[blk.free] - excess
     norm = np.asarray(col_abs.max(axis=0), dtype=float)
     low = excess.min(axis=0)
     with np.errstate(divide="ignore"):
@@ -407,7 +411,7 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     method = "none (every subsystem is held)"
     if nf:
         n_free, mats = blk.n_free, blk.mats  # C = L_UU diag(n_U), one pattern for all bands
-        norm_l, bound = condition_bound(mats, n_free)
+        norm_l, bound = condition_bound(blk)
         # Small models: the second column L^-T 1 = C^-1 n costs one more substitution with
         # the same factors; large ones compute it only where the bound does not settle it.
         eager = nf <= ITERATIVE_ABOVE
