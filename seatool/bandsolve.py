@@ -344,15 +344,15 @@ def _within(res: Array, bound: Array) -> npt.NDArray[np.bool_]:
     return np.asarray(np.all(np.abs(res) <= bound, axis=1))
 
 
-def _groups(nf: int, nnz: int, nb: int) -> list[tuple[int, int]]:
-    """Bands solved together: as many as fit in :data:`GROUP_BYTES` (at least one)."""
+def _groups(nf: int, nnz: int, nb: int, group_bytes: int) -> list[tuple[int, int]]:
+    """Bands solved together: as many as fit in ``group_bytes`` (at least one)."""
     per_band = 12 * nnz + 8 * 8 * nf  # entries and their index, about eight work vectors
-    k = max(1, min(nb, GROUP_BYTES // max(per_band, 1)))
+    k = max(1, min(nb, group_bytes // max(per_band, 1)))
     return [(s, min(nb, s + k)) for s in range(0, nb, k)]
 
 
 def _iterative(
-    mats: BandMatrices, rhs: Array, tol: Array, diag: Array
+    mats: BandMatrices, rhs: Array, tol: Array, diag: Array, group_bytes: int
 ) -> tuple[Array, npt.NDArray[np.bool_]]:
     """CG + Jacobi sweeps for all bands; returns x (nf, B, k) and which bands passed (B,)."""
     nf, nb, ncol = rhs.shape
@@ -361,7 +361,7 @@ def _iterative(
     b_all = rhs.transpose(2, 1, 0) * sc.scale.T
     y_all = np.empty_like(b_all)
     passed = np.ones(nb, dtype=bool)
-    for start, stop in _groups(nf, sc.nnz, nb):
+    for start, stop in _groups(nf, sc.nnz, nb, group_bytes):
         op = sc.block(start, stop)
         for c in range(ncol):
             y, good = _solve_group(
@@ -370,7 +370,7 @@ def _iterative(
             passed[start:stop] &= good
             y_all[c, start:stop] = y
     y_all *= sc.scale.T
-    return np.ascontiguousarray(y_all.transpose(2, 1, 0)), passed
+    return y_all.transpose(2, 1, 0), passed  # a view (nf, B, k)
 
 
 def _solve_group(
@@ -435,6 +435,7 @@ def spd_solve(
     tol: npt.ArrayLike = 1e-9,
     *,
     iterative_above: int,
+    group_bytes: int | None = None,
 ) -> tuple[Array, str]:
     """Solve ``C_j x = rhs[:, j, c]`` for every band j and column c.
 
@@ -448,6 +449,9 @@ def spd_solve(
         Target relative accuracy of each column (see the module notes for the check).
     iterative_above : int
         Try the iterative method above this many unknowns.
+    group_bytes : int, optional
+        Size of the groups of bands the iterative method solves together (default
+        :data:`GROUP_BYTES`; many small systems, e.g. Monte Carlo samples, gain from more).
 
     Returns
     -------
@@ -466,7 +470,8 @@ def spd_solve(
     todo = np.arange(nb)
     method = "lu"
     if nf > iterative_above and np.all(rhs >= 0) and mats.m_matrix_signs():
-        x, passed = _iterative(mats, rhs, tol_c, mats.diagonal())
+        gb = GROUP_BYTES if group_bytes is None else group_bytes
+        x, passed = _iterative(mats, rhs, tol_c, mats.diagonal(), gb)
         todo = np.flatnonzero(~passed)
         method = "iterative"
         if todo.size:

@@ -333,11 +333,16 @@ class FreeBlock:
 
 
 def solve_free(
-    mats: BandMatrices, rhs: Array, tol: npt.ArrayLike | None = None
+    mats: BandMatrices,
+    rhs: Array,
+    tol: npt.ArrayLike | None = None,
+    group_bytes: int | None = None,
 ) -> tuple[Array, str]:
     """:func:`seatool.bandsolve.spd_solve` with the solver's settings (read at call time)."""
     tol = ENERGY_TOLERANCE if tol is None else tol
-    return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
+    return spd_solve(
+        mats, rhs, tol, iterative_above=ITERATIVE_ABOVE, group_bytes=group_bytes
+    )
 
 
 def condition_bound(blk: FreeBlock) -> tuple[Array, Array]:

@@ -46,13 +46,14 @@ import scipy.sparse as sp
 from threadpoolctl import threadpool_limits
 
 from .. import levels
+from ..bandsolve import BandMatrices, SingularBandError
 from ..errors import InputError, Problem
 from ..kinds.spreads import read_uncertainty
 from ..levels import db, db_to_ratio
 from ..model import Model, Uncertain
 from ..modelfile import build
 from ..results import Result
-from ..solve import SolveError, assemble
+from ..solve import ENERGY_TOLERANCE, ITERATIVE_ABOVE, SolveError, assemble, solve_free
 from ..solve import solve as core_solve
 from ._keypath import read_data, with_value
 from ._system import level_offset, validity_columns
@@ -70,6 +71,9 @@ Array = npt.NDArray[np.float64]
 
 #: Largest number of unknowns solved with dense batched solves.
 DENSE_LIMIT = 400
+#: Samples of one band solved together by the iterative method: larger groups than the
+#: solver's bands (many small systems; fewer, longer array operations).
+SAMPLE_GROUP_BYTES = 1 << 23
 
 # -- direct sampling of the assembled arrays ----------------------------------------------
 
@@ -130,16 +134,10 @@ class _Progress:
         self.stream.flush()
 
 
-def _batched_dense(
-    model: Model,
-    damping: Array,
-    modal: Array,
-    eta_ab: Array,
-    power: Array,
-    held: npt.NDArray[np.bool_],
-    held_energy: Array,
-) -> Array:
-    """Energies (S, N, B) from sampled arrays (S, ., B); dense batched solves per band."""
+def _sampled_totals(
+    model: Model, damping: Array, modal: Array, eta_ab: Array
+) -> tuple[Array, Array]:
+    """Reverse coupling loss factors (S, C, B) and total loss factors (S, N, B) of samples."""
     asm0 = assemble(model)
     a, b = asm0.a, asm0.b
     sink = np.array([s.sink for s in model.subsystems], dtype=bool)
@@ -157,6 +155,23 @@ def _batched_dense(
 
     diag = np.where(sink[None, :, None], 0.0, damping) + _gather(inc_a, eta_ab)
     diag = diag + _gather(inc_b, eta_ba)
+    return eta_ba, diag
+
+
+def _batched_dense(
+    model: Model,
+    damping: Array,
+    modal: Array,
+    eta_ab: Array,
+    power: Array,
+    held: npt.NDArray[np.bool_],
+    held_energy: Array,
+) -> Array:
+    """Energies (S, N, B) from sampled arrays (S, ., B); dense batched solves per band."""
+    asm0 = assemble(model)
+    a, b = asm0.a, asm0.b
+    ns, n, nb = damping.shape
+    eta_ba, diag = _sampled_totals(model, damping, modal, eta_ab)
     free = np.flatnonzero(~held)
     pos = np.full(n, -1, dtype=np.int64)
     pos[free] = np.arange(free.size)
@@ -195,6 +210,76 @@ def _batched_dense(
                 f"band {model.bands.label(j)}: a sampled power balance is singular"
             ) from None
         energy[:, free, j] = x
+    if np.any(energy < 0):
+        raise SolveError("a sample gave a negative energy (negative sampled loss factor?)")
+    return energy
+
+
+def _batched_sparse(
+    model: Model,
+    damping: Array,
+    modal: Array,
+    eta_ab: Array,
+    power: Array,
+    held: npt.NDArray[np.bool_],
+    held_energy: Array,
+) -> Array:
+    """Energies (S, N, B) from sampled arrays (S, ., B), on the solver's own path.
+
+    In each band the samples share one sparsity pattern, so they are solved like the bands
+    of one model (:func:`seatool.solve.solve_free`: batched conjugate gradients, every
+    energy verified by its subsystem's balance, sparse LU where that fails), with the
+    symmetric form ``C = L_UU diag(n_U)`` of each sample (``C_ab = -eta_ab n_a`` for both
+    triangles, reciprocity).
+    """
+    asm0 = assemble(model)
+    a, b = asm0.a, asm0.b
+    ns, n, nb = damping.shape
+    eta_ba, diag = _sampled_totals(model, damping, modal, eta_ab)
+    free = np.flatnonzero(~held)
+    pos = np.full(n, -1, dtype=np.int64)
+    pos[free] = np.arange(free.size)
+    nf = free.size
+    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), (ns, n, nb)).copy()
+    if not nf:
+        return energy
+    ff = np.flatnonzero((pos[a] >= 0) & (pos[b] >= 0))
+    pa, pb = pos[a[ff]], pos[b[ff]]
+    m = ff.size
+    unknowns = np.arange(nf, dtype=np.int64)
+    links = np.arange(nf, nf + m, dtype=np.int64)
+    rows = np.concatenate([unknowns, pa, pb])
+    cols = np.concatenate([unknowns, pb, pa])
+    source = np.concatenate([unknowns, links, links])
+    fa = (pos[a] >= 0) & held[b]
+    fb = (pos[b] >= 0) & held[a]
+    omega = model.bands.omega
+
+    def band_major(x: Array) -> Array:
+        """(S, K, B) -> (B, K, S), contiguous: each band's samples in one block."""
+        return np.ascontiguousarray(x.transpose(2, 1, 0))
+
+    modal_t, diag_t, power_t = band_major(modal), band_major(diag), band_major(power)
+    eta_ab_t, eta_ba_t = band_major(eta_ab), band_major(eta_ba)
+    out = np.empty((nb, nf, ns))
+    src = np.empty((nf + m, ns))
+    for j in range(nb):
+        n_free = modal_t[j, free]  # (nf, S)
+        np.multiply(diag_t[j, free], n_free, out=src[:nf])
+        np.multiply(eta_ab_t[j, ff], n_free[pa], out=src[nf:])
+        np.negative(src[nf:], out=src[nf:])
+        mats = BandMatrices.from_entries(nf, rows, cols, src, source)
+        rhs = power_t[j, free] / omega[j]  # (nf, S)
+        np.add.at(rhs, pos[a[fa]], eta_ba_t[j, fa] * held_energy[b[fa], j, None])
+        np.add.at(rhs, pos[b[fb]], eta_ab_t[j, fb] * held_energy[a[fb], j, None])
+        try:
+            x, _ = solve_free(mats, rhs[:, :, None], ENERGY_TOLERANCE, SAMPLE_GROUP_BYTES)
+        except SingularBandError:
+            raise SolveError(
+                f"band {model.bands.label(j)}: a sampled power balance is singular"
+            ) from None
+        np.multiply(n_free, x[:, :, 0], out=out[j])
+    energy[:, free, :] = out.transpose(2, 1, 0)
     if np.any(energy < 0):
         raise SolveError("a sample gave a negative energy (negative sampled loss factor?)")
     return energy
@@ -346,9 +431,12 @@ def spread(
         _check_direct(model, unc, targets, file)
         asm = assemble(model)
         nf = int((~asm.held).sum())
-        if nf <= DENSE_LIMIT:
-            q = _run_dense(model, unc, targets, draws, asm, chunk, bar)
+        if nf <= min(DENSE_LIMIT, ITERATIVE_ABOVE):
+            q = _run_dense(model, unc, targets, draws, asm, chunk, bar, _batched_dense)
             method = "direct (batched dense)"
+        elif nf <= DENSE_LIMIT:
+            q = _run_dense(model, unc, targets, draws, asm, chunk, bar, _batched_sparse)
+            method = "direct (batched sparse)"
         else:
             q = _run_sparse(model, unc, targets, draws, bar)
             method = "direct (sparse per sample)"
@@ -408,6 +496,7 @@ def _run_dense(
     asm: Any,
     chunk: int,
     bar: _Progress,
+    batched: Callable[..., Array],
 ) -> Array:
     n, nb = asm.shape
     ns = draws[0].size
@@ -448,7 +537,7 @@ def _run_dense(
         for e, p in zip(model.excitations, exc_power, strict=True):
             if p is not None:
                 power[:, exc_sub[e.subsystem]] += p
-        out[start:stop] = _batched_dense(model, damp, modal, eta, power, asm.held, asm.held_energy)
+        out[start:stop] = batched(model, damp, modal, eta, power, asm.held, asm.held_energy)
         bar.update(stop)
     return out
 
