@@ -14,9 +14,12 @@ Methods
     symmetric mode, diagonal pivots) followed by one step of iterative refinement when
     the check below asks for it.
 ``iterative``
-    Conjugate gradients on the Jacobi-scaled systems of all bands at once (one
-    block-diagonal sparse product per iteration, one step length per band and column;
-    Hestenes & Stiefel 1952; Saad 2003, alg. 9.1 with a diagonal preconditioner),
+    Conjugate gradients on the Jacobi-scaled systems ``I + N_j`` (Hestenes & Stiefel
+    1952; Saad 2003, alg. 9.1 with a diagonal preconditioner). Bands are solved in groups
+    whose matrices and work vectors fit in :data:`GROUP_BYTES` (a core's cache): a group
+    is one block-diagonal sparse product per iteration with one step length per band,
+    a group of one band uses level-1 BLAS updates in place. The check below is tried
+    once the residual norm is small enough to pass it,
     followed by Jacobi sweeps ``x <- x + D^-1 (b - C x)``. For an M-matrix with ``b >= 0``
     a sweep computes every energy from its neighbours' energies as a sum of non-negative
     terms, so the relative accuracy of the large energies reaches the small ones, one
@@ -38,6 +41,10 @@ dissipation-weighted mean relative error is at most ``max(rho) * G`` with the ga
 mean, not every entry, so a column passes when ``max(rho) <= tol / (10 G)`` (a margin of
 10); the tests compare the result entry by entry with dense solves, including
 ill-conditioned systems and energies spanning hundreds of decibels.
+
+Where every entry of ``b`` is positive (e.g. the vector ``C^-1 n`` of the condition
+number) a rigorous entry-by-entry bound also passes a column: ``|r| <= tol b`` gives
+``|x - x*| = |C^-1 r| <= C^-1 |r| <= tol x*``, since ``C^-1 >= 0``.
 """
 
 from __future__ import annotations

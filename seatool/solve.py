@@ -14,7 +14,10 @@ move to the right-hand side. The remaining matrix is a column-diagonally-dominan
 Z-matrix (column sums equal the damping loss factors), i.e. an M-matrix when
 nonsingular; its inverse is then entrywise non-negative, which gives energies >= 0 and
 lets the exact 1-norm of the inverse be read from one transposed solve
-(``||L^-1||_1 = max(L^-T 1)``) for the condition number.
+(``||L^-1||_1 = max(L^-T 1)``) for the condition number. The column dominance also
+bounds it without a solve (:func:`condition_bound`, Varah 1975); :func:`solve` computes
+the condition number only where that bound exceeds :data:`CONDITION_NOTE` (or when
+``Solution.condition`` is first read).
 """
 
 from __future__ import annotations

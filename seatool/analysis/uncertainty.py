@@ -18,9 +18,10 @@ Sampling is vectorised where the structure allows: when every uncertain paramete
 loss factor, modal density or input power given directly in the file (``damping`` and
 ``modal_density`` of ``cavity``/``structure`` subsystems, ``coupling_loss_factor`` of
 ``given`` connections, ``power`` of excitations), the assembled arrays are sampled and
-the per-band systems of all samples are solved in batches (dense batched solves for
-models up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse solve per sample); no
-model file is rebuilt. Otherwise each sample is rebuilt with
+the per-band systems of all samples are solved in batches (stacked dense solves up to
+the solver's ``ITERATIVE_ABOVE`` unknowns, then the solver's own batched iterative path
+over the samples of each band up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse
+solve per sample); no model file is rebuilt. Otherwise each sample is rebuilt with
 :func:`seatool.modelfile.build` and solved (slower).
 
 Not included here: the ensemble variance of the response over nominally identical builds
