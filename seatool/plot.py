@@ -657,19 +657,26 @@ def plot_sweep(
     path: str | os.PathLike[str],
 ) -> Path:
     """Write a figure of each level column (``RECEIVER.dBA`` ...) of a sweep table against each
-    parameter column, one panel per parameter, to ``path``."""
+    parameter column, one panel per parameter, to ``path``; where the table has the
+    column's 5 % and 95 % levels of builds (``RECEIVER.dBA_p05``, ``_p95``), each point
+    carries them as a vertical bar."""
     plt = _pyplot()
     n = max(1, len(parameters))
     fig, axes = plt.subplots(1, n, figsize=(3.2 * n + 0.8, 3.8), squeeze=False, sharey=True)
+    bars = all(f"{lv}_p05" in table and f"{lv}_p95" in table for lv in levels)
     for ax, par in zip(axes[0], parameters, strict=False):
         for k, lv in enumerate(levels):
-            ax.scatter(table[par], table[lv], s=6, alpha=0.6, color=PALETTE[k % len(PALETTE)],
-                       label=lv)  # fmt: skip
+            colour = PALETTE[k % len(PALETTE)]
+            if bars:
+                ax.vlines(table[par], table[f"{lv}_p05"], table[f"{lv}_p95"], color=colour,
+                          alpha=0.25, linewidth=1.0)  # fmt: skip
+            ax.scatter(table[par], table[lv], s=6, alpha=0.6, color=colour, label=lv)
         ax.set_xlabel(par, fontsize=8)
         ax.grid(True, alpha=0.3)
     axes[0, 0].set_ylabel("level [dB]; dBA: A-weighted re 20 uPa")
     axes[0, 0].legend(fontsize=7)
-    fig.suptitle("levels over the sweep", fontsize=10)
+    bar_note = "\n(bars: 5-95 % of nominally identical builds)" if bars else ""
+    fig.suptitle(f"levels over the sweep{bar_note}", fontsize=10)
     return _finish(fig, path)
 
 

@@ -116,7 +116,7 @@ def band_spread_db(modal_overlap: npt.ArrayLike, modes_in_band: npt.ArrayLike) -
 
     The band-averaged relative variance of a point-driven subsystem
     (:func:`seatool.physics.variance.relative_variance_band`, GOE natural frequencies,
-    alpha = 3; Langley & Brown 2004b) turned into Gamma quantiles
+    alpha = 3; Langley & Brown 2004b) turned into log-normal quantiles
     (:func:`seatool.physics.variance.level_quantiles`). NaN where the modal overlap is
     not positive. The spread of a subsystem inside a solved model, with its actual
     inputs and the scatter of its neighbours, is :mod:`seatool.analysis.confidence`.

@@ -1,6 +1,6 @@
 """Confidence bands in every output that shows levels: solve (table, CSV, figure, target
 confidence), the report, the validity notes and the notebook view; and the probability of
-meeting a target from the SEA variance against scipy's Gamma distribution."""
+meeting a target from the SEA variance against scipy's log-normal and Gamma distributions."""
 
 from __future__ import annotations
 
@@ -33,11 +33,13 @@ def _cab_with_band_limit(limit: float) -> seatool.Model:
     return seatool.loads(text)
 
 
-def test_probability_of_meeting_against_gamma_distribution() -> None:
+@pytest.mark.parametrize("distribution", ["lognormal", "gamma"])
+def test_probability_of_meeting_against_scipy_distribution(distribution: str) -> None:
     # One band limit per band: the target is met when every band energy stays below its
-    # limit; with independent Gamma band energies (shape 1 / r^2, mean the SEA energy) the
-    # probability is the product over bands of scipy.stats.gamma cdfs (reference library,
-    # independent of the sampling in probability_from_variance).
+    # limit; with independent band energies (mean the SEA energy, relative variance r^2;
+    # log-normal: s^2 = ln(1 + r^2), Gamma: shape 1 / r^2) the probability is the product
+    # over bands of scipy.stats.lognorm / gamma cdfs (reference library, independent of
+    # the sampling in probability_from_variance).
     # the band limit is chosen where the exact probability is near one half (a case where
     # the answer is not trivially 0 or 1, whatever the demo's levels)
     base = seatool.run(seatool.load(CAB))
@@ -45,10 +47,13 @@ def test_probability_of_meeting_against_gamma_distribution() -> None:
     r2 = confidence.relative_variances(base.model, base.energy)
     lv, _, _ = base.level_array()
     shape = 1.0 / r2[i]
+    s = np.sqrt(np.log1p(r2[i]))
 
     def exact(limit: float) -> float:
         ratio = 10.0 ** ((limit - lv[i]) / 10.0)  # limit energy / mean energy per band
-        return float(np.prod(stats.gamma.cdf(ratio, a=shape, scale=1.0 / shape)))
+        if distribution == "gamma":
+            return float(np.prod(stats.gamma.cdf(ratio, a=shape, scale=1.0 / shape)))
+        return float(np.prod(stats.lognorm.cdf(ratio, s, scale=np.exp(-(s**2) / 2))))
 
     limit = min(np.arange(50.0, 110.0, 0.5), key=lambda x: abs(exact(x) - 0.5))
     model = _cab_with_band_limit(float(limit))
@@ -56,7 +61,9 @@ def test_probability_of_meeting_against_gamma_distribution() -> None:
     expected = exact(float(limit))
     assert 0.05 < expected < 0.95  # a case where the answer is not trivially 0 or 1
     samples = 20000
-    got = targets.probability_from_variance(result, samples=samples, seed=3)
+    got = targets.probability_from_variance(
+        result, samples=samples, seed=3, distribution=distribution  # type: ignore[arg-type]
+    )
     p = float(got["probability"].iloc[0])
     se = float(np.sqrt(expected * (1 - expected) / samples))
     assert abs(p - expected) < 4 * se  # 4 binomial standard errors (~0.014)
@@ -114,7 +121,7 @@ def test_report_shows_the_band(tmp_path: Path) -> None:
     html = files.html.read_text(encoding="utf-8")
     assert "Shaded: the 5-95 % confidence band" in html
     assert "met with" in html and "SEA variance estimate" in html  # verdict confidence
-    assert "Gamma-distributed about the SEA mean" in html  # the distribution assumed
+    assert "log-normal about the SEA mean" in html  # the distribution assumed
     data = json.loads(files.json.read_text(encoding="utf-8"))
     cols = data["tables"]["confidence"]["columns"]
     assert cols == ["band [Hz]", "cab_air 5 %", "cab_air 95 %"]

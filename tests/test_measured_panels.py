@@ -61,6 +61,33 @@ def test_float_glass_6mm_rating_with_absorbing_edges():
         assert abs(got.rw - 31) <= 1, (alpha, got)
 
 
+#: Laboratory transmission loss of 6 mm (1/4 in) monolithic glass in the octave bands
+#: 125 Hz - 4 kHz [dB], STC 31, as tabulated in architectural-acoustics texts (e.g. Long 2006,
+#: Architectural Acoustics, ch. 9; from memory, the table was not re-read).
+GLASS_6MM_OCTAVES = np.array([25.0, 29.0, 33.0, 36.0, 26.0, 35.0])
+
+
+def _octaves(r_third: np.ndarray) -> np.ndarray:
+    """Octave-band R from the third-octave R of BANDS (100 Hz - 5 kHz) by averaging tau."""
+    tau = 10 ** (-r_third / 10)
+    return -10 * np.log10(tau[: 3 * 6].reshape(6, 3).mean(axis=1))
+
+
+@pytest.mark.measured
+@pytest.mark.parametrize("eta", [0.02, 0.03])
+def test_float_glass_6mm_octave_spectrum_with_installed_glazing_damping(eta):
+    # The band shape, not only the single number: with a mounted loss factor of 0.02 - 0.03
+    # every octave lies within 4 dB of the remembered laboratory spectrum (found -3.4 ...
+    # +1.4 dB; the coincidence octave 2 kHz within 1.4 dB and 4 kHz within 2 dB). The
+    # tolerance: the recall uncertainty of the table plus the spread between laboratories
+    # of octave-band R of glazing, larger at low frequencies where the size of the test
+    # opening matters (a few dB, from memory). With the default laboratory mounting the
+    # 2 kHz and 4 kHz octaves are 4.5 and 8.3 dB low (docs/theory/subsystems.md, sec. 11).
+    r, _ = _panel("glass", 0.006, WINDOW, loss_factor=eta, mounting="stated")
+    dev = _octaves(r) - GLASS_6MM_OCTAVES
+    assert np.all(np.abs(dev) <= 4.0), np.round(dev, 1)
+
+
 @pytest.mark.regression
 def test_float_glass_default_laboratory_mounting_rates_below_the_measurement():
     # Known shortfall, kept visible: with the default mounting (internal 0.001 plus the

@@ -8,7 +8,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from seatool.analysis.panel import PanelSpec, installed_loss_factor
+from seatool.analysis.panel import MOUNTING_NOTE, PanelSpec, installed_loss_factor
 from seatool.cli import main
 from seatool.materials import load_fluids, load_materials
 
@@ -80,3 +80,26 @@ def test_spec_refuses_an_unknown_mounting():
         PanelSpec(glass, 0.006, 1.25, 1.5, 0.001, air, mounting="bolted")
     spec = PanelSpec(glass, 0.006, 1.25, 1.5, 0.001, air, mounting="edges", edge_absorption=0.0)
     np.testing.assert_allclose(installed_loss_factor(spec, [100.0, 1000.0]), 0.001)
+
+
+@pytest.mark.parametrize(
+    ("material", "thickness", "extra", "noted"),
+    [
+        ("glass", "0.006", [], True),  # 6 mm glass: 0.0017 against 0.008 at 2 kHz
+        ("glass", "0.006", ["--loss-factor", "0.02"], False),  # stated: no note
+        ("glass", "0.006", ["--edge-absorption", "0.3"], False),
+        ("gypsum_board", "0.0125", [], True),  # 0.0104 against 0.013 at 3.15 kHz
+        ("concrete", "0.15", [], False),  # the laboratory term dominates at f_c = 124 Hz
+        ("steel", "0.001", [], False),  # f_c = 12 kHz: no band reaches it
+    ],
+)
+def test_mounting_note_where_radiation_outweighs_the_laboratory_losses(
+    capsys, material, thickness, extra, noted
+):
+    # The note marks a panel whose dip at coincidence goes as 10 lg(eta + eta_rad) with the
+    # laboratory losses the smaller part (docs/theory/subsystems.md, section 11): its depth
+    # then depends on mounting losses that the default does not know.
+    args = ["panel", "--material", material, "--thickness", thickness, "--lx", "1.25"]
+    assert main([*args, "--ly", "1.5", "--lowest", "100", "--highest", "5000", *extra]) == 0
+    out = capsys.readouterr().out
+    assert (MOUNTING_NOTE in out) is noted, out[-600:]

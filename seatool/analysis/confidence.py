@@ -20,7 +20,10 @@ modal overlap, modes in band and excitation statistics (Langley & Brown 2004a, b
 3. a point-type connection passes on the source subsystem's response at the junction
    point, not its energy: the power it sends, omega eta_sk E_s, gets the extra relative
    variance r^2(m_s, B_s, 3 alpha_s) - r^2(m_s, B_s, alpha_s) (a point response has
-   modal coefficients phi_j(x_in)^2 phi_j(x_c)^2, alpha multiplied by 3);
+   modal coefficients phi_j(x_in)^2 phi_j(x_c)^2, alpha multiplied by 3); through a
+   resilient mount (``mount``) it also gets the cross-modal variance of a point response,
+   :func:`seatool.physics.variance.point_response_cross_variance` (the signs of the
+   mode shapes at the mount);
 4. at a point junction the receiver's energy is the band average of a product, the
    squared junction force (set by the source's modes) times the receiver's point
    receptance (set by its own modes); besides the two relative variances that a
@@ -32,17 +35,21 @@ modal overlap, modes in band and excitation statistics (Langley & Brown 2004a, b
    ``G = (omega L_UU)^-1`` and V_k the junction terms of items 3 and 4: the variance of a
    subsystem driven through others collects the scatter of every subsystem on the way.
 
-Checks (docs/theory/variance.md): the random-matrix Monte Carlo of a plate radiating into
-a cavity finds both variances within its standard error (distributed coupling, alpha = 1
-for the cavity; treated as point-like the cavity's would be 5.6 times too large); for two
-subsystems joined by a point spring the directly driven one is within a few percent and
-the receiver within about 20 % of Monte Carlo estimates that themselves scatter by 10-30 %
-between seeds (heavy tails); without item 3 the receiver would be low by a factor of 2 to
-4, without item 4 by about 25 %.
+Checks (docs/theory/variance.md, section 4): against the random-matrix Monte Carlo of a
+plate radiating into a cavity the plate is within its standard error at weak coupling and up
+to about 30 % low at strong coupling; the cavity lies between the estimate with
+rain-on-the-roof loading (alpha = 1, the default, up to 31 % low) and the one with the
+cavity's measured loading alpha (``distributed_alpha``); treated as point-like the cavity's
+would be several times too large. For two subsystems joined by a point spring the directly
+driven one is within a few percent; the receiver is within 0.98-1.11 of the Monte Carlo
+through a soft spring (``mount``, item 3 with its cross-modal term) and 0.9-1.6 times it
+through a stiff or rigid one (``point``: an upper estimate).
 
-Levels are quantiles of a Gamma distribution with the SEA mean and the predicted
-variance (:func:`seatool.physics.variance.level_quantiles`; docs/theory/variance.md says
-why Gamma). Held subsystems (measured levels) and sinks have no spread.
+Levels are quantiles of a log-normal distribution with the SEA mean and the predicted
+variance (:data:`seatool.physics.variance.DISTRIBUTION`,
+:func:`seatool.physics.variance.level_quantiles`; docs/theory/variance.md, section 3, gives
+the Monte Carlo evidence against the Gamma distribution). Held subsystems (measured levels)
+and sinks have no spread.
 """
 
 from __future__ import annotations
@@ -56,13 +63,17 @@ import numpy.typing as npt
 import pandas as pd
 from scipy import special
 
+from ..bands import BandAxis
 from ..kinds.registry import CONNECTION_KINDS
+from ..metrics import weighted_level
 from ..model import Model
 from ..physics.variance import (
     ALPHA_POINT,
     ALPHA_RAIN_ON_THE_ROOF,
+    DISTRIBUTION,
     combined_alpha,
     level_quantiles,
+    point_response_cross_variance,
     product_variance_band,
     relative_variance_alpha_slope,
     relative_variance_band,
@@ -73,8 +84,10 @@ from ..solve import Assembly, assemble
 __all__ = [
     "BAND_NOTE",
     "DISTRIBUTED_CONNECTIONS",
+    "RESILIENT_CONNECTIONS",
     "band_limits",
     "confidence_bands",
+    "overall_relative_variance",
     "relative_variances",
     "render_bands",
     "table_with_confidence",
@@ -85,8 +98,10 @@ BAND_NOTE = (
     "5-95 % band: the levels that 90 % of nominally identical builds fall between, from the "
     "SEA ensemble variance of each subsystem's band energy (scatter of natural frequencies "
     "and mode shapes; Langley & Brown 2004, Langley & Cotoni 2004), the energy taken as "
-    "Gamma-distributed about the SEA mean (the distribution of a sum of squared modal "
-    "responses); parameter spreads of an [uncertainty] section are not included."
+    "log-normal about the SEA mean (a product of factors along the transmission path; "
+    "closer to random-matrix simulations than a Gamma law, whose low bound falls far too "
+    "low where the spread is large); parameter spreads of an [uncertainty] section are "
+    "not included."
 )
 
 Array = npt.NDArray[np.float64]
@@ -99,8 +114,13 @@ DISTRIBUTED_CONNECTIONS = frozenset(
 )
 
 
-def _connection_alpha(kind: str) -> float:
-    return ALPHA_RAIN_ON_THE_ROOF if kind in DISTRIBUTED_CONNECTIONS else ALPHA_POINT
+#: Point-type connection kinds that are soft against the structures they join (resilient
+#: mounts): the force is the mount stiffness times the source's free response at the mount.
+RESILIENT_CONNECTIONS = frozenset({"mount"})
+
+
+def _connection_alpha(kind: str, distributed: float = ALPHA_RAIN_ON_THE_ROOF) -> float:
+    return distributed if kind in DISTRIBUTED_CONNECTIONS else ALPHA_POINT
 
 
 def _excitation_alpha(quantity: str | None) -> float:
@@ -113,6 +133,7 @@ def relative_variances(
     *,
     asm: Assembly | None = None,
     spacing: Literal["goe", "poisson"] = "goe",
+    distributed_alpha: float = ALPHA_RAIN_ON_THE_ROOF,
 ) -> Array:
     """Relative variance Var[E] / E[E]^2 (N, B) of every subsystem's band energy.
 
@@ -125,6 +146,12 @@ def relative_variances(
         ``assemble(model)`` if already at hand.
     spacing : {'goe', 'poisson'}, optional
         Natural-frequency statistics of every subsystem (default GOE).
+    distributed_alpha : float, optional
+        alpha of the loading that a distributed (line or area) connection gives its
+        receiver (default 1, rain-on-the-roof). The random-matrix Monte Carlo of a plate
+        and a cavity finds 1.3-1.7 for the cavity's modal forces within the band
+        (docs/theory/variance.md, section 4): the default gives a lower estimate of the
+        receiver's variance, that value an upper one.
 
     Returns
     -------
@@ -167,7 +194,7 @@ def relative_variances(
         w[b] = omega * asm.eta_ab[c] * e[a]  # power sent from a into b
         w[a] = omega * asm.eta_ba[c] * e[b]
         sources_w.append(w)
-        sources_a.append(_connection_alpha(model.connections[c].kind))
+        sources_a.append(_connection_alpha(model.connections[c].kind, distributed_alpha))
     if sources_w:
         weights = np.stack(sources_w)
         alphas = np.broadcast_to(np.asarray(sources_a)[:, None, None], weights.shape)
@@ -189,8 +216,18 @@ def relative_variances(
     # point-type connections: the power sent from s follows s's response at the junction
     # point, which scatters more than s's energy (alpha of a point response: alpha_s x 3)
     # r^2 is linear in alpha: r^2(3 alpha) - r^2(alpha) = 2 alpha d r^2 / d alpha
+    # and (3b) through a resilient mount the force follows the source's free response at
+    # the mount, whose mode-shape signs add the cross-modal variance of a point response
+    # (point_response_cross_variance); at a rigid point the driving-point receptances in
+    # the denominator of the force smooth it instead (docs/theory/variance.md, section 4)
     xi_all = np.zeros((n, nb))
     xi_all[ok] = (ALPHA_POINT - 1.0) * alpha[ok] * relative_variance_alpha_slope(m[ok], n_band[ok])
+    point_src = np.zeros((n, nb), dtype=bool)
+    for c, (a, b) in enumerate(zip(asm.a, asm.b, strict=True)):
+        if model.connections[c].kind in RESILIENT_CONNECTIONS:
+            point_src[[a, b]] = True
+    sel = ok & point_src & (n_band > 0)
+    xi_all[sel] += point_response_cross_variance(m[sel], n_band[sel])
     extra = np.zeros((n, nb))  # variance of the input of each subsystem [W^2]
     for c, (a, b) in enumerate(zip(asm.a, asm.b, strict=True)):
         if model.connections[c].kind in DISTRIBUTED_CONNECTIONS:
@@ -232,7 +269,7 @@ def confidence_bands(
     result: Result,
     levels: Sequence[float] = (0.05, 0.95),
     *,
-    distribution: Literal["gamma", "lognormal"] = "gamma",
+    distribution: Literal["gamma", "lognormal"] = DISTRIBUTION,
     spacing: Literal["goe", "poisson"] = "goe",
     relative_variance: npt.ArrayLike | None = None,
 ) -> pd.DataFrame:
@@ -245,9 +282,9 @@ def confidence_bands(
         The solved model (``seatool.run(model)``).
     levels : sequence of float, optional
         Probabilities (default 5 % and 95 %); the median (50 %) is always included.
-    distribution : {'gamma', 'lognormal'}, optional
+    distribution : {'lognormal', 'gamma'}, optional
         Distribution of the energy with the SEA mean and the predicted variance
-        (default Gamma; see :func:`seatool.physics.variance.level_quantiles`).
+        (default log-normal; see :func:`seatool.physics.variance.level_quantiles`).
     spacing : {'goe', 'poisson'}, optional
         Natural-frequency statistics (default GOE).
     relative_variance : array_like (N, B), optional
@@ -366,3 +403,41 @@ def render_bands(
     out.extend(fmt.format(*r) for r in rows)
     return "\n".join(out)
 
+
+
+def overall_relative_variance(
+    levels: npt.ArrayLike,
+    relative_variance: npt.ArrayLike,
+    bands: BandAxis,
+    weighting: Literal["Z", "A"] = "A",
+) -> Array:
+    """Relative variance [-] of an overall (energetic band sum) level's energy.
+
+    Parameters
+    ----------
+    levels : array_like (..., B)
+        Band levels (SEA means) [dB].
+    relative_variance : array_like (..., B)
+        r^2 of each band energy (:func:`relative_variances`); NaN counts as 0.
+    bands : BandAxis
+    weighting : {'Z', 'A'}
+        Unweighted (overall dB) or A-weighted sum.
+
+    Returns
+    -------
+    numpy.ndarray (...)
+        r_sum^2 = sum_k s_k^2 r_k^2 with s_k each band's share of the (weighted) mean
+        square: the band energies are independent (different bands hold different modes),
+        so their variances add. Turned into levels with
+        :func:`seatool.physics.variance.level_quantiles`, the sum is taken as log-normal
+        like each band (the Fenton-Wilkinson approximation of a sum of log-normal
+        variables; checked against sampled sums in tests/test_sweep_confidence.py).
+
+    References
+    ----------
+    .. [1] Fenton, L.F. (1960). The sum of log-normal probability distributions in scatter
+       transmission systems. IRE Trans. Commun. Syst. 8(1), 57-67.
+    """
+    share = weighted_level(levels, bands, weighting).gradient
+    r2 = np.nan_to_num(np.asarray(relative_variance, dtype=float), nan=0.0)
+    return np.asarray(np.sum(share**2 * r2, axis=-1), dtype=float)

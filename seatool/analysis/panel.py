@@ -38,7 +38,7 @@ from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
 from ..modelfile import Reader, build
-from ..physics import damping, installed_damping, plates, radiation
+from ..physics import coupling, damping, installed_damping, plates, radiation
 from ..physics import validity as pv
 from ..solve import solve
 
@@ -49,7 +49,9 @@ __all__ = [
     "PanelSpec",
     "basic_columns",
     "coupling_columns",
+    "MOUNTING_NOTE",
     "installed_loss_factor",
+    "mounting_note",
     "panel_table",
     "room_transmission_loss",
     "treatment_columns",
@@ -65,6 +67,14 @@ DEFAULT_ROOM_VOLUMES = (60.0, 75.0)
 DEFAULT_REVERBERATION_TIME = 1.5
 #: How the panel's edges lose energy (:func:`installed_loss_factor`).
 MOUNTINGS = ("laboratory", "edges", "stated")
+#: The note of :func:`mounting_note`.
+MOUNTING_NOTE = (
+    "note: at coincidence this panel loses more by radiation than internally and into a "
+    "laboratory opening, so its coincidence dip depends on the losses of its mounting "
+    "(putty, gaskets, screws), which the laboratory form (fitted to heavy walls) does not "
+    "give: state the loss factor as mounted (--loss-factor) or the edges' absorption "
+    "(--edge-absorption); see docs/theory/subsystems.md, section 11"
+)
 #: Shape of the rooms: side ratios (product 1) of a shoebox, common practice.
 _ROOM_RATIOS = (0.8, 1.0, 1.25)
 
@@ -180,6 +190,37 @@ def installed_loss_factor(spec: PanelSpec, f: npt.ArrayLike) -> Array:
         )
         return np.asarray(spec.loss_factor + edge, dtype=np.float64)
     return installed_damping.laboratory_loss_factor(f_a, spec.mass_per_area, spec.loss_factor)
+
+
+def mounting_note(spec: PanelSpec, bands: BandAxis, table: pd.DataFrame) -> str | None:
+    """:data:`MOUNTING_NOTE` where the default mounting leaves the coincidence dip to chance.
+
+    With ``mounting="laboratory"``, the note is returned when in some band at or above the
+    one holding the critical frequency the installed loss factor (column ``loss_factor``) is
+    below the radiation loss factor of the panel's two faces,
+    2 :func:`seatool.physics.coupling.clf_radiation` with the band's
+    ``radiation_efficiency``. There the transmission loss at the dip goes as
+    10 lg(eta + eta_rad) (docs/theory/subsystems.md, section 11), so losses of the mounting
+    that are small against the laboratory opening's still move it by several dB: measured
+    glazing needs 0.015 - 0.03 where the laboratory form gives under 0.001. ``None``
+    otherwise (a stated or edge-absorption mounting, a heavy panel, or no band reaching
+    the critical frequency).
+    """
+    if spec.mounting != "laboratory":
+        return None
+    f = bands.centre
+    at_or_above = bands.upper > spec.critical_frequency
+    if not np.any(at_or_above):
+        return None
+    eta_rad = 2.0 * coupling.clf_radiation(
+        f,
+        table["radiation_efficiency"].to_numpy(),
+        spec.mass_per_area,
+        rho0=spec.fluid.density,
+        c0=spec.fluid.sound_speed,
+    )
+    below = table["loss_factor"].to_numpy() < eta_rad
+    return MOUNTING_NOTE if bool(np.any(below & at_or_above)) else None
 
 
 def basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:

@@ -24,8 +24,11 @@ With ``uncertainty``, a spectrum's column holds the standard variate (``PATH:var
 
 The result (:class:`Sweep`) is one row per evaluation: ``sample``, the parameters, then per
 receiver its overall level ``RECEIVER.dB``, A-weighted level ``RECEIVER.dBA`` (sound
-pressure receivers) and band levels ``RECEIVER.<band>Hz``, and per target of those
-receivers the smallest margin ``TARGET.margin`` (limit - level, positive = met) and
+pressure receivers) and band levels ``RECEIVER.<band>Hz``, the 5 % and 95 % levels of
+nominally identical builds of its overall levels ``RECEIVER.dB_p05``, ``RECEIVER.dB_p95``,
+``RECEIVER.dBA_p05``, ``RECEIVER.dBA_p95`` (SEA ensemble variance of the sample,
+:mod:`seatool.analysis.confidence`; left out with ``confidence=False``), and per target of
+those receivers the smallest margin ``TARGET.margin`` (limit - level, positive = met) and
 ``TARGET.met``. The evaluations themselves run in :mod:`seatool.analysis.sweep_run`
 (serially, on the local cores, or on a dask cluster): for a fixed seed the table is the
 same whichever way it ran.
@@ -53,6 +56,7 @@ from ..metrics import METRICS
 from ..model import Model, Uncertain
 from ..modelfile import build
 from ..outputs import output_file
+from ..physics.variance import level_quantiles
 from ..results import Result, csv_text, write_text_atomic
 from ..solve import solve as core_solve
 from ._keypath import read_data, resolve
@@ -274,6 +278,10 @@ class Sweep:
         Band levels of each receiver for every sample [dB re its reference].
     references : list of str
         The level reference of each receiver (``dB re 20 uPa`` ...).
+    overall_variance : ndarray (S, R, 2), optional
+        Relative variance of each receiver's unweighted and A-weighted overall energy over
+        nominally identical builds (SEA ensemble variance), per sample; None without
+        confidence.
     """
 
     design: Design
@@ -282,6 +290,7 @@ class Sweep:
     levels: Array
     references: list[str]
     quantities: list[str] = field(default_factory=list)
+    overall_variance: Array | None = None
 
     @property
     def samples(self) -> int:
@@ -304,6 +313,11 @@ class Sweep:
             cols[f"{r}.dBA"] = self.overall(r, "dBA") if pressure else np.nan
             for j, hz in enumerate(bands.nominal):
                 cols[f"{r}.{hz:g}Hz"] = self.levels[:, k, j]
+            if self.overall_variance is not None:
+                for w, metric in enumerate(("dB", "dBA")):
+                    q = level_quantiles(self.overall_variance[:, k, w], [0.05, 0.95])
+                    for p, name in enumerate(("p05", "p95")):
+                        cols[f"{r}.{metric}_{name}"] = cols[f"{r}.{metric}"] + q[:, p]
         for t in self.model.targets:
             if t.receiver in self.receivers:
                 m = margins_of_levels(self.levels[:, self.receivers.index(t.receiver)], bands, t)
@@ -429,6 +443,7 @@ def sweep(
     workers: int | None = None,
     batch: int | None = None,
     on_batch: Callable[[int, int], None] | None = None,
+    confidence: bool = True,
 ) -> Sweep:
     """Evaluate a sweep of parsed model data (not changed).
 
@@ -452,6 +467,9 @@ def sweep(
         500).
     on_batch : callable, optional
         Called with (batches done, batches) as results arrive (progress, tests).
+    confidence : bool, optional
+        Add the 5 % and 95 % levels of each receiver's overall levels over nominally
+        identical builds (default True; costs about a third of a rebuild and solve).
     """
     model = build(data, file=file, base_dir=base_dir)
     dsg = design(spec, data, file=file, base_dir=base_dir)
@@ -461,15 +479,25 @@ def sweep(
     nominal = Result(model, core_solve(model))
     _, quantity, refs = nominal.level_array()
     idx = [model.names.index(r) for r in receivers]
-    job = Job(dict(data), file, str(base_dir), dsg.columns, dsg.changes, tuple(receivers))
+    job = Job(
+        dict(data), file, str(base_dir), dsg.columns, dsg.changes, tuple(receivers), confidence
+    )
     if len(dsg.values):  # the first sample in this process: a bad design fails before any cluster
         t0 = time.perf_counter()
         evaluate_rows(job, 0, dsg.values[:1])
         guess = (time.perf_counter() - t0) * len(dsg.values)
         if scheduler == "local" and workers is None and guess < LOCAL_WORTH_S:
             scheduler = "serial"  # quicker than starting the worker processes
-    lv = run(job, dsg.values, scheduler=scheduler, workers=workers, batch=batch, on_batch=on_batch)
-    return Sweep(dsg, model, receivers, lv, [refs[i] for i in idx], [quantity[i] for i in idx])
+    out = run(job, dsg.values, scheduler=scheduler, workers=workers, batch=batch, on_batch=on_batch)
+    return Sweep(
+        dsg,
+        model,
+        receivers,
+        out[..., :-2],
+        [refs[i] for i in idx],
+        [quantity[i] for i in idx],
+        out[..., -2:] if confidence else None,
+    )
 
 
 def sweep_file(path: str | Path, spec: SweepSpec, **kwargs: Any) -> Sweep:

@@ -26,12 +26,14 @@ import numpy as np
 import numpy.typing as npt
 
 from .. import progress
+from ..bands import BandAxis
 from ..errors import InputError, Problem
 from ..model import Uncertain
 from ..modelfile import build
 from ..results import Result
 from ..solve import SolveError
 from ..solve import solve as core_solve
+from .confidence import overall_relative_variance, relative_variances
 
 __all__ = ["Job", "evaluate_rows", "run"]
 
@@ -53,6 +55,8 @@ class Job:
     columns: tuple[str, ...]
     changes: tuple[tuple[str, str, Uncertain | None], ...]
     receivers: tuple[str, ...]
+    #: also return the relative variance of each receiver's overall energy (dB and dB(A))
+    confidence: bool = False
 
 
 def _changed(job: Job, row: Array) -> dict[str, Any]:
@@ -81,8 +85,22 @@ def _describe(job: Job, row: Array) -> str:
     return ", ".join(f"{c} = {x:g}" for c, x in zip(job.columns, row, strict=True))
 
 
+def _overall_variances(res: Result, idx: list[int], lv: Array, bands: BandAxis) -> Array:
+    """(R, 2): relative variances of the receivers' unweighted and A-weighted overall
+    energies from the SEA ensemble variance of this sample."""
+    r2 = relative_variances(res.model, res.energy)[idx]
+    return np.stack(
+        [overall_relative_variance(lv, r2, bands, w) for w in ("Z", "A")], axis=-1
+    )
+
+
 def evaluate_rows(job: Job, start: int, values: Array) -> tuple[int, Array]:
-    """Levels (k, R, B) of the receivers for samples ``start ... start + k - 1``.
+    """Levels (k, R, B + 2) of the receivers for samples ``start ... start + k - 1``.
+
+    The first B entries of the last axis are the band levels; the last two are the
+    relative variances of the overall unweighted and A-weighted energies (SEA ensemble
+    variance, :func:`seatool.analysis.confidence.overall_relative_variance`), NaN unless
+    ``job.confidence``.
 
     Raises InputError naming the first sample that is not a valid model (in this process;
     on a worker, :func:`_task` returns the problem as data, since an InputError does not
@@ -106,9 +124,11 @@ def evaluate_rows(job: Job, start: int, values: Array) -> tuple[int, Array]:
         lv = res.level_array()[0]
         if idx is None:
             idx = [m.names.index(r) for r in job.receivers]
-            out = np.empty((len(values), len(idx), lv.shape[1]))
+            out = np.full((len(values), len(idx), lv.shape[1] + 2), np.nan)
         assert out is not None
-        out[k] = lv[idx]
+        out[k, :, :-2] = lv[idx]
+        if job.confidence:
+            out[k, :, -2:] = _overall_variances(res, idx, lv[idx], m.bands)
     assert out is not None
     return start, out
 
@@ -140,8 +160,8 @@ def run(
     batch: int | None = None,
     on_batch: Callable[[int, int], None] | None = None,
 ) -> Array:
-    """Levels (S, R, B) of every sample row of ``values`` (S, P); see
-    :func:`seatool.analysis.sweep.sweep` for the options."""
+    """Levels (S, R, B + 2) of every sample row of ``values`` (S, P), as
+    :func:`evaluate_rows`; see :func:`seatool.analysis.sweep.sweep` for the options."""
     n = len(values)
     if workers is not None and workers < 1:
         raise InputError([Problem(job.file, "--workers", "must be >= 1")])

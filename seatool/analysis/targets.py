@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, Literal
 
 import numpy as np
 import numpy.typing as npt
@@ -26,6 +26,7 @@ from ..errors import InputError, Problem, closest
 from ..levels import db
 from ..metrics import METRICS
 from ..model import Model, Target
+from ..physics.variance import DISTRIBUTION, energy_ratio_samples
 from ..results import Result
 from .confidence import relative_variances
 from .uncertainty import Spread
@@ -304,7 +305,7 @@ def probability_of_meeting(
 
 #: How :func:`probability_from_variance` reaches its probability, in plain words.
 VARIANCE_METHOD = (
-    "SEA variance estimate: the receiver's band energies drawn as independent Gamma "
+    "SEA variance estimate: the receiver's band energies drawn as independent log-normal "
     "variables with the SEA mean and the predicted ensemble variance (scatter of modes "
     "between nominally identical builds only)"
 )
@@ -318,6 +319,7 @@ def probability_from_variance(
     samples: int = 4000,
     seed: int = 0,
     relative_variance: npt.ArrayLike | None = None,
+    distribution: Literal["gamma", "lognormal"] = DISTRIBUTION,
 ) -> pd.DataFrame:
     """Probability of meeting each target from the SEA ensemble variance (no re-solve).
 
@@ -333,22 +335,28 @@ def probability_from_variance(
         Draws of the receiver's band energies and the seed of the generator.
     relative_variance : array_like (N, B), optional
         :func:`seatool.analysis.confidence.relative_variances` if already at hand.
+    distribution : {'lognormal', 'gamma'}, optional
+        Distribution of each band energy (default log-normal, as the confidence bands;
+        :func:`seatool.physics.variance.level_quantiles` says why).
 
     Returns
     -------
     pandas.DataFrame
-        ``target, receiver, probability, standard_error, samples, nominal_met, method``.
+        ``target, receiver, probability, standard_error, samples, nominal_met, method``
+        (``method`` names the distribution when it is not the default).
 
     Notes
     -----
-    Each band energy of the receiver is drawn from a Gamma distribution with the SEA mean
-    and the relative variance r^2 of :func:`seatool.analysis.confidence.relative_variances`
-    (shape 1 / r^2), the bands independently of one another (different bands hold
+    Each band energy of the receiver is drawn from a log-normal distribution with the SEA
+    mean and the relative variance r^2 of
+    :func:`seatool.analysis.confidence.relative_variances` (s^2 = ln(1 + r^2);
+    :func:`seatool.physics.variance.energy_ratio_samples`), the bands independently of one another (different bands hold
     different modes), and every limit of the target is judged on each draw by
     :func:`margins_of_levels`. The fraction of S draws meeting them estimates the
     probability with the binomial standard error sqrt(p (1 - p) / S) (Cramer 1946,
-    Mathematical Methods of Statistics, sec. 16.4, from memory). Gamma: Johnson, Kotz &
-    Balakrishnan (1994), Continuous Univariate Distributions, vol. 1, ch. 17.
+    Mathematical Methods of Statistics, sec. 16.4, from memory). Log-normal and Gamma:
+    Johnson, Kotz & Balakrishnan (1994), Continuous Univariate Distributions, vol. 1,
+    ch. 14 and 17.
     """
     model = result.model
     r2_all = (
@@ -362,9 +370,7 @@ def probability_from_variance(
         i = model.index()[t.receiver]
         lv = _receiver_levels(result, t.receiver)
         r2 = np.nan_to_num(r2_all[i], nan=0.0)
-        pos = r2 > 0
-        shape = np.where(pos, 1.0 / np.where(pos, r2, 1.0), 1.0)
-        ratio = np.where(pos, rng.gamma(shape, 1.0 / shape, size=(samples, lv.size)), 1.0)
+        ratio = energy_ratio_samples(r2, samples, rng, distribution=distribution)
         draws = lv + db(np.maximum(ratio, 1e-30))
         p = float(np.mean(margins_of_levels(draws, model.bands, t, field=field).met))
         nominal = margins_of_levels(lv, model.bands, t, field=field)
@@ -376,7 +382,9 @@ def probability_from_variance(
                 "standard_error": float(np.sqrt(p * (1.0 - p) / samples)),
                 "samples": samples,
                 "nominal_met": bool(nominal.met),
-                "method": VARIANCE_METHOD,
+                "method": VARIANCE_METHOD
+                if distribution == DISTRIBUTION
+                else VARIANCE_METHOD.replace("log-normal", distribution),
             }
         )
     return pd.DataFrame(

@@ -313,6 +313,9 @@ def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
     )
     if rating is not None:
         lines.append(f"single-number rating of the transmission loss (ISO 717-1): {rating}")
+    note = seatool.analysis.panel.mounting_note(spec, bands, table)
+    if note is not None:
+        lines.append(note)
     return "\n".join(lines)
 
 

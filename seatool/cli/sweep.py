@@ -8,6 +8,7 @@ sobol_indices`, :func:`~seatool.analysis.sweep.write_table`, :func:`seatool.plot
 from __future__ import annotations
 
 import argparse
+import textwrap
 import time
 from typing import Any
 
@@ -61,6 +62,12 @@ def _args(p: argparse.ArgumentParser) -> None:
     )
     p.add_argument("--workers", type=int, help="worker processes of the local run (default: cores)")
     p.add_argument("--batch", type=int, help="evaluations per task (default: automatic)")
+    p.add_argument(
+        "--no-confidence",
+        action="store_true",
+        help="leave out the 5-95 %% levels of nominally identical builds (SEA ensemble "
+        "variance; table columns RECEIVER.dB_p05 ... and the printed range)",
+    )
 
 
 def _parameter(text: str) -> Any:
@@ -116,7 +123,8 @@ def _cmd(args: argparse.Namespace) -> int:
     data, file, base = seatool.analysis.read_data(args.model)
     t0 = time.perf_counter()
     res = sw.sweep(data, spec, file=file, base_dir=base, scheduler=args.scheduler,
-                   workers=args.workers, batch=args.batch)  # fmt: skip
+                   workers=args.workers, batch=args.batch,
+                   confidence=not args.no_confidence)  # fmt: skip
     took = time.perf_counter() - t0
     table = res.table()
     where = "this process" if args.scheduler == "serial" else (
@@ -125,13 +133,23 @@ def _cmd(args: argparse.Namespace) -> int:
     print("parameters: " + ", ".join(res.design.columns))
     print()
     rows = []
+    conf = res.overall_variance is not None
     for r, ref in zip(res.receivers, res.references, strict=True):
         for metric in ("dB", "dBA"):
             v = table[f"{r}.{metric}"].astype(float)
             if len(v) and v.notna().all():
+                band = []
+                if conf:  # the 5-95 % levels of builds, medians over the samples
+                    lo, hi = (table[f"{r}.{metric}_{p}"].astype(float).median()
+                              for p in ("p05", "p95"))  # fmt: skip
+                    band = [f"{lo:.1f}..{hi:.1f}"]
                 rows.append([r, metric, f"{v.min():.1f}", f"{v.median():.1f}", f"{v.max():.1f}",
-                             ref])  # fmt: skip
-    print("\n".join(fmt_table(["receiver", "level", "min", "median", "max", "reference"], rows)))
+                             *band, ref])  # fmt: skip
+    head = ["receiver", "level", "min", "median", "max"]
+    head += ["builds 5-95 % (median)"] if conf else []
+    print("\n".join(fmt_table([*head, "reference"], rows)))
+    if conf:
+        print("\n".join(textwrap.wrap(seatool.analysis.confidence.BAND_NOTE, 92)))
     met = [c for c in table.columns if c.endswith(".met")]
     if met:
         print()

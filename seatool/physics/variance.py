@@ -10,7 +10,9 @@ excitation coefficients (Langley & Brown 2004a, b). Poisson-distributed natural
 frequencies (Lyon 1969) are available for comparison.
 
 The single-frequency formula is :func:`seatool.physics.validity.relative_variance_goe`;
-the propagation through a coupled model is in :mod:`seatool.analysis.confidence`.
+the propagation through a coupled model is in :mod:`seatool.analysis.confidence`; the law
+that turns a relative variance into level quantiles is in
+:mod:`seatool.physics.level_distribution` (re-exported here).
 """
 
 from __future__ import annotations
@@ -23,15 +25,19 @@ from scipy import special
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
+from .level_distribution import DISTRIBUTION, energy_ratio_samples, level_quantiles
 from .validity import relative_variance_goe
 
 __all__ = [
     "ALPHA_POINT",
     "ALPHA_RAIN_ON_THE_ROOF",
     "alpha_point_forces",
+    "DISTRIBUTION",
     "combined_alpha",
+    "energy_ratio_samples",
     "goe_form_factor",
     "level_quantiles",
+    "point_response_cross_variance",
     "relative_variance_band",
     "relative_variance_alpha_slope",
     "product_variance_band",
@@ -52,7 +58,6 @@ _GL_X, _GL_W = np.polynomial.legendre.leggauss(16)
 _PANELS_PER_DECADE = 60
 # Above k B > _OSC_LIMIT the factor sin^2(pi k B) is replaced by its mean 1/2.
 _OSC_LIMIT = 77.0
-_RATIO_FLOOR = 1e-30
 
 
 def goe_form_factor(k: npt.ArrayLike) -> FloatArray:
@@ -148,6 +153,29 @@ def _form_factor_integral(c: FloatArray, bw: FloatArray) -> FloatArray:
     return np.asarray(out + lo, dtype=np.float64)  # [0, lo]: b ~ 1, exp ~ 1, sinc ~ 1
 
 
+# Values of _form_factor_integral by (c, B): a model re-solved with a few parameters changed
+# (sweeps, searches) keeps most subsystems' overlap and modes in band, and the integral is
+# the whole cost of relative_variance_band. Exact (the same floating-point values).
+_MEMO: dict[tuple[float, float], float] = {}
+_MEMO_LIMIT = 200_000
+
+
+def _form_factor_integral_memo(c: FloatArray, bw: FloatArray) -> FloatArray:
+    """:func:`_form_factor_integral`, remembering every value computed (up to
+    :data:`_MEMO_LIMIT` pairs; the memory is cleared when full)."""
+    keys = list(zip(c.tolist(), bw.tolist(), strict=True))
+    found = [_MEMO.get(key) for key in keys]
+    todo = [i for i, v in enumerate(found) if v is None]
+    out = np.array([np.nan if v is None else v for v in found], dtype=np.float64)
+    if todo:
+        new = _form_factor_integral(c[todo], bw[todo])
+        out[todo] = new
+        if len(_MEMO) + len(todo) > _MEMO_LIMIT:
+            _MEMO.clear()
+        _MEMO.update(zip((keys[i] for i in todo), new.tolist(), strict=True))
+    return out
+
+
 def relative_variance_band(
     modal_overlap: npt.ArrayLike,
     modes_in_band: npt.ArrayLike,
@@ -233,7 +261,7 @@ def relative_variance_band(
     a_ = np.broadcast_to(a, shape).ravel()
     r2 = 2.0 * a_ * _sinc2_exp_integral(c, np.pi * b_)
     if spacing == "goe":
-        r2 = r2 - 2.0 * _form_factor_integral(c, b_)
+        r2 = r2 - 2.0 * _form_factor_integral_memo(c, b_)
     return np.asarray(np.maximum(r2, 0.0).reshape(shape), dtype=np.float64)
 
 
@@ -277,6 +305,93 @@ def relative_variance_alpha_slope(
     b_ = np.broadcast_to(bw, shape).ravel().copy()
     out = 2.0 * _sinc2_exp_integral(c, np.pi * b_)
     return np.asarray(out.reshape(shape), dtype=np.float64)
+
+
+def point_response_cross_variance(
+    modal_overlap: npt.ArrayLike, modes_in_band: npt.ArrayLike
+) -> FloatArray:
+    """Extra relative variance of a band-averaged squared point response from its
+    cross-modal terms [-].
+
+    Parameters
+    ----------
+    modal_overlap : float or array_like
+        Modal overlap factor m [-], > 0.
+    modes_in_band : float or array_like
+        Expected number of modes in the band B [-], > 0.
+
+    Returns
+    -------
+    numpy.ndarray
+        r_x^2 [-]: the band average of |sum_j c_j H_j(f)|^2, with c_j = phi_j(x_1)
+        phi_j(x_2) products of independent zero-mean mode-shape values, has the relative
+        variance r^2(m, B, alpha_c) (:func:`relative_variance_band`, the modal sum's part)
+        plus r_x^2. It is the part that the signs of the c_j add: a response at a point is
+        a sum of complex modal amplitudes, not a sum of modal energies.
+
+    Notes
+    -----
+    With unit mean spacing, H(x, f) = 1 / (x - f - i m/2) and GOE natural frequencies, the
+    cross terms of E[|X(f)|^2 |X(f')|^2] add to the normalised covariance over the lag u
+
+        c_x(u) = (1 - beta) m^2 / (u^2 + m^2)
+                 - (4 m^2 / u^2) int_0^inf b(k) exp(-2 pi m k) sin^2(pi k u) dk,
+        beta = 2 int_0^inf b(k) exp(-2 pi m k) dk
+
+    (b the GOE two-level form factor, :func:`goe_form_factor`; the first term is the
+    Rayleigh-like correlation of a complex sum of many overlapping modes, reduced by level
+    repulsion; the second removes the pairs of one mode counted twice). Band averaging,
+    r_x^2 = (1/B) int_{-B}^{B} (1 - |u|/B) c_x(u) du, gives
+
+        r_x^2 = (1 - beta) (2m/B) [arctan(B/m) - (m / 2B) ln(1 + B^2/m^2)]
+                - (8 m^2 / B) int_0^inf b(k) exp(-2 pi m k) K(k) dk,
+        K(k) = pi k Si(2 pi k B) - sin^2(pi k B) / B - Cin(2 pi k B) / (2B)
+
+    (Si the sine integral, Cin(x) = gamma + ln x - Ci(x); Abramowitz & Stegun 5.2.1-5.2.2).
+    Limits: m -> 0: r_x^2 -> 0 (one mode at a time); m -> infinity: beta -> 0 and
+    r_x^2 -> pi m / B for B >> m, -> 1 for B << m (a complex Gaussian response at one
+    frequency). Derivation (Fourier transforms of products of Lorentzians) in
+    docs/theory/variance.md, section 2; checked against a Monte Carlo of point responses in
+    tests/physics/test_variance.py.
+
+    References
+    ----------
+    .. [1] Langley, R.S., Brown, A.W.M. (2004b). The ensemble statistics of the
+       band-averaged energy of a random system. J. Sound Vib. 275, 847-857 (from memory
+       for volume and pages; the spectral form with the GOE form factor).
+    .. [2] Mehta, M.L. (2004). Random Matrices, 3rd ed., Elsevier, ch. 6 (b(k)).
+    .. [3] Abramowitz, M., Stegun, I.A. (1964). Handbook of Mathematical Functions, NBS,
+       5.2 (sine and cosine integrals).
+    """
+    m = _positive("modal_overlap", modal_overlap)
+    bw = _positive("modes_in_band", modes_in_band)
+    shape = np.broadcast_shapes(m.shape, bw.shape)
+    m_ = np.broadcast_to(m, shape).ravel()[:, None]
+    b_ = np.broadcast_to(bw, shape).ravel()[:, None]
+    c = 2.0 * np.pi * m_
+    # composite Gauss-Legendre in ln k from 1e-6 / max(1, m, B) to 40 / (2 pi m)
+    lo = np.log(1e-6 / np.maximum(np.maximum(1.0, m_), b_))
+    hi = np.log(40.0 / c)
+    n_panels = 48  # 1e-6 relative against 160 panels (m 0.01-100, B 0.05-3000)
+    edges = np.linspace(0.0, 1.0, n_panels + 1)
+    left = lo + (hi - lo) * edges[None, :-1]
+    half = 0.5 * (hi - lo) / n_panels
+    t = (left[:, :, None] + half[:, :, None] * (_GL_X[None, None, :] + 1.0)).reshape(
+        m_.shape[0], n_panels * _GL_X.size
+    )
+    w = (half[:, :, None] * _GL_W[None, None, :]).repeat(n_panels, axis=1).reshape(t.shape)
+    k = np.exp(t)
+    weight = goe_form_factor(k) * np.exp(-c * k) * k * w  # dk = k dt
+    x = 2.0 * np.pi * k * b_
+    si, ci = special.sici(x)
+    cin = np.euler_gamma + np.log(x) - ci
+    kern = np.pi * k * si - np.sin(0.5 * x) ** 2 / b_ - cin / (2.0 * b_)
+    beta = 2.0 * (np.sum(goe_form_factor(k) * np.exp(-c * k) * k * w, axis=1) + np.exp(lo[:, 0]))
+    first = (1.0 - beta) * (2.0 * m_[:, 0] / b_[:, 0]) * (
+        np.arctan(b_[:, 0] / m_[:, 0]) - m_[:, 0] / (2.0 * b_[:, 0]) * np.log1p((b_[:, 0] / m_[:, 0]) ** 2)
+    )
+    second = 8.0 * m_[:, 0] ** 2 / b_[:, 0] * np.sum(weight * kern, axis=1)
+    return np.asarray(np.maximum(first - second, 0.0).reshape(shape), dtype=np.float64)
 
 
 def product_variance_band(
@@ -425,67 +540,4 @@ def combined_alpha(weights: npt.ArrayLike, alphas: npt.ArrayLike) -> FloatArray:
     num = (w**2 * (al - 1.0)).sum(axis=0)
     with np.errstate(divide="ignore", invalid="ignore"):
         out = np.where(total > 0, 1.0 + num / np.where(total > 0, total, 1.0) ** 2, 1.0)
-    return np.asarray(out, dtype=np.float64)
-
-
-def level_quantiles(
-    relative_variance: npt.ArrayLike,
-    probabilities: npt.ArrayLike,
-    *,
-    distribution: Literal["gamma", "lognormal"] = "gamma",
-) -> FloatArray:
-    """Level quantiles relative to the level of the mean energy [dB].
-
-    Parameters
-    ----------
-    relative_variance : float or array_like
-        r^2 = Var[E] / E[E]^2 [-], >= 0.
-    probabilities : float or array_like
-        Probabilities in (0, 1); a new trailing axis is added when it is an array (the
-        result has shape ``r2.shape + p.shape``).
-    distribution : {'gamma', 'lognormal'}, optional
-        Distribution of the energy with mean E[E] and relative variance r^2: Gamma
-        with shape 1 / r^2 (default) or log-normal.
-
-    Returns
-    -------
-    numpy.ndarray
-        10 lg(E_p / E[E]) [dB]: add to the SEA (mean) level to get the level that the
-        energy of a fraction p of the ensemble stays below. 0 where r^2 = 0; floored
-        at -300 dB (very large r^2 puts the low quantiles at practically zero energy).
-
-    Notes
-    -----
-    The Gamma distribution is the choice by default: it is the distribution of a sum of
-    squared Gaussian modal responses (an energy), becomes the exponential distribution
-    at r^2 = 1 (one Gaussian response pair) and the normal one at small r^2; the
-    log-normal form has the heavier low tail. docs/theory/variance.md compares both with
-    the Monte Carlo quantiles. Gamma quantiles: E_p / E[E] = r^2 P^-1(1 / r^2, p)
-    (regularised incomplete gamma function inverse); log-normal:
-    exp(-s^2 / 2 + s z_p), s^2 = ln(1 + r^2).
-
-    References
-    ----------
-    .. [1] Johnson, N.L., Kotz, S., Balakrishnan, N. (1994). Continuous Univariate
-       Distributions, vol. 1, 2nd ed., Wiley, ch. 14 (log-normal) and ch. 17 (gamma).
-    .. [2] Langley, R.S., Cotoni, V. (2004). J. Acoust. Soc. Am. 115(2), 706-718
-       (confidence bounds from the predicted mean and variance).
-    """
-    r2 = _nonnegative("relative_variance", relative_variance)
-    p = np.asarray(probabilities, dtype=np.float64)
-    if np.any((p <= 0) | (p >= 1)) or not np.all(np.isfinite(p)):
-        msg = "probabilities must lie strictly between 0 and 1"
-        raise ValueError(msg)
-    if distribution not in ("gamma", "lognormal"):
-        msg = f"distribution must be 'gamma' or 'lognormal', got {distribution!r}"
-        raise ValueError(msg)
-    r2e = r2.reshape(r2.shape + (1,) * p.ndim)
-    pos = r2e > 0
-    safe = np.where(pos, r2e, 1.0)
-    if distribution == "gamma":
-        ratio = special.gammaincinv(1.0 / safe, p) * safe
-    else:
-        s2 = np.log1p(safe)
-        ratio = np.exp(-0.5 * s2 + np.sqrt(s2) * special.ndtri(p))
-    out = np.where(pos, 10.0 * np.log10(np.maximum(ratio, _RATIO_FLOOR)), 0.0)
     return np.asarray(out, dtype=np.float64)

@@ -3,7 +3,8 @@
 References used by the checks:
 * Sharp, B.H. (1978), Noise Control Eng. 11, sound bridges: rigid point connections at
   spacing e add Delta R = 20 lg(e f_c) - 45 dB to the transmission loss, f_c the critical
-  frequency of the driven leaf (from memory);
+  frequency of the driven leaf, and rigid line connections at spacing b add
+  10 lg(b f_c) - 18 dB (both from memory);
 * the radiated power of an infinite plate driven by a point or line force, by numerical
   integration of its wavenumber spectrum over the radiating wavenumbers (an independent
   numerical method: the full plate response with bending stiffness and damping, scipy quad),
@@ -86,6 +87,60 @@ def test_point_and_line_radiation_against_wavenumber_integral(ratio):
     r_ln = bridges.line_bridge_power_ratio(f, 1.0, np.inf, m, width=width, c0=C0)
     w_line = float(r_ln) * RHO0 * C0
     assert w_line == pytest.approx(_radiated_line(f, d, m, 0.01), rel=tol)
+
+
+def _line_impedance(f: float, d: float, m: float, eta: float) -> complex:
+    """F'/v(0) of an infinite plate under a line force, by the inverse wavenumber transform.
+
+    v(0) = (j omega F' / pi) int_0^inf dk / (D (1 + j eta) k^4 - m omega^2); with k = k_B s
+    the integral is (k_B / (m omega^2)) int_0^inf ds / ((1 + j eta) s^4 - 1), evaluated by
+    scipy quad with a break point at the bending wavenumber s = 1.
+    """
+    w = 2 * math.pi * f
+    k_b = (m * w**2 / d) ** 0.25
+
+    def g(s: float) -> complex:
+        return 1.0 / ((1 + 1j * eta) * s**4 - 1.0)
+
+    parts = []
+    for take in (lambda z: z.real, lambda z: z.imag):
+        near, _ = integrate.quad(lambda s, t=take: t(g(s)), 0, 2, points=[1.0], limit=800)
+        far, _ = integrate.quad(lambda s, t=take: t(g(s)), 2, np.inf)
+        parts.append(near + far)
+    integral = complex(parts[0], parts[1]) * k_b / (m * w**2)
+    return 1.0 / (1j * w / math.pi * integral)
+
+
+@pytest.mark.parametrize("spacing", [0.3, 0.6, 1.2])
+def test_rigid_line_bridges_from_the_wavenumber_integrals(spacing):
+    # Independent route for rigid line bridges at spacing b on a plate cover: the line
+    # impedance of the infinite plate by the inverse wavenumber transform of its response
+    # (no closed form used), times the power the line-driven plate radiates by the
+    # wavenumber integral of its full response (stiffness and damping), over the bare base
+    # radiating rho0 c0 per unit area. It gives the module's value within 0.3 dB at
+    # f = 0.18 f_c and Delta R = 10 lg(b f_c) - 10 lg(2 c0 / pi) = 10 lg(b f_c) - 23.4 dB
+    # (c0 = 343 m/s). Sharp (1978, Noise Control Eng. 11; as quoted by Bies & Hansen,
+    # Engineering Noise Control, sec. 8.2; constant from memory) gives 10 lg(b f_c) - 18 dB:
+    # 5.4 dB less bridge power. For rigid point bridges the same route agrees with Sharp's
+    # 20 lg(e f_c) - 45 dB within 0.2 dB (test above), so the two remembered constants are
+    # not consistent with one derivation; the model keeps the derived value, the larger
+    # (conservative) bridge power, and the difference is stated in docs/theory/treatment.md.
+    d, m, fc = GYPSUM
+    f = 500.0
+    z = _line_impedance(f, d, m, 1e-3)
+    np.testing.assert_allclose(  # the closed form 2 m c_B (1 + j) of the module's Notes
+        z, 2 * m * math.sqrt(2 * math.pi * f) * (d / m) ** 0.25 * (1 + 1j), rtol=2e-3
+    )
+    radiated = abs(z) ** 2 * _radiated_line(f, d, m, 1e-3)  # per length, v1 = 1 m/s
+    ratio = radiated / (spacing * RHO0 * C0)
+    got = bridges.line_bridge_power_ratio(
+        f, 1.0 / spacing, np.inf, m, cover_bending_stiffness=d, c0=C0
+    )
+    assert -10 * math.log10(float(got)) == pytest.approx(-10 * math.log10(ratio), abs=0.3)
+    derived = 10 * math.log10(spacing * fc) - 10 * math.log10(2 * C0 / math.pi)
+    assert -10 * math.log10(ratio) == pytest.approx(derived, abs=0.3)
+    sharp = 10 * math.log10(spacing * fc) - 18.0  # Sharp 1978, from memory
+    assert derived - sharp == pytest.approx(-5.4, abs=0.1)
 
 
 def test_point_impedance_is_the_infinite_plate_value():
