@@ -20,6 +20,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
+from seatool.analysis import _batched as batched_mod
 from seatool.analysis import uncertainty as unc_mod
 from seatool.analysis.uncertainty import read_uncertainty, spread
 from seatool.cli import main
@@ -196,7 +197,7 @@ factor = 1.2
     assert dense.method == "direct (batched dense)"
     monkeypatch.setattr(unc_mod, "ITERATIVE_ABOVE", 0)
     monkeypatch.setattr(solve_mod, "ITERATIVE_ABOVE", 0)
-    monkeypatch.setattr(unc_mod, "SAMPLE_GROUP_BYTES", 4000)  # several groups of samples
+    monkeypatch.setattr(batched_mod, "SAMPLE_GROUP_BYTES", 4000)  # several groups of samples
     it = spread(data, samples=60, seed=3, base_dir="models")
     assert it.method == "direct (batched sparse)"
     ok = np.isfinite(dense.levels())
