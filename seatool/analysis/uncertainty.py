@@ -336,6 +336,14 @@ def _base_array(model: Model, t: tuple[str, int]) -> Array:
     return np.asarray(p)
 
 
+def _samples_of(base: Array, s: int) -> Array:
+    """``s`` copies of ``base`` (K, B) as an (s, K, B) view of band-major memory (B, K, s):
+    the batched solves read every band's samples as one contiguous block."""
+    out = np.empty((base.shape[1], base.shape[0], s))
+    out[...] = base.T[:, :, None]
+    return out.transpose(2, 1, 0)
+
+
 def _run_dense(
     model: Model,
     unc: list[Uncertain],
@@ -360,9 +368,9 @@ def _run_dense(
     for start in range(0, ns, chunk):
         stop = min(ns, start + chunk)
         s = stop - start
-        damp = np.broadcast_to(base_damp, (s, n, nb)).copy()
-        modal = np.broadcast_to(base_modal, (s, n, nb)).copy()
-        eta = np.broadcast_to(base_eta, (s, *base_eta.shape)).copy()
+        damp, modal, eta = _samples_of(base_damp, s), _samples_of(base_modal, s), _samples_of(
+            base_eta, s
+        )
         exc_power = [
             np.broadcast_to(e.power, (s, nb)).copy() if e.power is not None else None
             for e in model.excitations
@@ -381,7 +389,7 @@ def _run_dense(
                 p = exc_power[i]
                 assert p is not None
                 exc_power[i] = u.apply(p, dd)
-        power = np.zeros((s, n, nb))
+        power = _samples_of(np.zeros((n, nb)), s)
         for e, p in zip(model.excitations, exc_power, strict=True):
             if p is not None:
                 power[:, exc_sub[e.subsystem]] += p
