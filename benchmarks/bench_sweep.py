@@ -73,7 +73,9 @@ def _pool(job: Any, values: np.ndarray, batch: int, workers: int) -> tuple[np.nd
     return np.concatenate([o[1] for o in sorted(out, key=lambda x: x[0])]), wall
 
 
-def _dask(data: Any, spec: SweepSpec, batch: int, workers: int) -> dict[str, float | np.ndarray]:
+def _dask(
+    data: Any, spec: SweepSpec, batch: int, workers: int, confidence: bool = True
+) -> dict[str, float | np.ndarray]:
     from distributed import Client, LocalCluster
 
     t0 = time.perf_counter()
@@ -85,20 +87,20 @@ def _dask(data: Any, spec: SweepSpec, batch: int, workers: int) -> dict[str, flo
         start = time.perf_counter() - t0
         cpu0 = client.run(time.process_time)
         t1 = time.perf_counter()
-        s = sweep(data, spec, scheduler=client, batch=batch)
+        s = sweep(data, spec, scheduler=client, batch=batch, confidence=confidence)
         wall = time.perf_counter() - t1
         cpu = sum(client.run(time.process_time).values()) - sum(cpu0.values())
     return {"start": start, "wall": wall, "cpu": cpu, "levels": s.levels}
 
 
-def full_run(samples: int, batch: int, workers: int, check: int) -> None:
+def full_run(samples: int, batch: int, workers: int, check: int, confidence: bool) -> None:
     """The whole design on dask only; a random subset re-evaluated serially."""
     data, file, base = read_data(MODEL)
     spec = SweepSpec(PARAMETERS, "lhs", samples, seed=0, receivers=("cab_air",))
     print(f"rail cab, 5 parameters, {samples:,} evaluations (Latin hypercube), batch {batch}, "
-          f"dask({workers}) only")  # fmt: skip
+          f"dask({workers}) only, confidence columns {'on' if confidence else 'off'}")  # fmt: skip
     print(_load())
-    r = _dask(data, spec, batch, workers)
+    r = _dask(data, spec, batch, workers, confidence)
     levels = np.asarray(r["levels"])
     assert levels.shape[0] == samples, f"{levels.shape[0]} rows for {samples} samples"
     dsg = design(spec, data, file=file, base_dir=base)
@@ -128,9 +130,14 @@ def main() -> None:
     ap.add_argument("--full", action="store_true", help="dask only, all samples (default 100,000)")
     ap.add_argument("--workers", type=int, default=2, help="worker processes of --full")
     ap.add_argument("--check", type=int, default=200, help="rows re-evaluated serially (--full)")
+    ap.add_argument(
+        "--no-confidence", action="store_true", help="leave out the confidence columns (--full)"
+    )
     args = ap.parse_args()
     if args.full:
-        full_run(args.samples or TARGET, args.batch, args.workers, args.check)
+        full_run(
+            args.samples or TARGET, args.batch, args.workers, args.check, not args.no_confidence
+        )
         return
     args.samples = args.samples or 1000
     data, file, base = read_data(MODEL)

@@ -314,59 +314,121 @@ def _solve_once(
     ]) if md.plates else np.zeros(0)  # fmt: skip
     cav_eta = _mode_loss(cav.frequency, bands, np.asarray(box.loss_factor))
     nk, nn, nl = plate_f.size, len(cav), w.size
-    forces, sources, col_weight = [], [], []
     line_band = pos[band_of_line]
-    for e in excitations:
-        if isinstance(e, PointForce):
-            i = [p.name for p in box.panels].index(e.panel)
-            fk = np.zeros(nk)
-            fk[md.slices[i]] = mb.plate_mode_shape(md.plates[i], *e.position)
-            forces.append(np.broadcast_to(fk[None, :, None], (nl, nk, 1)))
-            sources.append(np.zeros((nl, nn, 1)))
-            amp = _per_band(e.force, len(bands), e.name)
-            col_weight.append((amp**2)[line_band][:, None])
-        elif isinstance(e, DiffuseField):
-            i = [p.name for p in box.panels].index(e.panel)
-            dirs, wd = mb.diffuse_field_directions(*DIFFUSE_DIRECTIONS)
-            fk = np.zeros((nl, nk, len(wd)), dtype=complex)
-            fk[:, md.slices[i], :] = mb.plane_wave_modal_forces(md.plates[i], w / box.sound_speed,
-                                                                dirs)  # fmt: skip
-            forces.append(fk)
-            sources.append(np.zeros((nl, nn, len(wd))))
-            p2 = _per_band(e.mean_square_pressure, len(bands), e.name)
-            col_weight.append(0.5 * p2[line_band][:, None] * wd[None, :])
-        else:
-            q = mb.cavity_mode_shape(cav, e.position)
-            forces.append(np.zeros((nl, nk, 1)))
-            sources.append(np.broadcast_to(q[None, :, None], (nl, nn, 1)))
-            pw = _per_band(e.sound_power, len(bands), e.name)
-            q2 = mb.monopole_volume_velocity_squared(f, pw[line_band], density=box.density,
-                                                     sound_speed=box.sound_speed)  # fmt: skip
-            col_weight.append(q2[:, None])
-    rhs_f = np.concatenate(forces, axis=2)
-    rhs_q = np.concatenate(sources, axis=2)
-    cw = np.concatenate(col_weight, axis=1)  # (L, R)
+    loads = [_Load.of(e, box, md, f, line_band) for e in excitations]
+    nr = sum(ld.columns for ld in loads)
+    cw = np.concatenate([ld.weight for ld in loads], axis=1)  # (L, R)
     if solver == "auto":
         diffuse = any(isinstance(e, DiffuseField) for e in excitations)
-        solver = _cheaper(nk, nn, nl, rhs_f.shape[2], frequency_dependent=diffuse)
+        solver = _cheaper(nk, nn, nl, nr, frequency_dependent=diffuse)
     if solver == "coupled_modes" and nk > 0:
         modes = me.coupled_modes(plate_f, plate_m, plate_eta, cav.frequency, cav.norm, cav_eta,
                                  md.coupling, density=box.density, sound_speed=box.sound_speed)  # fmt: skip
-        vel, prs = me.solve_coupled_modes(modes, w, _constant(rhs_f), _constant(rhs_q))
+        n = len(modes)
+        step = max(1, _BLOCK_ELEMENTS // max(1, n * nr))
     else:
         solver = "direct"
         z = mc.modal_impedance(w, plate_f, plate_m, plate_eta) if nk else np.zeros((nl, 0), complex)
         y = mc.cavity_modal_admittance_term(w, cav.frequency, cav.norm, cav_eta,
                                             density=box.density, sound_speed=box.sound_speed)  # fmt: skip
-        vel, prs = mc.solve_coupled(z, y, md.coupling, rhs_f, rhs_q)
-    ms_p = np.einsum("n,lnr->lr", cav.norm / box.volume, np.abs(prs) ** 2)
-    out = {box.name: mc.line_average(np.sum(cw * ms_p, axis=1), weight, band_of_line, pos.size)}
+        ns, ng = min(nk, nn), max(nk, nn)
+        groups = mc.coupling_group_count(md.coupling)
+        if groups < ns:  # the coupling groups are eliminated: (lines, K, G) temporaries
+            ns, ng = nk, groups
+        step = max(1, _BLOCK_ELEMENTS // max(1, ns * max(ng, nr)))
+    ms_p = np.empty(nl)
+    ms_v = np.empty((nl, len(box.panels)))
+    norm_p = cav.norm / box.volume
+    rhs_q = np.concatenate([ld.source(nn) for ld in loads], axis=1)  # the same at every line
+    for s in range(0, nl, step):  # blocks of lines: the responses are reduced as they come
+        sl = slice(s, min(nl, s + step))
+        rhs_f = np.zeros((sl.stop - sl.start, nk, nr), dtype=np.complex128)
+        col = 0
+        for ld in loads:
+            ld.write_force(sl, rhs_f[:, :, col : col + ld.columns])
+            col += ld.columns
+        if solver == "coupled_modes":
+            vel, prs = me.solve_coupled_modes(modes, w[sl], _constant(rhs_f), rhs_q)
+            p2 = np.einsum("n,lnr->lr", norm_p, _abs2(prs))
+        else:
+            vel, p2 = mc.solve_coupled_squares(z[sl], y[sl], md.coupling, rhs_f, rhs_q,
+                                               pressure_weight=norm_p)  # fmt: skip
+        ms_p[sl] = np.sum(cw[sl] * p2, axis=1)
+        for j, sj in enumerate(md.slices):
+            ms_v[sl, j] = np.sum(cw[sl] * 0.25 * np.sum(_abs2(vel[:, sj, :]), axis=1), axis=1)
+    out = {box.name: mc.line_average(ms_p, weight, band_of_line, pos.size)}
     counts = {box.name: len(cav)}
-    for p, sl, pm in zip(box.panels, md.slices, md.plates, strict=True):
-        ms_v = 0.25 * np.sum(np.abs(vel[:, sl, :]) ** 2, axis=1)
-        out[p.name] = mc.line_average(np.sum(cw * ms_v, axis=1), weight, band_of_line, pos.size)
+    for j, (p, pm) in enumerate(zip(box.panels, md.plates, strict=True)):
+        out[p.name] = mc.line_average(ms_v[:, j], weight, band_of_line, pos.size)
         counts[p.name] = len(pm)
     return out, counts, solver
+
+
+#: Complex numbers held per block of lines (about 8 MB): the reduced matrices of the direct
+#: solve or the responses to every load. Blocks of a few MB keep the temporaries in memory
+#: that is reused rather than in fresh pages (page faults are system time).
+_BLOCK_ELEMENTS = 500_000
+
+
+def _abs2(x: npt.NDArray[np.complex128]) -> Array:
+    """|x|^2 elementwise."""
+    return np.asarray(x.real**2 + x.imag**2, dtype=np.float64)
+
+
+@dataclass(frozen=True)
+class _Load:
+    """One excitation's right-hand sides: a constant modal force or source vector, or
+    per-line plane-wave forces (``directions``), and the weight of each column per line."""
+
+    panel_slice: slice | None
+    force_vector: Array | None
+    source_vector: Array | None
+    plate: mb.PlateModes | None
+    directions: Array | None
+    wavenumber: Array
+    weight: Array  # (L, columns)
+
+    @property
+    def columns(self) -> int:
+        return int(self.weight.shape[1])
+
+    @classmethod
+    def of(cls, e: Excitation, box: ModalBox, md: _Modes, f: Array,
+           line_band: npt.NDArray[np.int64]) -> _Load:  # fmt: skip
+        nb = len(box.bands)
+        k = 2.0 * np.pi * f / box.sound_speed
+        if isinstance(e, PointForce):
+            i = [p.name for p in box.panels].index(e.panel)
+            amp = _per_band(e.force, nb, e.name)
+            return cls(md.slices[i], mb.plate_mode_shape(md.plates[i], *e.position), None,
+                       None, None, k, (amp**2)[line_band][:, None])  # fmt: skip
+        if isinstance(e, DiffuseField):
+            i = [p.name for p in box.panels].index(e.panel)
+            dirs, wd = mb.diffuse_field_directions(*DIFFUSE_DIRECTIONS)
+            p2 = _per_band(e.mean_square_pressure, nb, e.name)
+            return cls(md.slices[i], None, None, md.plates[i], dirs, k,
+                       0.5 * p2[line_band][:, None] * wd[None, :])  # fmt: skip
+        q = mb.cavity_mode_shape(md.cavity, e.position)
+        pw = _per_band(e.sound_power, nb, e.name)
+        q2 = mb.monopole_volume_velocity_squared(f, pw[line_band], density=box.density,
+                                                 sound_speed=box.sound_speed)  # fmt: skip
+        return cls(None, None, q, None, None, k, q2[:, None])
+
+    def write_force(self, sl: slice, out: npt.NDArray[np.complex128]) -> None:
+        """Write the generalised forces of the lines ``sl`` into ``out`` (lines, nk,
+        columns), which holds zeros."""
+        if self.force_vector is not None:
+            out[:, self.panel_slice, 0] = self.force_vector
+        elif self.plate is not None and self.directions is not None:
+            mb.plane_wave_modal_forces(self.plate, self.wavenumber[sl], self.directions,
+                                       out=out[:, self.panel_slice, :])  # fmt: skip
+
+    def source(self, nn: int) -> npt.NDArray[np.complex128]:
+        """Modal volume-velocity sources (the same at every line), shape (nn, columns)."""
+        out = np.zeros((nn, self.columns), dtype=np.complex128)
+        if self.source_vector is not None:
+            out[:, 0] = self.source_vector
+        return out
 
 
 def _constant(rhs: npt.NDArray[np.complex128] | Array) -> npt.NDArray[np.complex128] | Array:

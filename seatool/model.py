@@ -11,8 +11,8 @@ directly in Python; solving never mutates them.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field, replace
-from typing import Literal
+from dataclasses import dataclass, field
+from typing import Literal, TypeVar
 
 import numpy as np
 import numpy.typing as npt
@@ -35,6 +35,7 @@ __all__ = [
 
 Quantity = Literal["sound_pressure", "velocity", "energy"]
 Array = npt.NDArray[np.float64]
+_R = TypeVar("_R")
 
 
 class ModelError(ValueError):
@@ -42,6 +43,9 @@ class ModelError(ValueError):
 
 
 def _frozen(a: npt.ArrayLike, nb: int, what: str) -> Array:
+    """``a`` as a read-only float array of nb band values (kept if it is one already)."""
+    if _is_frozen(a, nb):
+        return a  # type: ignore[return-value]
     arr = np.array(a, dtype=float)
     if arr.ndim == 0:
         arr = np.full(nb, float(arr))
@@ -262,49 +266,21 @@ class Model:
             raise ModelError(f"duplicate subsystem names: {', '.join(dup)}")
         if not names:
             raise ModelError("a model needs at least one subsystem")
-        known = set(names)
-        subs = []
-        for s in self.subsystems:
-            md = _frozen(s.modal_density, nb, f"subsystems.{s.name}.modal_density")
-            dm = _frozen(s.damping, nb, f"subsystems.{s.name}.damping")
-            if not s.sink and not np.all(np.isfinite(md) & (md > 0)):
-                raise ModelError(f"subsystems.{s.name}.modal_density must be positive and finite")
-            if not np.all(np.isfinite(dm) & (dm >= 0)):
-                raise ModelError(f"subsystems.{s.name}.damping must be >= 0 and finite")
-            subs.append(_replace(s, modal_density=md, damping=dm))
-        object.__setattr__(self, "subsystems", tuple(subs))
-        object.__setattr__(self, "_by_name", {s.name: s for s in subs})
-        cons = []
-        cnames: set[str] = set()
-        for c in self.connections:
-            if c.name in cnames:
-                raise ModelError(f"duplicate connection name {c.name!r}")
-            cnames.add(c.name)
-            for end in (c.a, c.b):
-                if end not in known:
-                    raise ModelError(f"connections.{c.name}: unknown subsystem {end!r}")
-            if c.a == c.b:
-                raise ModelError(f"connections.{c.name}: a subsystem cannot connect to itself")
-            eta = _frozen(c.coupling_loss_factor, nb, f"connections.{c.name}.coupling_loss_factor")
-            if not np.all(np.isfinite(eta) & (eta > 0)):
-                raise ModelError(f"connections.{c.name}.coupling_loss_factor must be positive")
-            sa, sb = self.subsystem(c.a), self.subsystem(c.b)
-            if sa.sink and sb.sink:
-                raise ModelError(f"connections.{c.name}: two exterior sinks cannot be connected")
-            if sa.sink:
-                raise ModelError(
-                    f"connections.{c.name}: state the coupling from the structure to the exterior "
-                    f"(put {c.b!r} first in 'between')"
-                )
-            cons.append(_replace(c, coupling_loss_factor=eta))
-        object.__setattr__(self, "connections", tuple(cons))
+        subs = _checked_subsystems(self.subsystems, nb)
+        object.__setattr__(self, "subsystems", subs)
+        by_name = {s.name: s for s in subs}
+        object.__setattr__(self, "_by_name", by_name)
+        sinks = {s.name for s in subs if s.sink}
+        object.__setattr__(
+            self, "connections", _checked_connections(self.connections, nb, by_name, sinks)
+        )
         exs = []
         enames: set[str] = set()
         for e in self.excitations:
             if e.name in enames:
                 raise ModelError(f"duplicate excitation name {e.name!r}")
             enames.add(e.name)
-            if e.subsystem not in known:
+            if e.subsystem not in by_name:
                 raise ModelError(f"excitations.{e.name}: unknown subsystem {e.subsystem!r}")
             if e.drive == "power":
                 if e.power is None:
@@ -312,14 +288,14 @@ class Model:
                 p = _frozen(e.power, nb, f"excitations.{e.name}.power")
                 if not np.all(np.isfinite(p) & (p >= 0)):
                     raise ModelError(f"excitations.{e.name}.power must be >= 0 and finite")
-                exs.append(_replace(e, power=p))
+                exs.append(e if p is e.power else _with(e, power=p))
             else:
                 if e.energy is None:
                     raise ModelError(f"excitations.{e.name}: energy missing")
                 en = _frozen(e.energy, nb, f"excitations.{e.name}.energy")
                 if not np.all(np.isfinite(en) & (en >= 0)):
                     raise ModelError(f"excitations.{e.name}.energy must be >= 0 and finite")
-                exs.append(_replace(e, energy=en))
+                exs.append(e if en is e.energy else _with(e, energy=en))
         held = [e.subsystem for e in exs if e.drive == "prescribed"]
         for n in set(held):
             if held.count(n) > 1:
@@ -329,7 +305,7 @@ class Model:
                     f"subsystem {n!r} has a prescribed level and an input power; "
                     "a held level already fixes its energy"
                 )
-            if self.subsystem(n).sink:
+            if n in sinks:
                 raise ModelError(f"the exterior {n!r} cannot have a prescribed level")
         object.__setattr__(self, "excitations", tuple(exs))
         tgs = []
@@ -338,16 +314,16 @@ class Model:
             if t.name in tnames:
                 raise ModelError(f"duplicate target name {t.name!r}")
             tnames.add(t.name)
-            if t.receiver not in known:
+            if t.receiver not in by_name:
                 raise ModelError(f"targets.{t.name}: unknown subsystem {t.receiver!r}")
-            if self.subsystem(t.receiver).sink:
+            if t.receiver in sinks:
                 raise ModelError(f"targets.{t.name}: the exterior sink has no level")
             if not t.limits and t.band_limit is None:
                 raise ModelError(f"targets.{t.name}: no limit given")
             bl = None
             if t.band_limit is not None:
                 bl = _frozen(t.band_limit, nb, f"targets.{t.name}.band_limit")
-            tgs.append(_replace(t, limits=dict(t.limits), band_limit=bl))
+            tgs.append(_with(t, limits=dict(t.limits), band_limit=bl))
         object.__setattr__(self, "targets", tuple(tgs))
         boxes: set[str] = set()
         for lf in self.low_frequency:
@@ -355,12 +331,12 @@ class Model:
             if lf.cavity in boxes:
                 raise ModelError(f"{where}: the cavity is asked for twice")
             boxes.add(lf.cavity)
-            if lf.cavity not in known or self.subsystem(lf.cavity).quantity != "sound_pressure":
+            if lf.cavity not in by_name or by_name[lf.cavity].quantity != "sound_pressure":
                 raise ModelError(f"{where}: not a cavity of the model")
             if not lf.panels:
                 raise ModelError(f"{where}: name at least one panel")
             for name in lf.panels:
-                if name not in known or self.subsystem(name).quantity != "velocity":
+                if name not in by_name or by_name[name].quantity != "velocity":
                     raise ModelError(f"{where}.panels.{name}: not a panel of the model")
 
     # -- lookup -------------------------------------------------------------------------
@@ -377,5 +353,137 @@ class Model:
         return {s.name: i for i, s in enumerate(self.subsystems)}
 
 
-def _replace(obj: object, **changes: object):  # type: ignore[no-untyped-def]
-    return replace(obj, **changes)  # type: ignore[type-var]
+def _is_frozen(a: object, nb: int) -> bool:
+    """True for a read-only float array of shape (nb,) that nothing can change (its base,
+    if any, is read-only too): such an array is kept as it is, not copied."""
+    if type(a) is not np.ndarray or a.dtype != np.float64 or a.shape != (nb,):
+        return False
+    if a.flags.writeable:
+        return False
+    base = a.base
+    return base is None or (isinstance(base, np.ndarray) and not base.flags.writeable)
+
+
+def _frozen_rows(arrays: list[object], nb: int) -> list[Array] | None:
+    """Read-only copies of many per-band arrays at once (rows of one stacked array), or
+    None if any is not already a float array of shape (nb,) (then each is checked alone)."""
+    for a in arrays:
+        if not isinstance(a, np.ndarray) or a.shape != (nb,):
+            return None
+    block = np.array(arrays, dtype=float)
+    block.setflags(write=False)
+    return list(block)
+
+
+def _freeze_field(
+    records: tuple[Subsystem, ...] | tuple[Connection, ...], attr: str, nb: int
+) -> list[Array]:
+    """The ``attr`` arrays of the records, every one read-only: kept where already frozen,
+    the others copied together (raises ModelError from :func:`_frozen` for a bad shape)."""
+    out: list[Array] = [getattr(r, attr) for r in records]
+    todo = [i for i, a in enumerate(out) if not _is_frozen(a, nb)]
+    if todo:
+        rows = _frozen_rows([out[i] for i in todo], nb)
+        if rows is None:
+            rows = [_frozen(out[i], nb, attr) for i in todo]
+        for i, row in zip(todo, rows, strict=True):
+            out[i] = row
+    return out
+
+
+def _checked_subsystems(subsystems: tuple[Subsystem, ...], nb: int) -> tuple[Subsystem, ...]:
+    """The subsystems with read-only per-band arrays, checked all at once.
+
+    Records whose arrays are already frozen are kept, not copied. If anything is wrong,
+    the records are checked one by one so that the error is the first in model order, with
+    the same message as always.
+    """
+    try:
+        md = _freeze_field(subsystems, "modal_density", nb)
+        dm = _freeze_field(subsystems, "damping", nb)
+    except (ModelError, ValueError, TypeError):  # checked one by one below
+        md = dm = []
+    if md:
+        m, d = np.array(md), np.array(dm)
+        sink = np.fromiter((s.sink for s in subsystems), bool, len(subsystems))
+        with np.errstate(invalid="ignore"):
+            ok = ((np.isfinite(m) & (m > 0)).all(axis=1) | sink) & (np.isfinite(d) & (d >= 0)).all(
+                axis=1
+            )
+        if ok.all():
+            return tuple(
+                s
+                if (a is s.modal_density and b is s.damping)
+                else _with(s, modal_density=a, damping=b)
+                for s, a, b in zip(subsystems, md, dm, strict=True)
+            )
+    return tuple(_checked_subsystem(s, nb) for s in subsystems)  # raises the first error
+
+
+def _checked_subsystem(s: Subsystem, nb: int) -> Subsystem:
+    md = _frozen(s.modal_density, nb, f"subsystems.{s.name}.modal_density")
+    dm = _frozen(s.damping, nb, f"subsystems.{s.name}.damping")
+    if not s.sink and not np.all(np.isfinite(md) & (md > 0)):
+        raise ModelError(f"subsystems.{s.name}.modal_density must be positive and finite")
+    if not np.all(np.isfinite(dm) & (dm >= 0)):
+        raise ModelError(f"subsystems.{s.name}.damping must be >= 0 and finite")
+    return _with(s, modal_density=md, damping=dm)
+
+
+def _checked_connections(
+    connections: tuple[Connection, ...], nb: int, known: Mapping[str, Subsystem], sinks: set[str]
+) -> tuple[Connection, ...]:
+    """The connections with read-only coupling loss factors, checked all at once (one by
+    one if anything is wrong, so that the first error in model order is raised)."""
+    if not connections:
+        return ()
+    try:
+        etas = _freeze_field(connections, "coupling_loss_factor", nb)
+    except (ModelError, ValueError, TypeError):  # checked one by one below
+        etas = []
+    if etas:
+        e = np.array(etas)
+        with np.errstate(invalid="ignore"):
+            ok = bool((np.isfinite(e) & (e > 0)).all())
+        names = {c.name for c in connections}
+        ok = ok and len(names) == len(connections)
+        ok = ok and all(
+            c.a in known and c.b in known and c.a != c.b and c.a not in sinks for c in connections
+        )
+        if ok:
+            return tuple(
+                c if eta is c.coupling_loss_factor else _with(c, coupling_loss_factor=eta)
+                for c, eta in zip(connections, etas, strict=True)
+            )
+    cons = []
+    cnames: set[str] = set()
+    for c in connections:  # one by one: raises the first error in model order
+        if c.name in cnames:
+            raise ModelError(f"duplicate connection name {c.name!r}")
+        cnames.add(c.name)
+        for end in (c.a, c.b):
+            if end not in known:
+                raise ModelError(f"connections.{c.name}: unknown subsystem {end!r}")
+        if c.a == c.b:
+            raise ModelError(f"connections.{c.name}: a subsystem cannot connect to itself")
+        eta = _frozen(c.coupling_loss_factor, nb, f"connections.{c.name}.coupling_loss_factor")
+        if not np.all(np.isfinite(eta) & (eta > 0)):
+            raise ModelError(f"connections.{c.name}.coupling_loss_factor must be positive")
+        if c.a in sinks and c.b in sinks:
+            raise ModelError(f"connections.{c.name}: two exterior sinks cannot be connected")
+        if c.a in sinks:
+            raise ModelError(
+                f"connections.{c.name}: state the coupling from the structure to the exterior "
+                f"(put {c.b!r} first in 'between')"
+            )
+        cons.append(_with(c, coupling_loss_factor=eta))
+    return tuple(cons)
+
+
+def _with(obj: _R, **changes: object) -> _R:
+    """A copy of the frozen record ``obj`` with ``changes`` (no re-validation: the fields
+    are already checked; cheaper than :func:`dataclasses.replace`)."""
+    new = object.__new__(type(obj))
+    new.__dict__.update(obj.__dict__)
+    new.__dict__.update(changes)
+    return new

@@ -39,7 +39,13 @@ from .kinds.plausibility import check_model
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
 from .kinds.spreads import read_uncertainty_section
-from .kinds.validate import check, check_derived, check_value, read_material_section
+from .kinds.validate import (
+    check,
+    check_derived,
+    check_value,
+    positive_finite,
+    read_material_section,
+)
 from .model import Connection, Excitation, Model, ModelError, Subsystem
 from .targetfile import read_targets
 
@@ -75,6 +81,7 @@ _TOP_KEYS = (
 )
 
 _MISSING = object()
+_MIN, _MAX = np.minimum.reduce, np.maximum.reduce
 
 @dataclass(frozen=True)
 class LoadOptions:
@@ -116,17 +123,23 @@ MAX_DEPTH = 32
 
 def _depth(value: Any, limit: int) -> int:
     """Nesting depth of parsed TOML data, counted up to ``limit`` (iterative)."""
-    stack = [(value, 1)]
-    deepest = 0
-    while stack:
-        v, d = stack.pop()
-        deepest = max(deepest, d)
-        if d > limit:
-            return d
-        if isinstance(v, dict):
-            stack.extend((x, d + 1) for x in v.values())
-        elif isinstance(v, list):
-            stack.extend((x, d + 1) for x in v)
+    deepest = 1
+    level = [value]  # the containers at depth d (scalars count at their own depth only)
+    d = 1
+    while level:
+        nested = []
+        for v in level:
+            for x in v.values() if isinstance(v, dict) else v if isinstance(v, list) else ():
+                if isinstance(x, dict | list):
+                    nested.append(x)
+                else:
+                    deepest = d + 1
+        if nested:
+            deepest = d + 1
+        if deepest > limit:
+            return deepest
+        level = nested
+        d += 1
     return deepest
 
 
@@ -254,6 +267,7 @@ def _kind_of(
     return kinds[kind]
 
 
+@np.errstate(all="ignore")  # derive functions may meet inf/nan; the results are checked
 def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
     out: list[Subsystem] = []
     if data is _MISSING:
@@ -280,12 +294,11 @@ def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
         if values is None:
             continue
         n = len(rd.problems)
-        with np.errstate(all="ignore"):
-            try:
-                got = kind.derive(rd, name, values, s, path)
-            except (ValueError, ArithmeticError) as exc:
-                rd.error(path, f"cannot derive the subsystem from these values: {exc}")
-                continue
+        try:
+            got = kind.derive(rd, name, values, s, path)
+        except (ValueError, ArithmeticError) as exc:
+            rd.error(path, f"cannot derive the subsystem from these values: {exc}")
+            continue
         if got is None or len(rd.problems) > n:
             continue
         subs = got if isinstance(got, list) else [got]
@@ -307,19 +320,24 @@ def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
 
 def _derived_ok(rd: Reader, subs: list[Subsystem], path: str, s: Mapping[str, Any]) -> bool:
     """Derived modal densities, masses and volumes must be finite and positive."""
-    keys = tuple(f"{path}.{k}" for k in s if k not in ("kind", "description", "damping"))
     ok = True
     for sub in subs:
         if sub.sink:
             continue
-        derived: dict[str, Any] = {f"modal density of {sub.name!r}": sub.modal_density}
-        if sub.mass is not None:
-            derived[f"mass of {sub.name!r}"] = sub.mass
-        if sub.volume is not None:
-            derived[f"volume of {sub.name!r}"] = sub.volume
-        ok = check_derived(rd, path, derived, keys) and ok
+        if not (
+            positive_finite(sub.modal_density)
+            and (sub.mass is None or positive_finite(sub.mass))
+            and (sub.volume is None or positive_finite(sub.volume))
+        ):
+            derived: dict[str, Any] = {f"modal density of {sub.name!r}": sub.modal_density}
+            if sub.mass is not None:
+                derived[f"mass of {sub.name!r}"] = sub.mass
+            if sub.volume is not None:
+                derived[f"volume of {sub.name!r}"] = sub.volume
+            keys = tuple(f"{path}.{k}" for k in s if k not in ("kind", "description", "damping"))
+            ok = check_derived(rd, path, derived, keys) and ok
         dm = np.asarray(sub.damping, dtype=float)
-        if not np.all(np.isfinite(dm) & (dm >= 0)):
+        if dm.size and not (_MIN(dm, axis=None) >= 0.0 and _MAX(dm, axis=None) < np.inf):
             rd.error(f"{path}.damping", "the derived damping loss factor is not finite and >= 0")
             ok = False
     return ok
@@ -328,6 +346,7 @@ def _derived_ok(rd: Reader, subs: list[Subsystem], path: str, s: Mapping[str, An
 # Connections ----------------------------------------------------------------------------
 
 
+@np.errstate(all="ignore")  # derive functions may meet inf/nan; the results are checked
 def _read_connections(
     rd: Reader, data: Any, subs: dict[str, Subsystem], declared: Mapping[str, None]
 ) -> list[Connection]:
@@ -357,7 +376,9 @@ def _read_connections(
             )
             continue
         names = [
-            rd.name_ref(nm, f"{path}.between[{k}]", declared, "subsystem")
+            nm
+            if isinstance(nm, str) and nm in declared  # the common case: no message to build
+            else rd.name_ref(nm, f"{path}.between[{k}]", declared, "subsystem")
             for k, nm in enumerate(btw)
         ]
         if None in names:
@@ -380,16 +401,15 @@ def _read_connections(
         if values is None:
             continue
         n = len(rd.problems)
-        with np.errstate(all="ignore"):
-            try:
-                got = kind.derive(rd, name, values, s, ends, subs, path)
-            except (ValueError, ArithmeticError) as exc:
-                rd.error(path, f"cannot derive the coupling from these values: {exc}")
-                continue
+        try:
+            got = kind.derive(rd, name, values, s, ends, subs, path)
+        except (ValueError, ArithmeticError) as exc:
+            rd.error(path, f"cannot derive the coupling from these values: {exc}")
+            continue
         if got is None or len(rd.problems) > n:
             continue
         cons = got if isinstance(got, list) else [got]
-        if all(
+        if all(positive_finite(c.coupling_loss_factor) for c in cons) or all(
             check_derived(
                 rd,
                 path,

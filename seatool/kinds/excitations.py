@@ -17,13 +17,12 @@ import numpy.typing as npt
 from .. import levels
 from ..model import Connection, Subsystem
 from ..physics import mobility as mob
-from ..physics import plates, transmission
+from ..physics import plates, sandwich, transmission
 from ..physics.radiation import radiation_efficiency_band
 from ..properties import BeamProps, PanelProps, is_flat_panel, takes_point_force
 from .fields import bands_of
 from .links import treatment_factor
 from .params import Kind, Param
-from .plates import sandwich_critical_frequency
 from .reader import Reader
 from .validate import read_fluid
 
@@ -134,7 +133,7 @@ def _incident_fluid(
         return None
     c0 = fluid.sound_speed
     if p.section is not None:
-        f_c = sandwich_critical_frequency(p.section, c0)
+        f_c = sandwich.sandwich_critical_frequency(p.section, c0)
     else:
         f_c = float(plates.critical_frequency(p.bending_stiffness, p.mass_per_area, c0))
     return float(fluid.density), float(c0), float(f_c)

@@ -40,10 +40,13 @@ __all__ = [
 
 Array = npt.NDArray[np.float64]
 
-#: ``transmission(f, plates, source, incident)``: diffuse-field ``tau_bar[b, p, t]``
-#: ``(B, N, 3)`` of a line junction for the bands ``f`` [Hz] (the plates of those bands,
-#: ``incident`` one of :data:`seatool.physics.junctions.WAVE_TYPES`).
-Transmission = Callable[[Array, Sequence[junctions.JunctionPlate], int, str], Array]
+#: ``transmission(f, plates, incidents)``: diffuse-field ``tau_bar[i, b, p, t]``
+#: ``(I, B, N, 3)`` of a line junction for the bands ``f`` [Hz] (the plates of those bands)
+#: and each ``(source plate, incident wave)`` of ``incidents`` (wave one of
+#: :data:`seatool.physics.junctions.WAVE_TYPES`), all solved as one stack.
+Transmission = Callable[
+    [Array, Sequence[junctions.JunctionPlate], Sequence[tuple[int, str]]], Array
+]
 
 #: Default junction angles [deg] by number of plates: L, T (the second plate is the stem), X.
 _DEFAULT_ANGLES = {2: (0.0, 90.0), 3: (0.0, 90.0, 180.0), 4: (0.0, 90.0, 180.0, 270.0)}
@@ -167,13 +170,12 @@ _WAVES = junctions.WAVE_TYPES
 
 
 def _rigid(
-    f: Array, plates: Sequence[junctions.JunctionPlate], source: int, incident: str
+    f: Array, plates: Sequence[junctions.JunctionPlate], incidents: Sequence[tuple[int, str]]
 ) -> Array:
-    return junctions.line_junction_transmission_diffuse(
+    return junctions.line_junction_transmission_diffuse_many(
         f,
-        plates,
-        source=source,
-        incident=incident,  # type: ignore[arg-type]
+        [[p] * f.size for p in plates],
+        incidents,  # type: ignore[arg-type]
     )
 
 
@@ -262,15 +264,27 @@ def line_connections(
             ):
                 fd[w] = other
         fields.append(fd)
+    # Each unordered pair of wave fields is stated once, from the lower to the higher
+    # (plate, wave) index: an incident field is needed only if a higher one exists.
+    present = [(i, _WAVES.index(a)) for i, fi in enumerate(fields) for a in fi]
+    needed = [
+        (i, a) for i, fi in enumerate(fields) for a in fi if (i, _WAVES.index(a)) < max(present)
+    ]
+    taus = {key: np.empty((nb, len(ends), 3)) for key in needed}
+    if needed:
+        for idx in groups.values():
+            plates = [pp[idx[0]] for pp in per_plate]
+            tau_many = transmission(f[idx], plates, needed)
+            for k, key in enumerate(needed):
+                taus[key][idx] = tau_many[k]
     out: list[Connection] = []
     for i, fi in enumerate(fields):
         area_i = float(ends[i].props.area)  # type: ignore[union-attr]
         for a, src in fi.items():
             ia = _WAVES.index(a)
-            tau = np.empty((nb, len(ends), 3))
-            for idx in groups.values():
-                plates = [pp[idx[0]] for pp in per_plate]
-                tau[idx] = transmission(f[idx], plates, i, a)
+            if (i, a) not in taus:
+                continue  # the highest field: every pair with it is stated from the other end
+            tau = taus[(i, a)]
             cg = group_speed(src, per_plate[i][0], a, f)
             for j, fj in enumerate(fields):
                 for b, dst in fj.items():

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any
 
 __all__ = ["FAMILIES", "Kind", "Param", "RAW_TYPES", "TYPE_NAMES", "type_doc"]
@@ -170,12 +171,12 @@ class Kind:
         if len(set(names)) != len(names):
             raise ValueError(f"Kind {self.name!r}: a parameter is declared twice")
 
-    @property
+    @cached_property
     def allowed(self) -> tuple[str, ...]:
         """Every key its table may have."""
         return (*self.implicit, *(p.name for p in self.params))
 
-    @property
+    @cached_property
     def required(self) -> tuple[str, ...]:
         return tuple(p.name for p in self.params if p.required)
 

@@ -7,12 +7,10 @@ returning the component's wave fields; the formulas are in :mod:`seatool.physics
 from __future__ import annotations
 
 import dataclasses
-import math
 from typing import Any
 
 import numpy as np
 import numpy.typing as npt
-from scipy import optimize
 
 from ..model import Subsystem
 from ..physics import orthotropic_plates, plates, sandwich
@@ -37,7 +35,6 @@ __all__ = [
     "PLATE",
     "RIBBED_PLATE",
     "SANDWICH_PANEL",
-    "sandwich_critical_frequency",
 ]
 
 Array = npt.NDArray[np.float64]
@@ -153,23 +150,6 @@ def _orthotropic(
     )  # fmt: skip
 
 
-def sandwich_critical_frequency(section: sandwich.SandwichSection, sound_speed: float) -> float:
-    """Frequency where the sandwich bending phase speed equals the sound speed [Hz].
-
-    Root of :func:`seatool.physics.sandwich.sandwich_phase_speed` ``(f) = c0`` (the
-    phase speed rises monotonically from 0 to the face-sheet bending speed, which grows
-    without bound), found with :func:`scipy.optimize.brentq` on ln f.
-    """
-
-    def g(x: float) -> float:
-        return float(sandwich.sandwich_phase_speed(math.exp(x), section)) - sound_speed
-
-    lo, hi = math.log(1e-3), math.log(1e9)
-    if g(lo) > 0 or g(hi) < 0:
-        return math.inf
-    return math.exp(optimize.brentq(g, lo, hi, xtol=1e-12))
-
-
 def _sandwich(
     rd: Reader, name: str, v: dict[str, Any], s: dict[str, Any], path: str
 ) -> list[Subsystem] | None:
@@ -194,7 +174,7 @@ def _sandwich(
             "group_speed": sandwich.sandwich_group_speed(b.centre, sec),
             # effective bending stiffness per band, m'' omega^2 = D_eff k^4
             "bending_stiffness": m * b.omega**2 / k**4,
-            "critical_frequency": sandwich_critical_frequency(sec, c0),
+            "critical_frequency": sandwich.sandwich_critical_frequency(sec, c0),
             "section": sec,
         }
         n = sandwich.sandwich_modal_density(b.centre, area, sec)

@@ -50,6 +50,8 @@ def _component_path(s: Subsystem, key: str) -> str:
 
 def _damping(rd: Reader, s: Subsystem) -> None:
     eta = np.asarray(s.damping, dtype=float)
+    if eta.size and np.maximum.reduce(eta, axis=None) <= HIGH_LOSS_FACTOR:
+        return  # the common case, one reduction
     high = np.flatnonzero(eta > HIGH_LOSS_FACTOR)
     if not high.size:
         return

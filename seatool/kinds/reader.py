@@ -171,7 +171,6 @@ class Reader:
         bands = self.bands
         if bands is None:
             return None
-        nb = len(bands)
         if isinstance(value, dict):
             if "csv" in value:
                 return self._csv_spectrum(value, path, unit=unit, minimum=minimum, strict=strict)
@@ -188,7 +187,15 @@ class Reader:
         x = self.number(value, path, unit=unit, minimum=minimum, strict=strict)
         if x is None:
             return None
-        return np.full(nb, x)
+        return self.constant_spectrum(x)
+
+    def constant_spectrum(self, x: float) -> Array:
+        """The same value ``x`` in every band of the model (a new read-only array)."""
+        assert self.bands is not None
+        out = np.empty(len(self.bands))
+        out.fill(x)
+        out.setflags(write=False)
+        return out
 
     def _per_band(
         self,

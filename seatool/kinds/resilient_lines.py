@@ -5,9 +5,9 @@ the plates named in ``on_layer`` rest on a strip of dynamic stiffness per unit l
 ``k'`` [N/m^2] (compression), ``k'_s`` (shear) and ``k' b^2/12`` (rocking, strip width
 ``b``), the others are joined rigidly to the seam. The wave model of the rigid line
 junction with the strip's springs in series with those plates' edges
-(:func:`seatool.physics.junction_waves.diffuse_transmission` with
-:func:`seatool.physics.junction_waves.interlayer_compliance`) gives the diffuse-field
-transmission coefficients; ``eta_ij = c_g,i L tau_ij / (pi omega S_i)``
+(:func:`seatool.physics.junctions.line_junction_transmission_diffuse_many` with
+:func:`seatool.physics.junction_waves.interlayer_compliance`, remembered by value like the
+rigid junction) gives the diffuse-field transmission coefficients; ``eta_ij = c_g,i L tau_ij / (pi omega S_i)``
 (:func:`seatool.physics.coupling.clf_line_junction`). A very stiff strip is the rigid
 ``line`` junction.
 """
@@ -21,7 +21,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Connection, Subsystem
-from ..physics import junction_waves, junctions, plates
+from ..physics import junction_waves, junctions
 from .fields import LENGTH_BOUNDS
 from .junction_lines import line_connections
 from .links import BETWEEN
@@ -76,16 +76,10 @@ def _resilient_line(
     stiffness, shear, width = v["stiffness"], v["shear_stiffness"], v["width"]
 
     def transmission(
-        f: Array, plate_list: Sequence[junctions.JunctionPlate], source: int, incident: str
+        f: Array,
+        plate_list: Sequence[junctions.JunctionPlate],
+        incidents: Sequence[tuple[int, str]],
     ) -> Array:
-        nb = f.size
-        h = np.array([[p.thickness] * nb for p in plate_list])
-        e = np.array([[p.youngs_modulus] * nb for p in plate_list])
-        rho = np.array([[p.density] * nb for p in plate_list])
-        nu = np.array([[p.poisson] * nb for p in plate_list])
-        arrays = junction_waves.plate_arrays(
-            h, e, rho, nu, [p.angle for p in plate_list], plates.bending_stiffness(e, h, nu)
-        )
         compliance = np.zeros((len(plate_list), 4), dtype=np.complex128)
         for k in resting:
             compliance[k] = junction_waves.interlayer_compliance(
@@ -93,11 +87,10 @@ def _resilient_line(
                 width=plate_list[k].thickness if width is None else width,
                 shear_stiffness=shear,
             )
-        return junction_waves.diffuse_transmission(
+        return junctions.line_junction_transmission_diffuse_many(
             f,
-            arrays,
-            source=source,
-            incident=junctions.WAVE_TYPES.index(incident),
+            [[p] * f.size for p in plate_list],
+            incidents,  # type: ignore[arg-type]
             n_points=_NODES,
             compliance=compliance,
         )

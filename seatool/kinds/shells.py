@@ -13,7 +13,7 @@ import numpy as np
 import numpy.typing as npt
 
 from ..model import Subsystem
-from ..physics import elastic, plates, shells
+from ..physics import elastic, plates, quadrature, shells
 from .fields import (
     LENGTH_BOUNDS,
     LX,
@@ -70,7 +70,7 @@ def _shell(
     # f = f_m -+ D u^3 (integrand ~ u^2 ln u, smooth enough; 2e-9 relative against
     # scipy.integrate.quad in development).
     f_m = math.sqrt(e / rho) / (2.0 * math.pi * a)
-    x, w = np.polynomial.legendre.leggauss(_SHELL_NODES)
+    x, w = quadrature.gauss_legendre(_SHELL_NODES)
     u, wu = 0.5 * (x + 1.0), 0.5 * w
     split = np.clip(f_m, b.lower, b.upper)
     total = np.zeros(len(b))

@@ -18,6 +18,7 @@ from dataclasses import replace
 from typing import Any
 
 import numpy as np
+import numpy.typing as npt
 
 from ..errors import closest
 from ..properties import FluidProps, MaterialProps
@@ -30,9 +31,12 @@ __all__ = [
     "check_derived",
     "check_value",
     "default_fluid",
+    "positive_finite",
     "read_fluid",
     "read_material",
 ]
+
+Array = npt.NDArray[np.float64]
 
 _MATERIAL = {p.name: p for p in MATERIAL_PARAMS}
 
@@ -61,6 +65,18 @@ def _bounds(rd: Reader, p: Param, x: float, path: str) -> bool:
     return False
 
 
+def _within(p: Param, arr: Array) -> bool:
+    """True if every value of ``arr`` passes :func:`_bounds` (one check for the array)."""
+    if p.maximum is None and p.bounds is None:
+        return True
+    if not arr.size:
+        return True
+    lo, hi = float(arr.min()), float(arr.max())
+    if p.maximum is not None and (hi >= p.maximum if p.strict_max else hi > p.maximum):
+        return False
+    return p.bounds is None or (p.bounds[0] <= lo and hi <= p.bounds[1])
+
+
 #: Why a value outside a parameter's typical range matters, unless the parameter says.
 WHY_TYPICAL = "often a wrong unit or a slipped digit; the results would describe another design"
 
@@ -70,6 +86,8 @@ def _typical(rd: Reader, p: Param, values: Any, path: str) -> None:
     if p.typical is None:
         return
     lo, hi = p.typical
+    if isinstance(values, float) and lo <= values <= hi:
+        return
     arr = np.asarray(values, dtype=float).ravel()
     out = arr[(arr < lo) | (arr > hi)]
     if not out.size:
@@ -119,12 +137,19 @@ def check_value(rd: Reader, p: Param, value: Any, path: str) -> tuple[bool, Any]
             out.append(x)
         return True, tuple(out)
     if t == "spectrum":
+        if is_number(value) and rd.bands is not None:  # one value for every band
+            x = rd.number(value, path, unit=p.unit, minimum=p.minimum, strict=p.strict)
+            if x is None or not _bounds(rd, p, x, path):
+                return False, None
+            _typical(rd, p, x, path)
+            return True, rd.constant_spectrum(x)
         arr = rd.spectrum(value, path, unit=p.unit, minimum=p.minimum, strict=p.strict)
         if arr is None:
             return False, None
-        for x in np.asarray(arr).ravel():
-            if not _bounds(rd, p, float(x), path):
-                return False, None
+        if not _within(p, arr):  # the first value outside, with its own message
+            for x in np.asarray(arr).ravel():
+                if not _bounds(rd, p, float(x), path):
+                    return False, None
         _typical(rd, p, arr, path)
         return True, arr
     if t == "integer":
@@ -208,9 +233,9 @@ def check_derived(
     """
     ok = True
     for what, value in derived.items():
-        arr = np.asarray(value, dtype=float)
-        if arr.size and np.all(np.isfinite(arr) & (arr > 0)):
+        if positive_finite(value):
             continue
+        arr = np.asarray(value, dtype=float)
         bad = arr[~(np.isfinite(arr) & (arr > 0))] if arr.size else arr
         shown = f"{float(bad.ravel()[0]):.3g}" if bad.size else "nothing"
         src = ", ".join(keys) if keys else path
@@ -220,6 +245,21 @@ def check_derived(
         )
         ok = False
     return ok
+
+
+def positive_finite(value: Any) -> bool:
+    """True if ``value`` (a number or an array) is not empty and every entry is finite and
+    > 0: the test of :func:`check_derived`, cheap for the common case that it holds."""
+    if type(value) is float:
+        return 0.0 < value < math.inf
+    arr = np.asarray(value, dtype=float)
+    if not arr.size:
+        return False
+    # NaN propagates through the minimum, so it fails the first test
+    return bool(_MIN(arr, axis=None) > 0.0) and bool(_MAX(arr, axis=None) < math.inf)
+
+
+_MIN, _MAX = np.minimum.reduce, np.maximum.reduce
 
 
 def is_number(value: Any) -> bool:

@@ -2,16 +2,31 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 import numpy.typing as npt
 
 FloatArray = npt.NDArray[np.float64]
 
 
+def _within(arr: FloatArray, lo: float, hi: float, *, closed_lo: bool) -> bool:
+    """All entries in (lo, hi) or [lo, hi) (NaN fails): one comparison per entry.
+
+    A single value is compared as a Python float (a whole-array reduction costs more than
+    the comparison itself; the readers call these checks a few hundred times per model).
+    """
+    if arr.ndim == 0:
+        v = float(arr)
+        return (lo <= v if closed_lo else lo < v) and v < hi
+    above = arr >= lo if closed_lo else arr > lo
+    return bool((above & (arr < hi)).all())
+
+
 def positive(name: str, value: npt.ArrayLike) -> FloatArray:
     """Return ``value`` as a float array; raise ValueError unless all entries are finite and > 0."""
     arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0.0):
+    if not _within(arr, 0.0, math.inf, closed_lo=False):
         msg = f"{name} must be finite and > 0, got {value!r}"
         raise ValueError(msg)
     return arr
@@ -20,7 +35,7 @@ def positive(name: str, value: npt.ArrayLike) -> FloatArray:
 def nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
     """Return ``value`` as a float array; raise ValueError unless all entries are finite and >= 0."""
     arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr < 0.0):
+    if not _within(arr, 0.0, math.inf, closed_lo=True):
         msg = f"{name} must be finite and >= 0, got {value!r}"
         raise ValueError(msg)
     return arr
@@ -29,7 +44,7 @@ def nonnegative(name: str, value: npt.ArrayLike) -> FloatArray:
 def poisson(value: npt.ArrayLike) -> FloatArray:
     """Return Poisson's ratio as a float array; raise ValueError outside (-1, 0.5)."""
     arr = np.asarray(value, dtype=np.float64)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= -1.0) or np.any(arr >= 0.5):
+    if not _within(arr, -1.0, 0.5, closed_lo=False):
         msg = f"poisson_ratio must lie in (-1, 0.5), got {value!r}"
         raise ValueError(msg)
     return arr

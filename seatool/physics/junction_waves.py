@@ -14,8 +14,8 @@ edge dofs: in-plane ``(u, v)`` from the longitudinal and shear waves, out-of-pla
 textbook formulation reduce to two closed-form 2 x 2 blocks; only the junction's global
 4 x 4 system is solved, as one stacked :func:`numpy.linalg.solve`.
 
-Length: a little over 600 lines, kept in one file because the scattering core, its
-diffuse-field average and the interlayer springs it takes are one numerical unit.
+The plate records and the interlayer springs are in :mod:`seatool.physics.junction_plates`
+(re-exported here); the small-matrix algebra in :mod:`seatool.physics.stacked_algebra`.
 
 A plate may be joined to the line through an elastic interlayer (a strip of springs in
 series with its edge, :func:`interlayer_compliance`); without one the junction is rigid.
@@ -29,13 +29,14 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
 import numpy as np
 import numpy.typing as npt
 
+from . import stacked_algebra as sa
+from .junction_plates import PlateArrays, interlayer_compliance, plate_arrays
 from .quadrature import gauss_legendre
 
 __all__ = [
@@ -43,10 +44,12 @@ __all__ = [
     "PlateArrays",
     "diffuse_nodes",
     "diffuse_transmission",
+    "diffuse_transmission_many",
     "interlayer_compliance",
     "outgoing_kx",
     "plate_arrays",
     "scatter",
+    "scatter_many",
 ]
 
 FloatArray = npt.NDArray[np.float64]
@@ -62,54 +65,16 @@ INCIDENT_COLUMNS = (0, 2, 3)
 THETA_MAX = 0.5 * math.pi - 1e-7
 
 
-@dataclass(frozen=True)
-class PlateArrays:
-    """Stiffnesses of the ``N`` plates at a junction, each of shape ``(N, B)``.
-
-    Attributes
-    ----------
-    bending : numpy.ndarray
-        Bending stiffness ``D`` [N m].
-    membrane : numpy.ndarray
-        Membrane stiffness ``C = E h / (1 - nu^2)`` [N/m].
-    shear : numpy.ndarray
-        In-plane shear stiffness ``G h`` [N/m].
-    mass : numpy.ndarray
-        Mass per unit area ``m''`` [kg/m^2].
-    poisson : numpy.ndarray
-        Poisson's ratio [-].
-    angle : numpy.ndarray
-        Plate directions in the cross-section plane [rad], shape ``(N,)``.
-    """
-
-    bending: FloatArray
-    membrane: FloatArray
-    shear: FloatArray
-    mass: FloatArray
-    poisson: FloatArray
-    angle: FloatArray
-
-    @property
-    def count(self) -> int:
-        """Number of plates ``N``."""
-        return int(self.angle.shape[0])
-
-    def wavenumbers(self, f: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        """Free bending, longitudinal and shear wavenumbers [rad/m], each ``(N, B)``.
-
-        ``k_B = (omega^2 m''/D)^(1/4)``, ``k_L = omega sqrt(m''/C)``, ``k_S = omega sqrt(m''/(G h))``
-        (Cremer, Heckl & Petersson 2005, *Structure-borne Sound*, 3rd ed., ch. 3).
-        """
-        w = 2.0 * math.pi * f
-        k_b = (w**2 * self.mass / self.bending) ** 0.25
-        k_l = w * np.sqrt(self.mass / self.membrane)
-        k_s = w * np.sqrt(self.mass / self.shear)
-        return k_b, k_l, k_s
-
-
 def _rotation(angle: float) -> FloatArray:
-    """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta)."""
+    """Map global line dofs (U_X, U_Z, V, Theta) to local edge dofs (u, v, w, theta).
+
+    A cosine or sine below 1e-15 in magnitude is the rounding of a right angle given in
+    degrees (cos(pi/2) = 6e-17 in floating point) and is taken as exactly 0, so that the
+    stiffness entries a plate at a right angle does not touch stay empty.
+    """
     ca, sa = math.cos(angle), math.sin(angle)
+    ca = 0.0 if abs(ca) < 1e-15 else ca
+    sa = 0.0 if abs(sa) < 1e-15 else sa
     out: FloatArray = np.array(
         [[ca, sa, 0.0, 0.0], [0.0, 0.0, 1.0, 0.0], [-sa, ca, 0.0, 0.0], [0.0, 0.0, 0.0, 1.0]]
     )
@@ -126,22 +91,6 @@ def outgoing_kx(k: FloatArray | float, q: FloatArray) -> ComplexArray:
     root = np.sqrt(np.abs(d))
     out: ComplexArray = np.where(d >= 0.0, root + 0j, -1j * root)
     return out
-
-
-def _inv2(a: _C, b: _C, c: _C, d: _C) -> tuple[_C, _C, _C, _C]:
-    """Entries of the inverse of the stacked 2 x 2 matrices [[a, b], [c, d]]."""
-    det = a * d - b * c
-    return d / det, -b / det, -c / det, a / det
-
-
-def _mul2(x: tuple[_C, ...], y: tuple[_C, ...]) -> tuple[_C, _C, _C, _C]:
-    """Entries of the product of stacked 2 x 2 matrices given row-wise (x11, x12, x21, x22)."""
-    return (
-        x[0] * y[0] + x[1] * y[2],
-        x[0] * y[1] + x[1] * y[3],
-        x[2] * y[0] + x[3] * y[2],
-        x[2] * y[1] + x[3] * y[3],
-    )
 
 
 def _bending_block(
@@ -161,41 +110,60 @@ def _edge_blocks(
     p: int,
     k: tuple[FloatArray, FloatArray, FloatArray],
     q: FloatArray,
+    q2: FloatArray,
 ) -> tuple[tuple[_C, ...], tuple[_C, ...], tuple[_C, ...], tuple[_C, ...], tuple[_C, _C, _C]]:
     """Wave matrices of the outgoing waves of plate ``p`` as two 2 x 2 blocks.
 
     Returns the in-plane and bending blocks of the edge stiffness ``K = F Phi^-1`` and of
     ``Phi^-1`` (entries row-wise), and the x-wavenumbers of bending, longitudinal and shear
     waves. ``k`` holds this plate's ``(k_B, k_L, k_S)`` with shape ``(B, 1)``; ``q`` is
-    ``(B, T)``.
+    ``(B, T)`` and ``q2 = q^2``.
+
+    Bending block, rows ``(w, theta)``, columns (propagating/evanescent wave ``kx_B``,
+    near field ``kx_N = -j sqrt(k_B^2 + q^2)``): ``Phi = [[1, 1], [-j kx_B, -j kx_N]]``,
+    shear forces ``j D kx (kx^2 + (2 - nu) q^2)`` and moments ``D (kx^2 + nu q^2)``
+    (Kirchhoff plate; Cremer, Heckl & Petersson 2005, ch. 3 and 5). With
+    ``a = k_B^2``, ``b = (1 - nu) q^2`` and ``g = 1/(kx_B - kx_N)`` the product
+    ``F Phi^-1`` is written out: ``K_ww = -2 j D a kx_B kx_N g``,
+    ``K_wt = K_tw = -D (kx_N (a - b) + kx_B (a + b)) g``, ``K_tt = 2 j D a g``.
+
+    In-plane block, rows ``(u, v)``, columns (longitudinal, shear): the longitudinal wave
+    moves along its wavevector ``(kx_L, q)/k_L``, the shear wave across it
+    ``(-q, kx_S)/k_S``; with ``h = 1/(kx_L kx_S + q^2)``:
+    ``K_uu = j h kx_S (C (k_L^2 - b) + 2 G h q^2)``,
+    ``K_uv = j h q (C (k_L^2 - b) - 2 G h kx_L kx_S)``,
+    ``K_vu = j h q G h (2 kx_L kx_S - k_S^2 + 2 q^2)``, ``K_vv = j h G h kx_L k_S^2``.
     """
     k_b, k_l, k_s = k
     dd = pl.bending[p][:, None]
     c = pl.membrane[p][:, None]
     gh = pl.shear[p][:, None]
     nu = pl.poisson[p][:, None]
+    kb2 = k_b**2
     kxb = outgoing_kx(k_b, q)
-    kxn = -1j * np.sqrt(k_b**2 + q**2) + 0j  # bending near field, always decaying
+    kxn = -1j * np.sqrt(kb2 + q2)  # bending near field, always decaying
     kxl = outgoing_kx(k_l, q)
     kxs = outgoing_kx(k_s, q)
-    # bending block: rows (w, theta), columns (propagating/evanescent wave, near field)
-    one = np.ones_like(kxb)
-    th_b, fw_b = _bending_block(dd, nu, kxb, q)
-    th_n, fw_n = _bending_block(dd, nu, kxn, q)
-    phi_b = (one, one, th_b, th_n)
-    frc_b = (fw_b, fw_n, dd * (kxb**2 + nu * q**2), dd * (kxn**2 + nu * q**2))
-    # in-plane block: rows (u, v), columns (longitudinal, shear); the longitudinal wave
-    # moves along its wavevector (kx, q)/k_L, the shear wave across it (-q, kx)/k_S
-    phi_i = (kxl / k_l, -q / k_s + 0j, q / k_l + 0j, kxs / k_s)
-    frc_i = (
-        1j * c * (kxl**2 + nu * q**2) / k_l,
-        -1j * 2.0 * gh * kxs * q / k_s,
-        1j * gh * 2.0 * q * kxl / k_l,
-        1j * gh * (kxs**2 - q**2) / k_s,
+    b = (1.0 - nu) * q2
+    # bending block
+    g = 1.0 / (kxb - kxn)
+    two_da = 2.0 * dd * kb2
+    k_wt = -dd * (kxn * (kb2 - b) + kxb * (kb2 + b)) * g
+    k_bend = (-1j * two_da * kxb * kxn * g, k_wt, k_wt, 1j * two_da * g)
+    inv_b = (-g * kxn, 1j * g, g * kxb, -1j * g)
+    # in-plane block
+    h = 1.0 / (kxl * kxs + q2)
+    jh = 1j * h
+    lx_s = kxl * kxs
+    cl = c * (k_l**2 - b)
+    k_in = (
+        jh * kxs * (cl + 2.0 * gh * q2),
+        jh * q * (cl - 2.0 * gh * lx_s),
+        jh * q * gh * (2.0 * lx_s - k_s**2 + 2.0 * q2),
+        jh * gh * kxl * k_s**2,
     )
-    inv_i = _inv2(*phi_i)
-    inv_b = _inv2(*phi_b)
-    return _mul2(frc_i, inv_i), _mul2(frc_b, inv_b), inv_i, inv_b, (kxb, kxl, kxs)
+    inv_i = (h * k_l * kxs, h * k_l * q, -h * k_s * q, h * k_s * kxl)
+    return k_in, k_bend, inv_i, inv_b, (kxb, kxl, kxs)
 
 
 def scatter(
@@ -249,6 +217,9 @@ def scatter(
     ``(I + K_s C_s)^-1 g``, and the plate's own edge displacement by
     ``(I + C_p K_p)^-1 (R_p D + C_p g delta_ps)``; ``C_p = 0`` is the rigid junction.
 
+    The global 4 x 4 system is solved by 2 x 2 blocks
+    (:func:`seatool.physics.stacked_algebra.solve4`).
+
     References
     ----------
     .. [1] Langley, R.S., Heron, K.H. (1990). "Elastic wave transmission through plate/beam
@@ -258,32 +229,108 @@ def scatter(
     .. [3] Craik, R.J.M. (1996). Sound Transmission through Buildings using Statistical
        Energy Analysis. Gower (junctions with resilient layers; from memory).
     """
+    return scatter_many(f, [q], plates, [(source, incident)], compliance=compliance)[0]
+
+
+def _incident_wave(
+    plates: PlateArrays, s: int, incident: int, kx_in: _C, q: FloatArray, k_all: Any
+) -> tuple[list[_C], list[_C]]:
+    """Edge displacement and force of the incoming wave ``exp(+j kx x)`` (``kx_in < 0``)."""
+    ds_ = plates.bending[s][:, None]
+    c_s = plates.membrane[s][:, None]
+    gh_s = plates.shear[s][:, None]
+    nu_s = plates.poisson[s][:, None]
+    zero = np.zeros_like(kx_in)
+    if incident == 0:
+        th_in, fw_in = _bending_block(ds_, nu_s, kx_in, q)
+        return [zero, zero, zero + 1.0, th_in], [zero, zero, fw_in, ds_ * (kx_in**2 + nu_s * q**2)]
+    if incident == 1:
+        k_l = k_all[1][s][:, None]
+        d_inc = [kx_in / k_l, q / k_l + 0j, zero, zero]
+        return d_inc, [1j * c_s * (kx_in**2 + nu_s * q**2) / k_l, 1j * gh_s * 2.0 * q * kx_in / k_l, zero, zero]  # fmt: skip
+    k_s = k_all[2][s][:, None]
+    d_inc = [-q / k_s + 0j, kx_in / k_s, zero, zero]
+    return d_inc, [-1j * 2.0 * gh_s * kx_in * q / k_s, 1j * gh_s * (kx_in**2 - q**2) / k_s, zero, zero]  # fmt: skip
+
+
+def scatter_many(
+    f: FloatArray,
+    qs: Sequence[FloatArray],
+    plates: PlateArrays,
+    incidents: Sequence[tuple[int, int]],
+    *,
+    compliance: ComplexArray | None = None,
+) -> list[FloatArray]:
+    """:func:`scatter` for several incident waves, solved as one stack.
+
+    Parameters
+    ----------
+    f : numpy.ndarray
+        Frequencies [Hz], shape ``(B,)``.
+    qs : sequence of numpy.ndarray
+        Trace wavenumbers [rad/m] for each incident wave, shapes ``(B, T_i)``.
+    plates : PlateArrays
+        The ``N`` plates.
+    incidents : sequence of (int, int)
+        ``(source plate, incident wave type)`` for each entry of ``qs``.
+    compliance : numpy.ndarray, optional
+        Interlayer compliances ``(N, 4)`` as in :func:`scatter`.
+
+    Returns
+    -------
+    list of numpy.ndarray
+        ``tau`` of shape ``(B, T_i, N, 3)`` for each incident wave, as :func:`scatter`.
+
+    Notes
+    -----
+    The junction's stiffness depends on the trace wavenumber only, not on where the
+    incident wave comes from, so the nodes of every incident wave are stacked along one
+    axis: one set of edge matrices and one 4 x 4 solve for all (plates x waves x bands x
+    nodes). The physics is that of :func:`scatter` (Langley & Heron 1990).
+
+    References
+    ----------
+    .. [1] Langley, R.S., Heron, K.H. (1990). J. Sound Vib. 143(2), 241-253.
+    """
+    if len(qs) != len(incidents) or not qs:
+        msg = (
+            f"need one trace-wavenumber array per incident wave, got {len(qs)} and {len(incidents)}"
+        )
+        raise ValueError(msg)
+    q = qs[0] if len(qs) == 1 else np.concatenate(qs, axis=1)
+    q2 = q * q
+    cuts = np.cumsum([0] + [x.shape[1] for x in qs])
+    segs = [slice(int(cuts[i]), int(cuts[i + 1])) for i in range(len(qs))]
     n_p = plates.count
     w = (2.0 * math.pi * f)[:, None]
     k_all = plates.wavenumbers(f)  # each (N, B)
-    stiff_i, stiff_b, inv_i, inv_b, kxs_all = [], [], [], [], []
-    layer: list[tuple[tuple[_C, ...], tuple[_C, ...]] | None] = []
-    k_glob = np.zeros((*q.shape, 4, 4), dtype=np.complex128)
     rots = [_rotation(float(a)) for a in plates.angle]
+    # nonzero entries of each rotation: local dof lo -> [(global dof g, R[lo, g])]
+    nzs = [
+        [[(g, float(r[lo, g])) for g in range(4) if r[lo, g] != 0.0] for lo in range(4)]
+        for r in rots
+    ]
+    kmat: list[list[sa.Entry]] = [[None] * 4 for _ in range(4)]
+    own, inv_i, inv_b, kxs_all = [], [], [], []
+    layer: list[tuple[tuple[_C, ...], tuple[_C, ...]] | None] = []
     for p in range(n_p):
         kp = (k_all[0][p][:, None], k_all[1][p][:, None], k_all[2][p][:, None])
-        ki, kb, ii, ib, kx_p = _edge_blocks(plates, p, kp, q)
+        ki, kb, ii, ib, kx_p = _edge_blocks(plates, p, kp, q, q2)
+        own.append((ki, kb))
         soft = None if compliance is None or not np.any(compliance[p]) else compliance[p]
         if soft is not None:
             # series interlayer: (I + C K)^-1 per block; the plate behind it acts on the
             # line with K (I + C K)^-1
-            a_i = _inv2(
+            a_i = sa.inv2(
                 1.0 + soft[0] * ki[0], soft[0] * ki[1], soft[1] * ki[2], 1.0 + soft[1] * ki[3]
             )
-            a_b = _inv2(
+            a_b = sa.inv2(
                 1.0 + soft[2] * kb[0], soft[2] * kb[1], soft[3] * kb[2], 1.0 + soft[3] * kb[3]
             )
             layer.append((a_i, a_b))
-            ki, kb = _mul2(ki, a_i), _mul2(kb, a_b)
+            ki, kb = sa.mul2(ki, a_i), sa.mul2(kb, a_b)
         else:
             layer.append(None)
-        stiff_i.append(ki)
-        stiff_b.append(kb)
         inv_i.append(ii)
         inv_b.append(ib)
         kxs_all.append(kx_p)
@@ -292,91 +339,82 @@ def scatter(
             (0, 0): ki[0], (0, 1): ki[1], (1, 0): ki[2], (1, 1): ki[3],
             (2, 2): kb[0], (2, 3): kb[1], (3, 2): kb[2], (3, 3): kb[3],
         }  # fmt: skip
-        rot = rots[p]
+        nz = nzs[p]
         for (lo, mo), val in local.items():
-            for g in range(4):
-                if rot[lo, g] == 0.0:
-                    continue
-                for h in range(4):
-                    if rot[mo, h] != 0.0:
-                        k_glob[..., g, h] += rot[lo, g] * val * rot[mo, h]
+            for g, rg in nz[lo]:
+                for h, rh in nz[mo]:
+                    c = rg * rh
+                    kmat[g][h] = sa.add(kmat[g][h], val if c == 1.0 else c * val)
 
-    # incoming wave (exp(+j kx x)) of the chosen type in the source plate
-    s = source
-    ds_ = plates.bending[s][:, None]
-    c_s = plates.membrane[s][:, None]
-    gh_s = plates.shear[s][:, None]
-    nu_s = plates.poisson[s][:, None]
-    kx_in = -kxs_all[s][incident]
-    zero = np.zeros_like(kx_in)
-    if incident == 0:
-        th_in, fw_in = _bending_block(ds_, nu_s, kx_in, q)
-        d_inc = (zero, zero, zero + 1.0, th_in)
-        f_inc = (zero, zero, fw_in, ds_ * (kx_in**2 + nu_s * q**2))
-    elif incident == 1:
-        k_l = k_all[1][s][:, None]
-        d_inc = (kx_in / k_l, q / k_l + 0j, zero, zero)
-        f_inc = (1j * c_s * (kx_in**2 + nu_s * q**2) / k_l, 1j * gh_s * 2.0 * q * kx_in / k_l, zero, zero)  # fmt: skip
-    else:
-        k_s = k_all[2][s][:, None]
-        d_inc = (-q / k_s + 0j, kx_in / k_s, zero, zero)
-        f_inc = (-1j * 2.0 * gh_s * kx_in * q / k_s, 1j * gh_s * (kx_in**2 - q**2) / k_s, zero, zero)  # fmt: skip
-    if layer[s] is None:
-        ki, kb = stiff_i[s], stiff_b[s]
-    else:  # the plate's own edge stiffness, before the interlayer
-        ki, kb, _, _, _ = _edge_blocks(
-            plates, s, (k_all[0][s][:, None], k_all[1][s][:, None], k_all[2][s][:, None]), q
+    # right-hand side: the incoming wave (exp(+j kx x)) of each incident wave's segment
+    shape = q.shape
+    rhs = [np.zeros(shape, dtype=np.complex128) for _ in range(4)]
+    p_inc = np.empty(shape)
+    coef = [
+        (
+            w * plates.bending[p][:, None] * k_all[0][p][:, None] ** 2,
+            0.5 * w * plates.membrane[p][:, None],
+            0.5 * w * plates.shear[p][:, None],
         )
-    rhs_local = (
-        ki[0] * d_inc[0] + ki[1] * d_inc[1] - f_inc[0],
-        ki[2] * d_inc[0] + ki[3] * d_inc[1] - f_inc[1],
-        kb[0] * d_inc[2] + kb[1] * d_inc[3] - f_inc[2],
-        kb[2] * d_inc[2] + kb[3] * d_inc[3] - f_inc[3],
-    )
-    g_src = rhs_local
-    lay_s = layer[s]
-    if lay_s is not None:
-        # the force the interlayer passes on: (I + K C)^-1 g = g - K a C g with
-        # a = (I + C K)^-1 (no inverse of C, so a rigid dof with C = 0 is exact)
-        assert compliance is not None
-        cs = compliance[s]
-        ka_i = _mul2(ki, lay_s[0])
-        ka_b = _mul2(kb, lay_s[1])
-        cg = (cs[0] * g_src[0], cs[1] * g_src[1], cs[2] * g_src[2], cs[3] * g_src[3])
-        rhs_local = (
-            g_src[0] - (ka_i[0] * cg[0] + ka_i[1] * cg[1]),
-            g_src[1] - (ka_i[2] * cg[0] + ka_i[3] * cg[1]),
-            g_src[2] - (ka_b[0] * cg[2] + ka_b[1] * cg[3]),
-            g_src[3] - (ka_b[2] * cg[2] + ka_b[3] * cg[3]),
-        )
-    rot_s = rots[s]
-    rhs = np.zeros((*q.shape, 4, 1), dtype=np.complex128)
-    for g in range(4):
+        for p in range(n_p)
+    ]
+    d_incs: list[list[_C]] = []
+    g_srcs: list[list[_C]] = []
+    for (s, inc), sl in zip(incidents, segs, strict=True):
+        qq = q[:, sl]
+        kx_inc = kxs_all[s][inc][:, sl]
+        d_inc, f_inc = _incident_wave(plates, s, inc, -kx_inc, qq, k_all)
+        own_i = tuple(x[:, sl] for x in own[s][0])
+        own_b = tuple(
+            x[:, sl] for x in own[s][1]
+        )  # the plate's own edge stiffness (before any layer)
+        g_src = [
+            own_i[0] * d_inc[0] + own_i[1] * d_inc[1] - f_inc[0],
+            own_i[2] * d_inc[0] + own_i[3] * d_inc[1] - f_inc[1],
+            own_b[0] * d_inc[2] + own_b[1] * d_inc[3] - f_inc[2],
+            own_b[2] * d_inc[2] + own_b[3] * d_inc[3] - f_inc[3],
+        ]
+        rhs_local = g_src
+        lay_s = layer[s]
+        if lay_s is not None:
+            # the force the interlayer passes on: (I + K C)^-1 g = g - K a C g with
+            # a = (I + C K)^-1 (no inverse of C, so a rigid dof with C = 0 is exact)
+            assert compliance is not None
+            cs = compliance[s]
+            ka_i = sa.mul2(own_i, tuple(x[:, sl] for x in lay_s[0]))
+            ka_b = sa.mul2(own_b, tuple(x[:, sl] for x in lay_s[1]))
+            cg = (cs[0] * g_src[0], cs[1] * g_src[1], cs[2] * g_src[2], cs[3] * g_src[3])
+            rhs_local = [
+                g_src[0] - (ka_i[0] * cg[0] + ka_i[1] * cg[1]),
+                g_src[1] - (ka_i[2] * cg[0] + ka_i[3] * cg[1]),
+                g_src[2] - (ka_b[0] * cg[2] + ka_b[1] * cg[3]),
+                g_src[3] - (ka_b[2] * cg[2] + ka_b[3] * cg[3]),
+            ]
         for lo in range(4):
-            if rot_s[lo, g] != 0.0:
-                rhs[..., g, 0] += rot_s[lo, g] * rhs_local[lo]
-    disp = np.linalg.solve(k_glob, rhs)[..., 0]
+            for g, rg in nzs[s][lo]:
+                rhs[g][:, sl] += rg * rhs_local[lo]
+        p_inc[:, sl] = np.abs(kx_inc.real) * coef[s][inc]
+        d_incs.append(d_inc)
+        g_srcs.append(g_src)
+    disp = [sa.as_array(x, shape) for x in sa.solve4(kmat, list(rhs))]
 
     k_max = np.maximum(np.maximum(k_all[0], k_all[1]), k_all[2])  # (N, B)
-    coef = (
-        w * plates.bending[s][:, None] * k_all[0][s][:, None] ** 2,
-        0.5 * w * plates.membrane[s][:, None],
-        0.5 * w * plates.shear[s][:, None],
-    )
-    kx_inc = kxs_all[s][incident]
-    p_inc = np.abs(kx_inc.real) * coef[incident]
-    tau = np.zeros((*q.shape, n_p, 3), dtype=np.float64)
+    tau = np.zeros((*shape, n_p, 3), dtype=np.float64)
     for p in range(n_p):
-        rot = rots[p]
-        d_p = [rot[lo, 0] * disp[..., 0] + rot[lo, 1] * disp[..., 1]
-               + rot[lo, 2] * disp[..., 2] + rot[lo, 3] * disp[..., 3] for lo in range(4)]  # fmt: skip
+        nz = nzs[p]
+        d_p = []
+        for lo in range(4):
+            acc = sa.add(*(disp[g] if rg == 1.0 else rg * disp[g] for g, rg in nz[lo]))
+            d_p.append(sa.as_array(acc, shape).copy())
         lay = layer[p]
+        sources = [k for k, (s, _) in enumerate(incidents) if s == p]
         if lay is not None:
             # the plate's edge behind the interlayer: (I + C K)^-1 (R D + C g delta_ps)
             assert compliance is not None
             cp = compliance[p]
-            if p == s:
-                d_p = [d_p[lo] + cp[lo] * g_src[lo] for lo in range(4)]
+            for k in sources:
+                for lo in range(4):
+                    d_p[lo][:, segs[k]] += cp[lo] * g_srcs[k][lo]
             li, lb = lay
             d_p = [
                 li[0] * d_p[0] + li[1] * d_p[1],
@@ -384,26 +422,22 @@ def scatter(
                 lb[0] * d_p[2] + lb[1] * d_p[3],
                 lb[2] * d_p[2] + lb[3] * d_p[3],
             ]
-        if p == s:
-            d_p = [d_p[lo] - d_inc[lo] for lo in range(4)]
+        for k in sources:
+            for lo in range(4):
+                d_p[lo][:, segs[k]] -= d_incs[k][lo]
         ii, ib = inv_i[p], inv_b[p]
         amp = (
             ib[0] * d_p[2] + ib[1] * d_p[3],  # bending
             ii[0] * d_p[0] + ii[1] * d_p[1],  # longitudinal
             ii[2] * d_p[0] + ii[3] * d_p[1],  # shear
         )
-        flux = (
-            w * plates.bending[p][:, None] * k_all[0][p][:, None] ** 2,
-            0.5 * w * plates.membrane[p][:, None],
-            0.5 * w * plates.shear[p][:, None],
-        )
         tol = 1e-12 * k_max[p][:, None]
         for t in range(3):
             kx = kxs_all[p][t]
             prop = np.abs(kx.imag) < tol
-            power = np.where(prop, np.abs(kx.real) * flux[t], 0.0) * np.abs(amp[t]) ** 2
+            power = np.where(prop, np.abs(kx.real) * coef[p][t], 0.0) * np.abs(amp[t]) ** 2
             tau[..., p, t] = power / p_inc
-    return tau
+    return [tau[:, sl] for sl in segs]
 
 
 @lru_cache(maxsize=16)
@@ -501,112 +535,60 @@ def diffuse_transmission(
     ----------
     .. [1] Langley, R.S., Heron, K.H. (1990). J. Sound Vib. 143(2), 241-253.
     """
-    k_all = plates.wavenumbers(f)  # 3 x (N, B)
-    k_in = k_all[incident][source]  # (B,)
-    breaks = np.concatenate([(k / k_in).T for k in k_all], axis=1)  # (B, 3N)
-    s, wts = diffuse_nodes(breaks, n_points)
-    theta = np.arcsin(np.clip(s, 0.0, 1.0))
-    q = k_in[:, None] * np.sin(np.minimum(theta, THETA_MAX))
-    tau = scatter(f, q, plates, source=source, incident=incident, compliance=compliance)
-    out: FloatArray = np.einsum("bt,btpw->bpw", wts, tau)
-    return out
+    return diffuse_transmission_many(
+        f, plates, [(source, incident)], n_points=n_points, compliance=compliance
+    )[0]
 
 
-def plate_arrays(
-    thickness: Sequence[FloatArray] | FloatArray,
-    youngs_modulus: Sequence[FloatArray] | FloatArray,
-    density: Sequence[FloatArray] | FloatArray,
-    poisson: Sequence[FloatArray] | FloatArray,
-    angle: Sequence[float] | FloatArray,
-    bending: Sequence[FloatArray] | FloatArray,
-) -> PlateArrays:
-    """Stack plate data (each ``(N, B)``; ``angle`` ``(N,)``) into :class:`PlateArrays`.
-
-    ``bending`` is ``D`` computed by the caller with
-    :func:`seatool.physics.plates.bending_stiffness` (one formula, one place).
-    """
-    h = np.asarray(thickness, dtype=np.float64)
-    e = np.asarray(youngs_modulus, dtype=np.float64)
-    rho = np.asarray(density, dtype=np.float64)
-    nu = np.asarray(poisson, dtype=np.float64)
-    return PlateArrays(
-        bending=np.asarray(bending, dtype=np.float64),
-        membrane=e * h / (1.0 - nu**2),
-        shear=e * h / (2.0 * (1.0 + nu)),
-        mass=rho * h,
-        poisson=nu,
-        angle=np.asarray(angle, dtype=np.float64),
-    )
-
-
-def interlayer_compliance(
-    stiffness: float,
+def diffuse_transmission_many(
+    f: FloatArray,
+    plates: PlateArrays,
+    incidents: Sequence[tuple[int, int]],
     *,
-    width: float,
-    shear_stiffness: float | None = None,
-    loss_factor: float = 0.0,
-) -> ComplexArray:
-    """Compliance of an elastic strip under a plate's edge, in the edge dofs (u, v, w, theta).
+    n_points: int,
+    compliance: ComplexArray | None = None,
+) -> FloatArray:
+    """:func:`diffuse_transmission` for several (source plate, incident wave) at once.
 
     Parameters
     ----------
-    stiffness : float
-        Dynamic stiffness per unit length of seam in compression across the strip
-        ``k'`` [N/m^2] (``s' b``: dynamic stiffness per unit area ``s'`` [N/m^3] of the
-        resilient material times the strip width ``b``); ``inf`` for a rigid joint.
-    width : float
-        Width ``b`` of the strip across the seam [m], > 0 (usually the thickness of the
-        plate standing on it; a very narrow strip passes almost no moment: a hinge).
-    shear_stiffness : float, optional
-        Dynamic stiffness per unit length in shear (both directions in the strip's
-        plane) [N/m^2]; default ``k'/3``.
-    loss_factor : float, optional
-        Loss factor ``eta`` of the material [-]: stiffnesses ``k (1 + j eta)``.
+    f : numpy.ndarray
+        Frequencies [Hz], shape ``(B,)``.
+    plates : PlateArrays
+        The plates, arrays ``(N, B)``.
+    incidents : sequence of (int, int)
+        ``(source plate, incident wave type)`` pairs (wave type 0 bending, 1 longitudinal,
+        2 shear).
+    n_points : int
+        Gauss-Legendre nodes per sub-interval between cut-offs.
+    compliance : numpy.ndarray, optional
+        Interlayer compliances ``(N, 4)`` as in :func:`scatter` (default: rigid).
 
     Returns
     -------
     numpy.ndarray
-        ``(1/k', 1/k'_s, 1/k'_s, 1/k'_theta)`` (complex, shape ``(4,)``) [m^2/N, m^2/N,
-        m^2/N, 1/N] for the plate's edge dofs: ``u`` (in the plate, compressing the strip),
-        ``v`` (along the seam) and ``w`` (plate normal) shear the strip, ``theta`` rocks it.
+        ``tau_bar[i, b, p, w]``, shape ``(len(incidents), B, N, 3)``.
 
     Notes
     -----
-    The strip is a layer of independent springs (Winkler foundation) of stiffness
-    ``k'/b`` per unit area of contact. Compression of the strip by ``u`` gives a force per
-    unit length ``k' u``; a rotation ``theta`` of the plate's edge about the middle of the
-    strip gives the moment per unit length
-    ``int_{-b/2}^{b/2} (k'/b) theta x^2 dx = k' b^2 theta / 12`` [1]_. The default shear
-    stiffness takes the strip as a free-to-bulge elastomer, ``G = E / 3``
-    (``E = 2 G (1 + nu)``, ``nu = 0.5``) [2]_, so ``k'_s = G b / t = k' / 3``. A dynamic
-    stiffness per unit area is what EN 29052-1 measures for resilient layers [3]_.
+    Each incident wave has its own quadrature nodes (its cut-offs); all of them are solved
+    as one stack (:func:`scatter_many`). Same integral as :func:`diffuse_transmission`.
 
     References
     ----------
-    .. [1] Hetenyi, M. (1946). Beams on Elastic Foundation. University of Michigan Press,
-       ch. 1 (the Winkler foundation) (from memory).
-    .. [2] Timoshenko, S.P., Goodier, J.N. (1970). Theory of Elasticity, 3rd ed.
-       McGraw-Hill, sec. 3 (relations between the elastic constants).
-    .. [3] EN 29052-1:1992 (ISO 9052-1:1989). Acoustics - Determination of dynamic
-       stiffness - Part 1: Materials used under floating floors in dwellings, clause 3.
+    .. [1] Langley, R.S., Heron, K.H. (1990). J. Sound Vib. 143(2), 241-253.
     """
-    if not stiffness > 0.0:
-        msg = f"stiffness must be > 0, got {stiffness!r}"
-        raise ValueError(msg)
-    if not (math.isfinite(width) and width > 0.0):
-        msg = f"width must be finite and > 0, got {width!r}"
-        raise ValueError(msg)
-    ks = stiffness / 3.0 if shear_stiffness is None else shear_stiffness
-    if not ks > 0.0:
-        msg = f"shear_stiffness must be > 0, got {shear_stiffness!r}"
-        raise ValueError(msg)
-    if not (math.isfinite(loss_factor) and loss_factor >= 0.0):
-        msg = f"loss_factor must be finite and >= 0, got {loss_factor!r}"
-        raise ValueError(msg)
-    k_rot = stiffness * width**2 / 12.0
-    cplx = 1.0 + 1j * loss_factor
-    out: ComplexArray = np.array(
-        [0.0 if math.isinf(k) else 1.0 / (k * cplx) for k in (stiffness, ks, ks, k_rot)],
-        dtype=np.complex128,
+    k_all = plates.wavenumbers(f)  # 3 x (N, B)
+    qs, wts = [], []
+    for source, incident in incidents:
+        k_in = k_all[incident][source]  # (B,)
+        breaks = np.concatenate([(k / k_in).T for k in k_all], axis=1)  # (B, 3N)
+        s, wt = diffuse_nodes(breaks, n_points)
+        theta = np.arcsin(np.clip(s, 0.0, 1.0))
+        qs.append(k_in[:, None] * np.sin(np.minimum(theta, THETA_MAX)))
+        wts.append(wt)
+    taus = scatter_many(f, qs, plates, incidents, compliance=compliance)
+    out: FloatArray = np.stack(
+        [np.einsum("bt,btpw->bpw", wt, tau) for wt, tau in zip(wts, taus, strict=True)]
     )
     return out

@@ -51,6 +51,7 @@ __all__ = [
     "clf_resonator_point",
     "line_junction_transmission",
     "line_junction_transmission_diffuse",
+    "line_junction_transmission_diffuse_many",
     "line_junction_transmission_diffuse_per_band",
     "wavenumbers",
 ]
@@ -369,17 +370,66 @@ def line_junction_transmission_diffuse_per_band(
     .. [1] Langley, R.S., Heron, K.H. (1990). "Elastic wave transmission through plate/beam
        junctions." J. Sound Vib. 143(2), 241-253. doi:10.1016/0022-460X(90)90953-W
     """
+    return line_junction_transmission_diffuse_many(
+        f, plates, [(source, incident)], n_points=n_points
+    )[0]
+
+
+def line_junction_transmission_diffuse_many(
+    f: npt.ArrayLike,
+    plates: Sequence[Sequence[JunctionPlate]],
+    incidents: Sequence[tuple[int, WaveType]],
+    *,
+    n_points: int = 48,
+    compliance: npt.ArrayLike | None = None,
+) -> FloatArray:
+    """:func:`line_junction_transmission_diffuse_per_band` for several incident waves at once.
+
+    Parameters
+    ----------
+    f : array_like
+        Band frequencies [Hz], shape ``(B,)``.
+    plates : sequence of sequences of JunctionPlate
+        ``plates[p][b]``: plate ``p`` in band ``b``.
+    incidents : sequence of (int, str)
+        ``(source plate index, incident wave type)`` pairs.
+    n_points : int, optional
+        Gauss-Legendre nodes per sub-interval between cut-off angles.
+    compliance : array_like, optional
+        Compliance of an elastic interlayer under each plate's edge, shape ``(N, 4)``
+        (:func:`seatool.physics.junction_waves.interlayer_compliance`; zeros: rigid, the
+        default).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``tau_bar[i, b, p, t]`` of shape ``(len(incidents), B, N, 3)``; entry ``i`` equals
+        :func:`line_junction_transmission_diffuse_per_band` with ``incidents[i]``.
+
+    Notes
+    -----
+    One stacked solve over incident waves x bands x quadrature nodes
+    (:func:`seatool.physics.junction_waves.diffuse_transmission_many`), remembered by
+    argument value like :func:`line_junction_transmission_diffuse_per_band`.
+
+    References
+    ----------
+    .. [1] Langley, R.S., Heron, K.H. (1990). "Elastic wave transmission through plate/beam
+       junctions." J. Sound Vib. 143(2), 241-253. doi:10.1016/0022-460X(90)90953-W
+    """
     f_arr = _frequencies(f)
     if f_arr.ndim != 1:
         msg = f"f must be one-dimensional (one value per band), got shape {f_arr.shape}"
         raise ValueError(msg)
-    _check_plates(plates, source)
-    col_in = _wave_index(incident)
+    pairs = []
+    for source, incident in incidents:
+        _check_plates(plates, source)
+        pairs.append((int(source), _wave_index(incident)))
     if n_points < 2:
         msg = f"n_points must be >= 2, got {n_points!r}"
         raise ValueError(msg)
     if f_arr.size == 0:
-        return np.empty((0, len(plates), 3))
+        return np.empty((len(pairs), 0, len(plates), 3))
     for idx, pp in enumerate(plates):
         if len(pp) != f_arr.size:
             msg = f"plates[{idx}] has {len(pp)} entries for {f_arr.size} bands"
@@ -388,20 +438,26 @@ def line_junction_transmission_diffuse_per_band(
     if np.any(table[..., 4] != table[:, :1, 4]):
         msg = "a plate changes its angle between bands"
         raise ValueError(msg)
-    return _diffuse_memo(f_arr, table, source, col_in, n_points)
+    soft = None
+    if compliance is not None:
+        soft = np.asarray(compliance, dtype=np.complex128)
+        if soft.shape != (len(plates), 4):
+            msg = f"compliance must have shape ({len(plates)}, 4), got {soft.shape}"
+            raise ValueError(msg)
+    return _diffuse_memo(f_arr, table, tuple(pairs), n_points, soft)
 
 
 @memoised(maxsize=512)
 def _diffuse_memo(
     f: FloatArray,
     table: FloatArray,
-    source: int,
-    incident: int,
+    incidents: tuple[tuple[int, int], ...],
     n_points: int,
+    compliance: ComplexArray | None,
 ) -> FloatArray:
-    """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission`."""
-    return jw.diffuse_transmission(
-        f, _stack(table), source=source, incident=incident, n_points=n_points
+    """Memoised :func:`seatool.physics.junction_waves.diffuse_transmission_many`."""
+    return jw.diffuse_transmission_many(
+        f, _stack(table), incidents, n_points=n_points, compliance=compliance
     )
 
 

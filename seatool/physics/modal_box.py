@@ -437,6 +437,7 @@ def plane_wave_modal_forces(
     plate: PlateModes,
     wavenumber: npt.ArrayLike,
     directions: npt.ArrayLike,
+    out: ComplexArray | None = None,
 ) -> ComplexArray:
     """Blocked-pressure modal forces of unit plane waves on a baffled panel [N per Pa].
 
@@ -449,6 +450,8 @@ def plane_wave_modal_forces(
     directions : array_like, shape (R, 2)
         Incidence angles (theta, phi) [rad]: theta from the panel normal, phi from the
         u axis.
+    out : numpy.ndarray of complex, shape (L, K, R), optional
+        Where to write the result (e.g. a part of a larger right-hand side).
 
     Returns
     -------
@@ -474,9 +477,15 @@ def plane_wave_modal_forces(
     st = np.sin(d[:, 0])
     ku = k[:, None] * (st * np.cos(d[:, 1]))[None, :]  # (L, R)
     kv = k[:, None] * (st * np.sin(d[:, 1]))[None, :]
-    iu = sine_exponential_integral(plate.p[None, :, None], plate.a, ku[:, None, :])
-    iv = sine_exponential_integral(plate.q[None, :, None], plate.b, kv[:, None, :])
-    return np.asarray(2.0 * iu * iv, dtype=np.complex128)
+    # each factor depends on one half-wave number only: evaluated once per distinct number
+    up, at_p = np.unique(plate.p, return_inverse=True)
+    uq, at_q = np.unique(plate.q, return_inverse=True)
+    iu = 2.0 * sine_exponential_integral(up[None, :, None], plate.a, ku[:, None, :])
+    iv = sine_exponential_integral(uq[None, :, None], plate.b, kv[:, None, :])
+    if out is None:
+        out = np.empty((k.size, len(plate), d.shape[0]), dtype=np.complex128)
+    np.multiply(iu[:, at_p.ravel(), :], iv[:, at_q.ravel(), :], out=out)
+    return out
 
 
 def diffuse_field_directions(n_theta: int = 8, n_phi: int = 16) -> tuple[FloatArray, FloatArray]:

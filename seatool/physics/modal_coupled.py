@@ -42,18 +42,20 @@ from typing import Literal
 
 import numpy as np
 import numpy.typing as npt
-from threadpoolctl import threadpool_limits
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
+from ._threads import one_blas_thread
 
 __all__ = [
     "band_lines",
     "cavity_modal_admittance_term",
+    "coupling_group_count",
     "line_average",
     "modal_impedance",
     "solve_coupled",
     "solve_coupled_full",
+    "solve_coupled_squares",
 ]
 
 FloatArray = npt.NDArray[np.float64]
@@ -143,30 +145,56 @@ def _rhs(x: npt.ArrayLike | None, n_lines: int, size: int) -> ComplexArray:
 
 
 def _apply(b: FloatArray, x: ComplexArray) -> ComplexArray:
-    """b @ x[f] for every line f: real (S, G) times complex (F, G, R) -> (F, S, R), as two
-    real matrix products over all lines at once."""
+    """b @ x[f] for every line f: real (S, G) times complex (F, G, R) -> (F, S, R).
+
+    The complex array is read as real pairs (F, G, 2R), so every line is one real matrix
+    product and nothing is transposed or copied; loads that are the same at every line (a
+    broadcast first axis) are multiplied once.
+    """
     nf, ng, nr = x.shape
-    xt = x.transpose(1, 0, 2).reshape(ng, nf * nr)
-    re = b @ np.ascontiguousarray(xt.real)
-    im = b @ np.ascontiguousarray(xt.imag)
-    return np.asarray((re + 1j * im).reshape(b.shape[0], nf, nr).transpose(1, 0, 2))
+    if nf > 1 and x.strides[0] == 0:
+        once = _apply(b, x[:1])
+        return np.broadcast_to(once, (nf, b.shape[0], nr))
+    xc = np.ascontiguousarray(x, dtype=np.complex128)
+    out = np.matmul(b, xc.view(np.float64))  # (F, S, 2R) real: (re, im) pairs
+    return out.view(np.complex128)
 
 
 def _reduced(diag: ComplexArray, inv_other: ComplexArray, b: FloatArray) -> ComplexArray:
     """diag(d) + B diag(1/o) B^T for a block of lines: (F, S) + (S, G) (F, G) (G, S)."""
     nf, ns = diag.shape
-    g = _apply(b, inv_other[:, :, None] * b.T[None, :, :])
-    g = np.ascontiguousarray(g)
+    bt = b.T if b.T.flags.c_contiguous else np.ascontiguousarray(b.T)
+    g = _apply(b, inv_other[:, :, None] * bt[None, :, :])
     idx = np.arange(ns)
     g[:, idx, idx] += diag
     return g
+
+
+def _nonzero_columns(x: ComplexArray) -> npt.NDArray[np.int64]:
+    """Right-hand-side columns (last axis) of (L, S, R) loads that are not zero everywhere."""
+    if x.size == 0:
+        return np.zeros(0, dtype=np.int64)
+    compact = x[:1] if x.strides[0] == 0 else x
+    return np.flatnonzero(np.any(compact, axis=(0, 1))).astype(np.int64)
+
+
+def _columns(idx: npt.NDArray[np.int64]) -> slice | npt.NDArray[np.int64]:
+    """A slice for consecutive columns (a view, no copy), else the indices."""
+    if idx.size and idx[-1] - idx[0] == idx.size - 1:
+        return slice(int(idx[0]), int(idx[-1]) + 1)
+    return idx
+
+
+def _writable(x: ComplexArray) -> ComplexArray:
+    """``x`` itself if it owns writable memory, else a copy (a broadcast product)."""
+    return x if x.flags.writeable else np.array(x)
 
 
 def _batched_solve(a: ComplexArray, b: ComplexArray) -> ComplexArray:
     """Batched LU solves, one BLAS thread: many small factorisations gain nothing from
     threads and lose much to thread contention on a busy machine (measured 50x slower with
     two threads under load; see docs/performance.md)."""
-    with threadpool_limits(limits=1, user_api="blas"):
+    with one_blas_thread():
         return np.asarray(np.linalg.solve(a, b), dtype=np.complex128)
 
 
@@ -177,7 +205,7 @@ def solve_coupled(
     force: npt.ArrayLike | None = None,
     volume_velocity: npt.ArrayLike | None = None,
     *,
-    keep: Literal["auto", "structure", "cavity"] = "auto",
+    keep: Literal["auto", "structure", "cavity", "groups"] = "auto",
 ) -> tuple[ComplexArray, ComplexArray]:
     """Solve the coupled modal equations at every frequency line.
 
@@ -193,8 +221,8 @@ def solve_coupled(
         Generalised forces F_k [N], shape (K,), (K, R) or (L, K, R).
     volume_velocity : array_like, optional
         Modal sources Q_n [m^3/s], shape (N,), (N, R) or (L, N, R).
-    keep : {"auto", "structure", "cavity"}, optional
-        Which set stays in the dense system (default: the smaller one).
+    keep : {"auto", "structure", "cavity", "groups"}, optional
+        Which set stays in the dense system (default: the smallest one; see Notes).
 
     Returns
     -------
@@ -207,9 +235,16 @@ def solve_coupled(
     -----
     Structure kept: (Z + C^T Y^-1 C) V = F - C^T Y^-1 Q, then P = Y^-1 (Q + C V).
     Cavity kept: (Y + C Z^-1 C^T) P = Q + C Z^-1 F, then V = Z^-1 (F - C^T P).
-    Both are exact rearrangements of the equations in the module docstring (Dowell, Gorman &
-    Smith 1977; Pan & Bies 1990); the tests compare them with each other and with the full
-    system (:func:`solve_coupled_full`).
+    Groups kept: cavity modes whose coupling rows are equal up to sign, c_n = s_n c_g (on a
+    panel in one face the row depends only on the mode's two indices along the face, not
+    on the third), form G groups, C = E C_G with E the signed N x G incidence. With
+    W = E^T Y^-1 E (diagonal, W_g = sum of 1/Y_n over the group) and the group loads
+    pi = E^T P: (I + W C_G Z^-1 C_G^T) pi = W C_G Z^-1 F + E^T Y^-1 Q, then
+    V = Z^-1 (F - C_G^T pi) and P = Y^-1 (Q + E C_G V): a G x G system per line, chosen by
+    "auto" when G is smaller than both K and N.
+    All three are exact rearrangements of the equations in the module docstring (Dowell,
+    Gorman & Smith 1977; Pan & Bies 1990); the tests compare them with each other and with
+    the full system (:func:`solve_coupled_full`).
     """
     z = np.atleast_2d(np.asarray(z_struct, dtype=np.complex128))
     y = np.atleast_2d(np.asarray(y_cavity, dtype=np.complex128))
@@ -224,33 +259,201 @@ def solve_coupled(
     nr = max(f.shape[2], q.shape[2])
     f = np.broadcast_to(f, (nl, nk, nr))
     q = np.broadcast_to(q, (nl, nn, nr))
-    if keep == "auto":
-        keep = "structure" if nk <= nn else "cavity"
-    if keep not in ("structure", "cavity"):
-        msg = f"keep must be 'auto', 'structure' or 'cavity', got {keep!r}"
+    if keep not in ("auto", "structure", "cavity", "groups"):
+        msg = f"keep must be 'auto', 'structure', 'cavity' or 'groups', got {keep!r}"
         raise ValueError(msg)
+    groups = _coupling_groups(c) if keep in ("auto", "groups") else None
+    if keep == "auto":
+        assert groups is not None
+        if groups[0].shape[0] < min(nk, nn):
+            keep = "groups"
+        else:
+            keep = "structure" if nk <= nn else "cavity"
+    if keep == "groups":
+        assert groups is not None
+        vel_g, prs_g = _solve_groups(z, y, groups, f, q)
+        return vel_g, np.asarray(prs_g, dtype=np.complex128)
     vel = np.empty((nl, nk, nr), dtype=np.complex128)
     prs = np.empty((nl, nn, nr), dtype=np.complex128)
     ns, ng = (nk, nn) if keep == "structure" else (nn, nk)
     block = max(1, _BLOCK_ELEMENTS // max(1, ns * max(ns, ng)))
-    for s in range(0, nl, block):
-        sl = slice(s, min(nl, s + block))
-        zi, yi = z[sl], y[sl]
-        if keep == "structure":
-            yinv = 1.0 / yi
-            g = _reduced(zi, yinv, c.T)
-            rhs = f[sl] - _apply(c.T, yinv[:, :, None] * q[sl])
-            v = _batched_solve(g, rhs)
-            p = yinv[:, :, None] * (q[sl] + _apply(c, v))
-        else:
-            zinv = 1.0 / zi
-            g = _reduced(yi, zinv, c)
-            rhs = q[sl] + _apply(c, zinv[:, :, None] * f[sl])
-            p = _batched_solve(g, rhs)
-            v = zinv[:, :, None] * (f[sl] - _apply(c.T, p))
-        vel[sl] = v
-        prs[sl] = p
+    # only the columns where a load is given take part in the elimination's load terms
+    fcols, qcols = _nonzero_columns(f), _nonzero_columns(q)
+    ct = np.ascontiguousarray(c.T)  # C-ordered, so the products below copy nothing
+    with one_blas_thread():
+        for s in range(0, nl, block):
+            sl = slice(s, min(nl, s + block))
+            zi, yi = z[sl], y[sl]
+            if keep == "structure":
+                yinv = 1.0 / yi
+                g = _reduced(zi, yinv, ct)
+                rhs = np.array(f[sl], dtype=np.complex128)
+                if qcols.size:
+                    rhs[:, :, qcols] -= _apply(ct, yinv[:, :, None] * q[sl][:, :, qcols])
+                v = _batched_solve(g, rhs)
+                p = _writable(_apply(c, v))
+                if qcols.size:
+                    p[:, :, qcols] += q[sl][:, :, qcols]
+                p *= yinv[:, :, None]
+            else:
+                zinv = 1.0 / zi
+                g = _reduced(yi, zinv, c)
+                rhs = np.array(q[sl], dtype=np.complex128)
+                if fcols.size:
+                    rhs[:, :, fcols] += _apply(c, zinv[:, :, None] * f[sl][:, :, fcols])
+                p = _batched_solve(g, rhs)
+                v = _writable(_apply(ct, p))
+                np.negative(v, out=v)
+                if fcols.size:
+                    v[:, :, fcols] += f[sl][:, :, fcols]
+                v *= zinv[:, :, None]
+            vel[sl] = v
+            prs[sl] = p
     return vel, prs
+
+
+def coupling_group_count(coupling: npt.ArrayLike) -> int:
+    """Number of groups of cavity modes whose coupling rows are equal up to sign (Notes of
+    :func:`solve_coupled`); the groups are eliminated together when fewer than both sets."""
+    return int(_coupling_groups(np.asarray(coupling, dtype=np.float64))[0].shape[0])
+
+
+def _coupling_groups(c: FloatArray) -> tuple[FloatArray, npt.NDArray[np.int64], FloatArray]:
+    """Rows of C equal up to sign: (C_G (G, K), the group of each row (N,), its sign (N,)).
+
+    Remembered for the last few matrices (the same C comes with every block of lines)."""
+    key = (c.shape, c.tobytes())
+    got = _GROUPS.get(key)
+    if got is None:
+        got = _GROUPS[key] = _find_groups(c)
+        while len(_GROUPS) > 4:
+            _GROUPS.pop(next(iter(_GROUPS)))
+    return got
+
+
+_GROUPS: dict[tuple[tuple[int, ...], bytes], tuple[FloatArray, npt.NDArray[np.int64], FloatArray]] = {}
+
+
+def _find_groups(c: FloatArray) -> tuple[FloatArray, npt.NDArray[np.int64], FloatArray]:
+    nz = c != 0
+    first = np.argmax(nz, axis=1)
+    sign = np.where(nz.any(axis=1), np.sign(c[np.arange(c.shape[0]), first]), 1.0)
+    cg, at = np.unique(c * sign[:, None], axis=0, return_inverse=True)
+    return np.ascontiguousarray(cg), np.asarray(at, dtype=np.int64).ravel(), sign
+
+
+def _solve_groups(
+    z: ComplexArray,
+    y: ComplexArray,
+    groups: tuple[FloatArray, npt.NDArray[np.int64], FloatArray],
+    f: ComplexArray,
+    q: ComplexArray,
+    pressure_weight: FloatArray | None = None,
+) -> tuple[ComplexArray, ComplexArray | FloatArray]:
+    """The coupled equations with the coupling groups kept (Notes of :func:`solve_coupled`).
+
+    Returns V and P, or with ``pressure_weight`` (N,) V and sum_n w_n |P_n|^2 per line and
+    column (L, R): where no source acts, |P_n| = |E C_G V|_g / |Y_n|, summed per group.
+    """
+    cg, at, sign = groups
+    ng, nk = cg.shape
+    nl, nn = y.shape
+    nr = f.shape[2]
+    cgt = np.ascontiguousarray(cg.T)
+    member = np.zeros((nn, ng))  # |E|: which group each cavity mode belongs to
+    member[np.arange(nn), at] = 1.0
+    signed_t = np.ascontiguousarray((member * sign[:, None]).T)  # E^T, (G, N)
+    fi, qi = _nonzero_columns(f), _nonzero_columns(q)
+    fcols, qcols = _columns(fi), _columns(qi)
+    vel = np.empty((nl, nk, nr), dtype=np.complex128)
+    squares = pressure_weight is not None
+    prs: ComplexArray | FloatArray = (np.empty((nl, nr)) if squares
+                                      else np.empty((nl, nn, nr), dtype=np.complex128))  # fmt: skip
+    block = max(1, _BLOCK_ELEMENTS // max(1, nk * max(ng, nr) + nn * nr))
+    eye = np.eye(ng)
+    with one_blas_thread():
+        for s in range(0, nl, block):
+            sl = slice(s, min(nl, s + block))
+            zinv, yinv = 1.0 / z[sl], 1.0 / y[sl]
+            w = yinv.real @ member + 1j * (yinv.imag @ member)  # (F, G)
+            a = _writable(_apply(cg, zinv[:, :, None] * cgt[None, :, :]))  # C_G Z^-1 C_G^T
+            a *= w[:, :, None]
+            a += eye
+            rhs = np.zeros((sl.stop - sl.start, ng, nr), dtype=np.complex128)
+            fs = f[sl][:, :, fcols] if fi.size else None
+            if fs is not None:
+                rhs[:, :, fcols] = w[:, :, None] * _apply(cg, zinv[:, :, None] * fs)
+            if qi.size:
+                rhs[:, :, qcols] += _apply(signed_t, yinv[:, :, None] * q[sl][:, :, qcols])
+            pi = _batched_solve(a, rhs)
+            v = _writable(_apply(cgt, pi))
+            np.negative(v, out=v)
+            if fs is not None:
+                v[:, :, fcols] += fs
+            v *= zinv[:, :, None]
+            vel[sl] = v
+            cv = _apply(cg, v)  # (F, G, R)
+            if not squares:
+                p = cv[:, at, :] * sign[None, :, None]
+                if qi.size:
+                    p[:, :, qcols] += q[sl][:, :, qcols]
+                p *= yinv[:, :, None]
+                prs[sl] = p
+                continue
+            assert pressure_weight is not None
+            # columns without a source: sum over each group's modes of w_n |1/Y_n|^2
+            wg = (pressure_weight * _abs2(yinv)) @ member  # (F, G)
+            out = np.einsum("lg,lgr->lr", wg, _abs2(cv))
+            if qi.size:  # columns with a source: P in full
+                p = cv[:, at, :][:, :, qcols] * sign[None, :, None]
+                p += q[sl][:, :, qcols]
+                p *= yinv[:, :, None]
+                out[:, qcols] = np.einsum("n,lnr->lr", pressure_weight, _abs2(p))
+            prs[sl] = out
+    return vel, prs
+
+
+def _abs2(x: ComplexArray) -> FloatArray:
+    """|x|^2 elementwise."""
+    return np.asarray(x.real**2 + x.imag**2, dtype=np.float64)
+
+
+def solve_coupled_squares(
+    z_struct: npt.ArrayLike,
+    y_cavity: npt.ArrayLike,
+    coupling: npt.ArrayLike,
+    force: npt.ArrayLike | None = None,
+    volume_velocity: npt.ArrayLike | None = None,
+    *,
+    pressure_weight: npt.ArrayLike,
+) -> tuple[ComplexArray, FloatArray]:
+    """:func:`solve_coupled`, returning the modal velocities and, instead of the modal
+    pressures, their weighted squares sum_n w_n |P_n|^2 [Pa^2] per line and right-hand side.
+
+    ``pressure_weight`` (N,) is w_n (e.g. Lambda_n / V for the space-averaged mean-square
+    pressure). With the coupling groups kept (Notes of :func:`solve_coupled`) the sum takes
+    O(G) per line and column instead of O(N); otherwise the pressures are formed in full.
+    Returns velocity (L, K, R) [m/s] and the sums (L, R).
+    """
+    wn = np.asarray(pressure_weight, dtype=np.float64)
+    z = np.atleast_2d(np.asarray(z_struct, dtype=np.complex128))
+    y = np.atleast_2d(np.asarray(y_cavity, dtype=np.complex128))
+    c = np.asarray(coupling, dtype=np.float64)
+    nl, nk = z.shape
+    nn = y.shape[1]
+    if wn.shape != (nn,) or y.shape[0] != nl or c.shape != (nn, nk):
+        msg = f"shapes do not match: Z {z.shape}, Y {y.shape}, C {c.shape}, weight {wn.shape}"
+        raise ValueError(msg)
+    groups = _coupling_groups(c)
+    if groups[0].shape[0] < min(nk, nn):
+        f = _rhs(force, nl, nk)
+        q = _rhs(volume_velocity, nl, nn)
+        nr = max(f.shape[2], q.shape[2])
+        vel, p2 = _solve_groups(z, y, groups, np.broadcast_to(f, (nl, nk, nr)),
+                                np.broadcast_to(q, (nl, nn, nr)), wn)  # fmt: skip
+        return vel, np.asarray(p2, dtype=np.float64)
+    vel, prs = solve_coupled(z, y, c, force, volume_velocity)
+    return vel, np.einsum("n,lnr->lr", wn, _abs2(prs))
 
 
 def solve_coupled_full(

@@ -73,10 +73,10 @@ import numpy.typing as npt
 import scipy.linalg
 from scipy.sparse import csr_matrix
 from scipy.sparse.csgraph import connected_components
-from threadpoolctl import threadpool_limits
 
 from ._checks import nonnegative as _nonnegative
 from ._checks import positive as _positive
+from ._threads import one_blas_thread
 from .modal_coupled import _apply, _rhs
 
 __all__ = ["COUPLING_LIMIT", "CoupledModes", "coupled_modes", "solve_coupled_modes"]
@@ -224,7 +224,7 @@ def coupled_modes(
     a[:nk, :nk] = np.diag(ws**2)
     a[nk:, :nk] = b * ws[None, :]
     a[:nk, nk:] = a[nk:, :nk].T
-    with threadpool_limits(limits=1, user_api="blas"):
+    with one_blas_thread():
         a[nk:, nk:] = b @ b.T
         a[nk + np.arange(nn), nk + np.arange(nn)] += wa**2
         lam, u = scipy.linalg.eigh(a, driver="evd", check_finite=False)
@@ -291,7 +291,7 @@ def solve_coupled_modes(
     prs = np.empty((nl, nn, nr), dtype=np.complex128)
     n = len(modes)
     block = max(1, _BLOCK_ELEMENTS // max(1, n * nr))
-    with threadpool_limits(limits=1, user_api="blas"):
+    with one_blas_thread():
         # loads that do not change with frequency are projected once
         g_f = _apply(modes.force_load, f[:1]) if force is None or np.ndim(force) < 3 else None
         g_q = (_apply(modes.cavity.T, q[:1])

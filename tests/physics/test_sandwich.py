@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from scipy import integrate
+from scipy import integrate, optimize
 
 from seatool.physics import plates, sandwich
 
@@ -101,7 +101,9 @@ def test_sandwich_modal_density_vs_simply_supported_count() -> None:
     )
     fmodes = (np.sqrt(k2**2 * bb / sec.surface_density) / (2 * np.pi)).ravel()
     fm, lo, hi = third_octave_bands(33, 43)  # 2 kHz ... 20 kHz: shear-dominated range
-    counted = np.array([np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)])
+    counted = np.array(
+        [np.count_nonzero((fmodes >= x) & (fmodes < y)) for x, y in zip(lo, hi, strict=True)]
+    )
     expected = np.array(
         [
             integrate.quad(lambda f: float(sandwich.sandwich_modal_density(f, a * b, sec)), x, y)[0]
@@ -121,3 +123,36 @@ def test_sandwich_section_properties() -> None:
     assert SANDWICH.total_bending_stiffness == pytest.approx(d_num, rel=1e-12)
     assert SANDWICH.shear_stiffness == pytest.approx(40e6 * (c + t) ** 2 / c)
     assert SANDWICH.surface_density == pytest.approx(2 * 2700 * t + 50 * c)
+
+
+def test_sandwich_critical_frequency_is_where_the_phase_speed_is_c0() -> None:
+    # Independent numerical method: the root of sandwich_phase_speed(f) = c0 found by
+    # scipy.optimize.brentq on ln f (the phase speed rises monotonically), to 1e-9.
+    for sec in (SANDWICH, sandwich.sandwich_section(210e9, 0.3, 0.5e-3, 7850.0, 5e6, 40e-3, 30.0)):
+        for c0 in (343.0, 1480.0):
+            root = optimize.brentq(
+                lambda x, s=sec, c=c0: float(sandwich.sandwich_phase_speed(np.exp(x), s)) - c,
+                np.log(1e-3),
+                np.log(1e9),
+                xtol=1e-13,
+            )
+            got = sandwich.sandwich_critical_frequency(sec, c0)
+            assert got == pytest.approx(float(np.exp(root)), rel=1e-9)
+
+
+def test_sandwich_critical_frequency_limits() -> None:
+    # Textbook plate critical frequency f_c = c0^2/(2 pi) sqrt(m''/D) (Cremer, Heckl &
+    # Petersson 2005, ch. 3; plates.critical_frequency): of the whole section with a rigid
+    # core in shear, of the faces alone with no sandwich (parallel-axis) stiffness.
+    sec = SANDWICH
+    m = sec.surface_density
+    rigid = sandwich.SandwichSection(
+        sec.face_bending_stiffness, sec.sandwich_bending_stiffness, 1e20, m
+    )
+    assert sandwich.sandwich_critical_frequency(rigid, 343.0) == pytest.approx(
+        float(plates.critical_frequency(sec.total_bending_stiffness, m, 343.0)), rel=1e-9
+    )
+    faces = sandwich.SandwichSection(sec.face_bending_stiffness, 1e-12, sec.shear_stiffness, m)
+    assert sandwich.sandwich_critical_frequency(faces, 343.0) == pytest.approx(
+        float(plates.critical_frequency(sec.face_bending_stiffness, m, 343.0)), rel=1e-6
+    )
