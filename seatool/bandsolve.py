@@ -19,8 +19,8 @@ Methods
     whose matrices and work vectors fit in :data:`GROUP_BYTES` (a core's cache): a group
     is one block-diagonal sparse product per iteration with one step length per band,
     a group of one band uses level-1 BLAS updates in place. The check below is tried
-    once the residual norm is small enough to pass it,
-    followed by Jacobi sweeps ``x <- x + D^-1 (b - C x)``. For an M-matrix with ``b >= 0``
+    once the residual norm is small enough to pass it. The conjugate gradients are
+    followed by Jacobi sweeps ``x <- x + D^-1 (b - C x)`` where the check still fails. For an M-matrix with ``b >= 0``
     a sweep computes every energy from its neighbours' energies as a sum of non-negative
     terms, so the relative accuracy of the large energies reaches the small ones, one
     connection per sweep (Varga 1962, Matrix Iterative Analysis, thm. 3.13: the Jacobi

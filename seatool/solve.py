@@ -162,10 +162,10 @@ def assemble(model: Model) -> Assembly:
 class Solution:
     """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people.
 
-    ``condition`` (B,) is the 1-norm condition number of each band's solved block
-    (:func:`condition_numbers`); on the iterative route it is computed when first read,
-    since :func:`solve` needs it only where the cheap bound ``condition_bound`` exceeds
-    :data:`CONDITION_NOTE`.
+    ``condition`` (B,) is the 1-norm condition number of each band's solved block,
+    ``||L||_1 max(L^-T 1)`` (module notes); on the iterative route it is computed when
+    first read, since :func:`solve` needs it only where the cheap bound
+    ``condition_bound`` (:func:`condition_bound`) exceeds :data:`CONDITION_NOTE`.
     """
 
     energy: Array  # (N, B) [J]
