@@ -14,12 +14,17 @@ move to the right-hand side. The remaining matrix is a column-diagonally-dominan
 Z-matrix (column sums equal the damping loss factors), i.e. an M-matrix when
 nonsingular; its inverse is then entrywise non-negative, which gives energies >= 0 and
 lets the exact 1-norm of the inverse be read from one transposed solve
-(``||L^-1||_1 = max(L^-T 1)``) for the condition number.
+(``||L^-1||_1 = max(L^-T 1)``) for the condition number. The column dominance also
+bounds it without a solve (:func:`condition_bound`, Varah 1975); :func:`solve` computes
+the condition number only where that bound exceeds :data:`CONDITION_NOTE` (or when
+``Solution.condition`` is first read).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 import numpy.typing as npt
@@ -34,6 +39,7 @@ __all__ = [
     "FreeBlock",
     "SolveError",
     "assemble",
+    "condition_bound",
     "free_block_matrices",
     "solve",
     "solve_free",
@@ -74,6 +80,8 @@ class Assembly:
     power : ndarray (N, B)
         Input powers from power excitations [W].
     omega : ndarray (B,)
+    modal : ndarray (N, B) or None
+        Modal densities [1/Hz] (sinks: infinite).
     """
 
     eta_ab: Array
@@ -86,6 +94,7 @@ class Assembly:
     held_energy: Array
     power: Array
     omega: Array
+    modal: Array | None = None
 
     @property
     def shape(self) -> tuple[int, int]:
@@ -145,21 +154,36 @@ def assemble(model: Model) -> Assembly:
         held_energy=held_energy,
         power=power,
         omega=model.bands.omega.copy(),
+        modal=modal,
     )
 
 
 @dataclass(frozen=True)
 class Solution:
-    """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people."""
+    """Raw arrays of a solve; :class:`seatool.results.Result` wraps them for people.
+
+    ``condition`` (B,) is the 1-norm condition number of each band's solved block,
+    ``||L||_1 max(L^-T 1)`` (module notes); on the iterative route it is computed when
+    first read, since :func:`solve` needs it only where the cheap bound
+    ``condition_bound`` (:func:`condition_bound`) exceeds :data:`CONDITION_NOTE`.
+    """
 
     energy: Array  # (N, B) [J]
     input_power: Array  # (N, B) [W] external input (held subsystems: power to hold them)
     dissipated_power: Array  # (N, B) [W] damping loss (sinks: power absorbed)
     connection_power: Array  # (C, B) [W] net power from a to b of each connection
     residual: Array  # (B,) relative conservation residual
-    condition: Array  # (B,) 1-norm condition number of the solved block
+    condition_bound: Array  # (B,) upper bound of the condition number (condition_bound())
     notes: tuple[str, ...]
     method: str = "lu"  # how the bands were solved (see seatool.bandsolve.spd_solve)
+    condition_of: Callable[[], Array] | None = field(default=None, repr=False, compare=False)
+
+    @cached_property
+    def condition(self) -> Array:
+        """1-norm condition number of the solved block of every band (B,)."""
+        if self.condition_of is None:
+            return np.ones_like(self.residual)
+        return self.condition_of()
 
 
 def _check_singular(model: Model, asm: Assembly) -> None:
@@ -212,15 +236,28 @@ def _singular(model: Model, asm: Assembly, free: npt.NDArray[np.int64], j: int) 
 def free_block_matrices(
     asm: Assembly, pos: npt.NDArray[np.int64], n_free: Array
 ) -> BandMatrices:
-    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns."""
+    """C = L_UU diag(n_U) of every band on one pattern; ``pos`` maps subsystems to unknowns.
+
+    ``C_ii = L_ii n_i``; a connection between free subsystems a and b gives
+    ``C_ab = C_ba = -eta_ab n_a`` (``= -eta_ba n_b``, reciprocity), one value for both
+    triangles, so C is symmetric to the last bit.
+    """
     nf = n_free.shape[0]
+    nb = n_free.shape[1] if n_free.ndim == 2 else asm.diag.shape[1]
     a, b = asm.a, asm.b
-    ff = (pos[a] >= 0) & (pos[b] >= 0)
+    ff = np.flatnonzero((pos[a] >= 0) & (pos[b] >= 0))
+    pa, pb = pos[a[ff]], pos[b[ff]]
+    m = ff.size
     free = np.flatnonzero(pos >= 0)
-    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-    vals = np.concatenate([asm.diag[free], -asm.eta_ba[ff], -asm.eta_ab[ff]], axis=0)
-    return BandMatrices.from_entries(nf, rows, cols, vals * n_free[cols])
+    src = np.empty((nf + m, nb))
+    np.multiply(asm.diag[free], n_free, out=src[:nf])
+    np.multiply(asm.eta_ab[ff], n_free[pa], out=src[nf:])
+    np.negative(src[nf:], out=src[nf:])
+    unknowns = np.arange(nf, dtype=np.int64)
+    links = np.arange(nf, nf + m, dtype=np.int64)
+    rows = np.concatenate([unknowns, pa, pb])
+    cols = np.concatenate([unknowns, pb, pa])
+    return BandMatrices.from_entries(nf, rows, cols, src, np.concatenate([unknowns, links, links]))
 
 
 @dataclass(frozen=True)
@@ -260,7 +297,9 @@ class FreeBlock:
         free = np.flatnonzero(~asm.held).astype(np.int64)
         pos = np.full(n, -1, dtype=np.int64)
         pos[free] = np.arange(free.size)
-        if free.size:
+        if asm.modal is not None:
+            n_free = asm.modal[free]
+        elif free.size:
             n_free = np.array([model.subsystems[i].modal_density for i in free], dtype=float)
         else:
             n_free = np.zeros((0, nb))
@@ -297,11 +336,66 @@ class FreeBlock:
 
 
 def solve_free(
-    mats: BandMatrices, rhs: Array, tol: npt.ArrayLike | None = None
+    mats: BandMatrices,
+    rhs: Array,
+    tol: npt.ArrayLike | None = None,
+    group_bytes: int | None = None,
 ) -> tuple[Array, str]:
     """:func:`seatool.bandsolve.spd_solve` with the solver's settings (read at call time)."""
     tol = ENERGY_TOLERANCE if tol is None else tol
-    return spd_solve(mats, rhs, tol, iterative_above=ITERATIVE_ABOVE)
+    return spd_solve(
+        mats, rhs, tol, iterative_above=ITERATIVE_ABOVE, group_bytes=group_bytes
+    )
+
+
+def condition_bound(blk: FreeBlock) -> tuple[Array, Array]:
+    """``||L_j||_1`` and an upper bound of the condition number of every band (B,), (B,).
+
+    ``L = L_UU`` is the free block of the power balance. Its column i holds the total loss
+    factor ``L_ii`` and the coupling loss factors from i to the other free subsystems
+    (negative); their sum, the column excess ``delta_i = |L_ii| - sum_(k != i) |L_ki|``, is
+    the damping loss factor of i plus its coupling loss factors into held subsystems
+    (computed as that sum, without cancellation). A matrix whose columns are strictly
+    diagonally dominant has ``||L^-1||_1 <= 1 / min(delta)`` (Varah 1975, applied to
+    ``L^T``), so ``cond_1(L) <= ||L||_1 / min(delta)``; infinite where ``min(delta) <= 0``.
+
+    References
+    ----------
+    .. [1] Varah, J.M. (1975). "A lower bound for the smallest singular value of a
+       matrix." Linear Algebra and its Applications 11(1), 3-5 (the bound
+       ``||A^-1||_inf <= 1 / min_i (|a_ii| - sum_(j != i) |a_ij|)``).
+    """
+    asm, pos = blk.asm, blk.pos
+    a, b = asm.a, asm.b
+    excess = np.array(asm.damping[blk.free])
+    to_held = (pos[a] >= 0) & asm.held[b]
+    add_rows(excess, pos[a[to_held]], asm.eta_ab[to_held])
+    from_held = (pos[b] >= 0) & asm.held[a]
+    add_rows(excess, pos[b[from_held]], asm.eta_ba[from_held])
+    col_abs = 2.0 * asm.diag[blk.free] - excess
+    norm = np.asarray(col_abs.max(axis=0), dtype=float)
+    low = excess.min(axis=0)
+    with np.errstate(divide="ignore"):
+        bound = np.where(low > 0, norm / np.where(low > 0, low, 1.0), np.inf)
+    return norm, np.asarray(bound, dtype=float)
+
+
+def _condition_vectors(
+    model: Model,
+    asm: Assembly,
+    free: npt.NDArray[np.int64],
+    mats: BandMatrices,
+    n_free: Array,
+    bands: npt.NDArray[np.int64],
+) -> Array:
+    """``L^-T 1 = C^-1 n`` of the bands ``bands`` (nf, len(bands)); for an M-matrix its
+    largest entry is ``||L^-1||_1`` exactly."""
+    sub = BandMatrices(mats.indptr, mats.indices, mats.values[:, bands])
+    try:
+        y, _ = solve_free(sub, n_free[:, bands, None], CONDITION_VECTOR_TOLERANCE)
+    except SingularBandError as exc:
+        raise _singular(model, asm, free, int(bands[exc.band])) from None
+    return y[:, :, 0]
 
 
 def solve(model: Model, asm: Assembly | None = None) -> Solution:
@@ -319,29 +413,40 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
     rhs = blk.rhs(asm.power, asm.held_energy)
 
     energy = asm.held_energy.copy()
-    condition = np.ones(nb)
+    bound = np.ones(nb)
+    condition_of: Callable[[], Array] | None = None
     notes: list[str] = []
     method = "none (every subsystem is held)"
     if nf:
         n_free, mats = blk.n_free, blk.mats  # C = L_UU diag(n_U), one pattern for all bands
-        col = mats.column_of_entry()
-        norm_l = np.zeros((nf, nb))
-        add_rows(norm_l, col, np.abs(mats.values) / n_free[col])
-        # Second column: L^-T 1 = C^-1 n (M-matrix: ||L^-1||_1 = max(L^-T 1) exactly).
+        norm_l, bound = condition_bound(blk)
+        # Small models: the second column L^-T 1 = C^-1 n costs one more substitution with
+        # the same factors; large ones compute it only where the bound does not settle it.
+        eager = nf <= ITERATIVE_ABOVE
+        cols = [rhs, n_free] if eager else [rhs]
         try:
             xy, method = solve_free(
                 mats,
-                np.stack([rhs, n_free], axis=2),
-                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE],
+                np.stack(cols, axis=2),
+                [ENERGY_TOLERANCE, CONDITION_VECTOR_TOLERANCE][: len(cols)],
             )
         except SingularBandError as exc:
             raise _singular(model, asm, free, exc.band) from None
-        col_sums = xy[:, :, 1]
-        condition = norm_l.max(axis=0) * col_sums.max(axis=0)
-        bad = ~np.isfinite(condition) | (condition > CONDITION_LIMIT) | np.any(col_sums < 0, axis=0)
+        known = np.full(nb, np.nan)
+        col_sums = np.zeros((nf, nb))
+        check = np.arange(nb) if eager else np.flatnonzero(~(bound <= CONDITION_NOTE))
+        if eager:
+            col_sums = xy[:, :, 1]
+        elif check.size:
+            col_sums[:, check] = _condition_vectors(model, asm, free, mats, n_free, check)
+        known[check] = norm_l[check] * col_sums[:, check].max(axis=0)
+        bad = np.zeros(nb, dtype=bool)
+        bad[check] = ~np.isfinite(known[check]) | (known[check] > CONDITION_LIMIT) | np.any(
+            col_sums[:, check] < 0, axis=0
+        )
         if bad.any():
             j = int(np.flatnonzero(bad)[0])
-            cond = condition[j]
+            cond = known[j]
             worst = np.argsort(col_sums[:, j])[::-1][:3]
             names = ", ".join(model.subsystems[free[i]].name for i in worst)
             raise SolveError(
@@ -350,12 +455,21 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
                 "damping and coupling loss factors"
             )
         energy[free] = n_free * xy[:, :, 0]
-        worst_band = int(np.argmax(condition))
-        if condition[worst_band] > CONDITION_NOTE:
-            notes.append(
-                f"condition number {condition[worst_band]:.2g} in band "
-                f"{model.bands.label(worst_band)}: results are sensitive to rounding"
-            )
+        if check.size:
+            worst_band = int(check[np.argmax(known[check])])
+            if known[worst_band] > CONDITION_NOTE:
+                notes.append(
+                    f"condition number {known[worst_band]:.2g} in band "
+                    f"{model.bands.label(worst_band)}: results are sensitive to rounding"
+                )
+
+        def condition_of() -> Array:
+            rest = np.flatnonzero(np.isnan(known))
+            out = known.copy()
+            if rest.size:
+                y = _condition_vectors(model, asm, free, mats, n_free, rest)
+                out[rest] = norm_l[rest] * y.max(axis=0)
+            return out
 
     if np.any(energy < 0):
         i, j = (int(v) for v in np.unravel_index(int(np.argmin(energy)), energy.shape))
@@ -395,7 +509,8 @@ def solve(model: Model, asm: Assembly | None = None) -> Solution:
         dissipated_power=dissipated,
         connection_power=connection_power,
         residual=residual,
-        condition=condition,
+        condition_bound=bound,
         notes=tuple(notes),
         method=method,
+        condition_of=condition_of if nf else None,
     )

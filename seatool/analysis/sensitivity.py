@@ -46,7 +46,7 @@ import numpy as np
 import numpy.typing as npt
 import pandas as pd
 
-from ..bandsolve import SingularBandError
+from ..bandsolve import SingularBandError, add_rows
 from ..errors import InputError, Problem
 from ..levels import db_to_ratio
 from ..model import Model
@@ -125,12 +125,7 @@ def gradients(
         pr = int(blk.pos[r])
         cols = []
         if result is None:
-            cols.append(
-                np.column_stack(
-                    [blk.rhs(asm.power[:, j : j + 1], asm.held_energy[:, j : j + 1], j)[:, 0]
-                     for j in range(nb)]
-                )
-            )
+            cols.append(blk.rhs(asm.power, asm.held_energy))
         e_r = np.zeros((blk.nf, nb))
         e_r[pr] = blk.n_free[pr]
         cols.append(e_r)
@@ -159,6 +154,13 @@ def gradients(
     return Gradients(r, energy, g_damp, g_ab, g_ba, g_p, g_h)
 
 
+def _labels(names: Sequence[str], nb: int) -> Any:
+    """Each of ``names`` repeated ``nb`` times, as a pandas string array (one ``take``)."""
+    if not names:
+        return np.repeat(np.asarray(names, dtype=str), nb)
+    return pd.Series(list(names)).array.take(np.repeat(np.arange(len(names)), nb))
+
+
 def _rows(
     model: Model,
     asm: Assembly,
@@ -166,32 +168,36 @@ def _rows(
     names: list[str],
     parameter_types: list[str],
     targets: list[str],
-    d_e: list[Array],
+    d_e: list[Array] | Array,
     d_offset: list[float] | None = None,
 ) -> pd.DataFrame:
     nb = len(model.bands)
     er = g.receiver_energy
+    k = len(names)
+    if isinstance(d_e, np.ndarray):
+        rel = d_e
+    else:
+        rel = np.vstack(d_e) if d_e else np.zeros((0, nb))
     with np.errstate(divide="ignore", invalid="ignore"):
-        rel = np.vstack(d_e) / er if d_e else np.zeros((0, nb))
-    rel = np.where(er > 0, rel, np.nan)
+        rel = np.where(er > 0, rel / er, np.nan)
     dl = DB_PER_NEPER * rel
     if d_offset is not None:
         dl = dl + np.asarray(d_offset)[:, None]
-    k = len(names)
     valid = validity_columns(model, asm, g.receiver)
     return pd.DataFrame(
         {
-            "receiver": model.subsystems[g.receiver].name,
-            "parameter": np.repeat(names, nb),
-            "parameter_type": np.repeat(parameter_types, nb),
-            "target": np.repeat(targets, nb),
+            "receiver": _labels([model.subsystems[g.receiver].name], nb * k),
+            "parameter": _labels(names, nb),
+            "parameter_type": _labels(parameter_types, nb),
+            "target": _labels(targets, nb),
             "band_hz": np.tile(model.bands.nominal, k),
             "band_exact_hz": np.tile(model.bands.centre, k),
             "dL_dlnx_dB": dl.ravel(),
             "db_per_db": (dl / DB_PER_NEPER).ravel(),
             "db_per_percent": (dl / 100.0).ravel(),
             **{c: np.tile(v, k) for c, v in valid.items()},
-        }
+        },
+        copy=False,  # fresh arrays: no copy into consolidated blocks
     )
 
 
@@ -216,48 +222,46 @@ def sensitivities(
     """
     asm = assemble(model)
     g = gradients(model, receiver, result=result, asm=asm)
-    names: list[str] = []
-    parameter_types: list[str] = []
-    targets: list[str] = []
-    d_e: list[Array] = []
-    sinks = np.array([s.sink for s in model.subsystems])
-    for i, s in enumerate(model.subsystems):
-        if s.sink:
-            continue
-        names.append(f"damping:{s.name}")
-        parameter_types.append("damping")
-        targets.append(s.name)
-        d_e.append(asm.damping[i] * g.damping[i])
-    for c, con in enumerate(model.connections):
-        names.append(f"coupling:{con.name}")
-        parameter_types.append("coupling")
-        targets.append(con.name)
-        d_e.append(asm.eta_ab[c] * g.eta_ab[c] + asm.eta_ba[c] * g.eta_ba[c])
-    term = asm.eta_ba * g.eta_ba  # dE_r / d ln eta_ba, (C, B)
-    for i, s in enumerate(model.subsystems):
-        if s.sink:
-            continue
-        as_a = (asm.a == i) & ~sinks[asm.b]
-        as_b = asm.b == i
-        names.append(f"modal_density:{s.name}")
-        parameter_types.append("modal_density")
-        targets.append(s.name)
-        d_e.append(term[as_a].sum(axis=0) - term[as_b].sum(axis=0))
+    n, nb = asm.shape
+    sinks = np.array([s.sink for s in model.subsystems], dtype=bool)
+    kept = np.flatnonzero(~sinks)
+    sub_names = [model.subsystems[i].name for i in kept]
+    con_names = [c.name for c in model.connections]
+    names = [f"damping:{nm}" for nm in sub_names] + [f"coupling:{nm}" for nm in con_names]
+    names += [f"modal_density:{nm}" for nm in sub_names]
+    parameter_types = ["damping"] * kept.size + ["coupling"] * len(con_names)
+    parameter_types += ["modal_density"] * kept.size
+    targets = sub_names + con_names + sub_names
+    # dE_r / d ln eta_ba (C, B); a modal density enters through eta_ba of its connections
+    # (+1 where it is the stating end a, unless b is a sink; -1 where it is the end b).
+    term = asm.eta_ba * g.eta_ba
+    d_modal = np.zeros((n, nb))
+    as_a = ~sinks[asm.b]
+    add_rows(d_modal, asm.a[as_a], term[as_a])
+    add_rows(d_modal, asm.b, -term)
+    blocks = [
+        (asm.damping * g.damping)[kept],
+        asm.eta_ab * g.eta_ab + asm.eta_ba * g.eta_ba,
+        d_modal[kept],
+    ]
     idx = model.index()
+    extra: list[Array] = []
     for e in model.excitations:
         i = idx[e.subsystem]
         if e.drive == "power":
             assert e.power is not None
             names.append(f"power:{e.name}")
             parameter_types.append("power")
-            d_e.append(e.power * g.power[i])
+            extra.append(e.power * g.power[i])
         else:
             assert e.energy is not None
             names.append(f"held_level:{e.name}")
             parameter_types.append("held_level")
-            d_e.append(e.energy * g.held_energy[i])
+            extra.append(e.energy * g.held_energy[i])
         targets.append(e.name)
-    return _rows(model, asm, g, names, parameter_types, targets, d_e)
+    if extra:
+        blocks.append(np.vstack(extra))
+    return _rows(model, asm, g, names, parameter_types, targets, np.vstack(blocks))
 
 
 def _same_structure(m0: Model, m1: Model, a0: Assembly, a1: Assembly) -> str | None:

@@ -18,9 +18,10 @@ Sampling is vectorised where the structure allows: when every uncertain paramete
 loss factor, modal density or input power given directly in the file (``damping`` and
 ``modal_density`` of ``cavity``/``structure`` subsystems, ``coupling_loss_factor`` of
 ``given`` connections, ``power`` of excitations), the assembled arrays are sampled and
-the per-band systems of all samples are solved in batches (dense batched solves for
-models up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse solve per sample); no
-model file is rebuilt. Otherwise each sample is rebuilt with
+the per-band systems of all samples are solved in batches (stacked dense solves up to
+the solver's ``ITERATIVE_ABOVE`` unknowns, then the solver's own batched iterative path
+over the samples of each band up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse
+solve per sample); no model file is rebuilt. Otherwise each sample is rebuilt with
 :func:`seatool.modelfile.build` and solved (slower).
 
 Not included here: the ensemble variance of the response over nominally identical builds
@@ -42,8 +43,6 @@ from typing import Any, TextIO
 import numpy as np
 import numpy.typing as npt
 import pandas as pd
-import scipy.sparse as sp
-from threadpoolctl import threadpool_limits
 
 from .. import levels
 from ..errors import InputError, Problem
@@ -52,10 +51,14 @@ from ..levels import db, db_to_ratio
 from ..model import Model, Uncertain
 from ..modelfile import build
 from ..results import Result
-from ..solve import SolveError, assemble
+from ..solve import ITERATIVE_ABOVE, assemble
 from ..solve import solve as core_solve
+from ._batched import batched_dense, batched_sparse
 from ._keypath import read_data, with_value
 from ._system import level_offset, validity_columns
+
+#: The stacked dense route, under the name the treatment search imports.
+_batched_dense = batched_dense
 
 __all__ = [
     "DENSE_LIMIT",
@@ -128,76 +131,6 @@ class _Progress:
         if done >= self.total:
             self.stream.write("\n")
         self.stream.flush()
-
-
-def _batched_dense(
-    model: Model,
-    damping: Array,
-    modal: Array,
-    eta_ab: Array,
-    power: Array,
-    held: npt.NDArray[np.bool_],
-    held_energy: Array,
-) -> Array:
-    """Energies (S, N, B) from sampled arrays (S, ., B); dense batched solves per band."""
-    asm0 = assemble(model)
-    a, b = asm0.a, asm0.b
-    sink = np.array([s.sink for s in model.subsystems], dtype=bool)
-    ns, n, nb = damping.shape
-    with np.errstate(divide="ignore", invalid="ignore"):
-        eta_ba = np.where(sink[b][None, :, None], 0.0, eta_ab * modal[:, a] / modal[:, b])
-    nc = a.size
-    # total loss factors: damping + sum of outgoing coupling loss factors (incidence products)
-    inc_a = sp.csr_matrix((np.ones(nc), (a, np.arange(nc))), shape=(n, nc))
-    inc_b = sp.csr_matrix((np.ones(nc), (b, np.arange(nc))), shape=(n, nc))
-
-    def _gather(inc: sp.csr_matrix, x: Array) -> Array:
-        flat = x.transpose(1, 0, 2).reshape(nc, ns * nb)
-        return np.asarray(inc @ flat).reshape(n, ns, nb).transpose(1, 0, 2)
-
-    diag = np.where(sink[None, :, None], 0.0, damping) + _gather(inc_a, eta_ab)
-    diag = diag + _gather(inc_b, eta_ba)
-    free = np.flatnonzero(~held)
-    pos = np.full(n, -1, dtype=np.int64)
-    pos[free] = np.arange(free.size)
-    nf = free.size
-    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), (ns, n, nb)).copy()
-    if not nf:
-        return energy
-    ff = (pos[a] >= 0) & (pos[b] >= 0)
-    rows = np.concatenate([np.arange(nf), pos[a[ff]], pos[b[ff]]])
-    cols = np.concatenate([np.arange(nf), pos[b[ff]], pos[a[ff]]])
-    # entries (row, col) of the dense matrix; parallel connections repeat a slot: sum them
-    flat = rows * nf + cols
-    order = np.argsort(flat, kind="stable")
-    slots, starts = np.unique(flat[order], return_index=True)
-    fa = (pos[a] >= 0) & held[b]
-    fb = (pos[b] >= 0) & held[a]
-    omega = model.bands.omega
-    for j in range(nb):
-        vals = np.concatenate(
-            [diag[:, free, j], -eta_ba[:, ff, j], -eta_ab[:, ff, j]], axis=1
-        )  # (S, K)
-        flat_mats = np.zeros((ns, nf * nf))
-        flat_mats[:, slots] = np.add.reduceat(vals[:, order], starts, axis=1)
-        mats = flat_mats.reshape(ns, nf, nf)
-        rhs = power[:, free, j] / omega[j]
-        rhs_t = rhs.T  # a view: (nf, S)
-        np.add.at(rhs_t, pos[a[fa]], (eta_ba[:, fa, j] * held_energy[b[fa], j]).T)
-        np.add.at(rhs_t, pos[b[fb]], (eta_ab[:, fb, j] * held_energy[a[fb], j]).T)
-        try:
-            # One BLAS thread: a stack of small solves gains nothing from threads inside
-            # each one, and extra threads on a busy machine multiply the time.
-            with threadpool_limits(limits=1, user_api="blas"):
-                x = np.linalg.solve(mats, rhs[:, :, None])[:, :, 0]
-        except np.linalg.LinAlgError:
-            raise SolveError(
-                f"band {model.bands.label(j)}: a sampled power balance is singular"
-            ) from None
-        energy[:, free, j] = x
-    if np.any(energy < 0):
-        raise SolveError("a sample gave a negative energy (negative sampled loss factor?)")
-    return energy
 
 
 # -- the result ---------------------------------------------------------------------------
@@ -346,9 +279,12 @@ def spread(
         _check_direct(model, unc, targets, file)
         asm = assemble(model)
         nf = int((~asm.held).sum())
-        if nf <= DENSE_LIMIT:
-            q = _run_dense(model, unc, targets, draws, asm, chunk, bar)
+        if nf <= min(DENSE_LIMIT, ITERATIVE_ABOVE):
+            q = _run_dense(model, unc, targets, draws, asm, chunk, bar, batched_dense)
             method = "direct (batched dense)"
+        elif nf <= DENSE_LIMIT:
+            q = _run_dense(model, unc, targets, draws, asm, chunk, bar, batched_sparse)
+            method = "direct (batched sparse)"
         else:
             q = _run_sparse(model, unc, targets, draws, bar)
             method = "direct (sparse per sample)"
@@ -400,6 +336,14 @@ def _base_array(model: Model, t: tuple[str, int]) -> Array:
     return np.asarray(p)
 
 
+def _samples_of(base: Array, s: int) -> Array:
+    """``s`` copies of ``base`` (K, B) as an (s, K, B) view of band-major memory (B, K, s):
+    the batched solves read every band's samples as one contiguous block."""
+    out = np.empty((base.shape[1], base.shape[0], s))
+    out[...] = base.T[:, :, None]
+    return out.transpose(2, 1, 0)
+
+
 def _run_dense(
     model: Model,
     unc: list[Uncertain],
@@ -408,6 +352,7 @@ def _run_dense(
     asm: Any,
     chunk: int,
     bar: _Progress,
+    batched: Callable[..., Array],
 ) -> Array:
     n, nb = asm.shape
     ns = draws[0].size
@@ -423,9 +368,9 @@ def _run_dense(
     for start in range(0, ns, chunk):
         stop = min(ns, start + chunk)
         s = stop - start
-        damp = np.broadcast_to(base_damp, (s, n, nb)).copy()
-        modal = np.broadcast_to(base_modal, (s, n, nb)).copy()
-        eta = np.broadcast_to(base_eta, (s, *base_eta.shape)).copy()
+        damp, modal, eta = _samples_of(base_damp, s), _samples_of(base_modal, s), _samples_of(
+            base_eta, s
+        )
         exc_power = [
             np.broadcast_to(e.power, (s, nb)).copy() if e.power is not None else None
             for e in model.excitations
@@ -444,11 +389,11 @@ def _run_dense(
                 p = exc_power[i]
                 assert p is not None
                 exc_power[i] = u.apply(p, dd)
-        power = np.zeros((s, n, nb))
+        power = _samples_of(np.zeros((n, nb)), s)
         for e, p in zip(model.excitations, exc_power, strict=True):
             if p is not None:
                 power[:, exc_sub[e.subsystem]] += p
-        out[start:stop] = _batched_dense(model, damp, modal, eta, power, asm.held, asm.held_energy)
+        out[start:stop] = batched(model, damp, modal, eta, power, asm.held, asm.held_energy)
         bar.update(stop)
     return out
 
