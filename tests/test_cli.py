@@ -137,6 +137,21 @@ def test_help_imports_no_heavy_dependency():
     assert not (HEAVY | {"dask", "SALib", "scipy.stats"}) & imported
 
 
+def test_solve_imports_only_what_it_uses():
+    # `seatool solve` of the shipped rail cab reads, solves and prints levels with their
+    # confidence bands: none of the sweeps' scipy.stats, the paths' networkx, the figures'
+    # matplotlib or scipy.integrate (scipy.optimize) is imported on the way
+    code = (
+        "import contextlib, io, seatool.cli as c\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        f"    assert c.main(['solve', {str(ROOT / 'models' / 'rail_cab.toml')!r}]) == 0"
+    )
+    imported = _imported_after(code)
+    assert {"seatool.solve", "seatool.analysis.confidence", "pandas"} <= imported
+    assert not {"scipy.stats", "scipy.optimize", "scipy.integrate", "networkx",
+                "matplotlib", "dask", "SALib"} & imported  # fmt: skip
+
+
 def test_import_analysis_imports_no_heavy_dependency():
     # `import seatool.analysis` resolves its submodules on first use (PEP 562), so it
     # loads none of the analyses' heavy dependencies; the names still resolve
