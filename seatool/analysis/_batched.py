@@ -22,18 +22,30 @@ from ..solve import ENERGY_TOLERANCE, SolveError, assemble, solve_free
 __all__ = ["SAMPLE_GROUP_BYTES", "batched_dense", "batched_sparse"]
 
 Array = npt.NDArray[np.float64]
+IntArray = npt.NDArray[np.int64]
 
 #: Samples of one band solved together by the iterative method: larger groups than the
 #: solver's bands (many small systems; fewer, longer array operations).
 SAMPLE_GROUP_BYTES = 1 << 23
 
 
+def _free_layout(
+    model: Model, held: npt.NDArray[np.bool_], held_energy: Array, shape: tuple[int, int, int]
+) -> tuple[IntArray, IntArray, IntArray, IntArray, Array]:
+    """Connection ends ``a, b``, the free subsystems, each subsystem's position among them
+    (-1 where held), and the energies (S, N, B) with the held ones filled in."""
+    asm0 = assemble(model)
+    free = np.flatnonzero(~held)
+    pos = np.full(shape[1], -1, dtype=np.int64)
+    pos[free] = np.arange(free.size)
+    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), shape).copy()
+    return asm0.a, asm0.b, free, pos, energy
+
+
 def _sampled_totals(
-    model: Model, damping: Array, modal: Array, eta_ab: Array
+    model: Model, a: IntArray, b: IntArray, damping: Array, modal: Array, eta_ab: Array
 ) -> tuple[Array, Array]:
     """Reverse coupling loss factors (S, C, B) and total loss factors (S, N, B) of samples."""
-    asm0 = assemble(model)
-    a, b = asm0.a, asm0.b
     sink = np.array([s.sink for s in model.subsystems], dtype=bool)
     ns, n, nb = damping.shape
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -62,15 +74,10 @@ def batched_dense(
     held_energy: Array,
 ) -> Array:
     """Energies (S, N, B) from sampled arrays (S, ., B); dense batched solves per band."""
-    asm0 = assemble(model)
-    a, b = asm0.a, asm0.b
     ns, n, nb = damping.shape
-    eta_ba, diag = _sampled_totals(model, damping, modal, eta_ab)
-    free = np.flatnonzero(~held)
-    pos = np.full(n, -1, dtype=np.int64)
-    pos[free] = np.arange(free.size)
+    a, b, free, pos, energy = _free_layout(model, held, held_energy, (ns, n, nb))
+    eta_ba, diag = _sampled_totals(model, a, b, damping, modal, eta_ab)
     nf = free.size
-    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), (ns, n, nb)).copy()
     if not nf:
         return energy
     ff = (pos[a] >= 0) & (pos[b] >= 0)
@@ -126,15 +133,10 @@ def batched_sparse(
     symmetric form ``C = L_UU diag(n_U)`` of each sample (``C_ab = -eta_ab n_a`` for both
     triangles, reciprocity).
     """
-    asm0 = assemble(model)
-    a, b = asm0.a, asm0.b
     ns, n, nb = damping.shape
-    eta_ba, diag = _sampled_totals(model, damping, modal, eta_ab)
-    free = np.flatnonzero(~held)
-    pos = np.full(n, -1, dtype=np.int64)
-    pos[free] = np.arange(free.size)
+    a, b, free, pos, energy = _free_layout(model, held, held_energy, (ns, n, nb))
+    eta_ba, diag = _sampled_totals(model, a, b, damping, modal, eta_ab)
     nf = free.size
-    energy = np.broadcast_to(np.where(held[:, None], held_energy, 0.0), (ns, n, nb)).copy()
     if not nf:
         return energy
     ff = np.flatnonzero((pos[a] >= 0) & (pos[b] >= 0))
