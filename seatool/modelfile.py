@@ -37,6 +37,7 @@ from .kinds.low_frequency import read_low_frequency_section
 from .kinds.media import FLUID_PARAMS
 from .kinds.plausibility import check_model
 from .kinds.reader import DEFAULT_FLUID, Reader, join, type_name
+from .kinds.records import Records
 from .kinds.registry import CONNECTION_KINDS, EXCITATION_KINDS, RENAMED, SUBSYSTEM_KINDS
 from .kinds.spreads import read_uncertainty_section
 from .kinds.validate import (
@@ -268,7 +269,7 @@ def _kind_of(
 
 
 @np.errstate(all="ignore")  # derive functions may meet inf/nan; the results are checked
-def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
+def _read_subsystems(rd: Reader, data: Any, records: Records | None = None) -> list[Subsystem]:
     out: list[Subsystem] = []
     if data is _MISSING:
         rd.error("subsystems", "missing required section [subsystems.NAME]")
@@ -290,19 +291,26 @@ def _read_subsystems(rd: Reader, data: Any) -> list[Subsystem]:
         kind = _kind_of(rd, s, path, "subsystem", SUBSYSTEM_KINDS, None)
         if kind is None:
             continue
-        values = check(rd, kind, s, path)
-        if values is None:
-            continue
-        n = len(rd.problems)
-        try:
-            got = kind.derive(rd, name, values, s, path)
-        except (ValueError, ArithmeticError) as exc:
-            rd.error(path, f"cannot derive the subsystem from these values: {exc}")
-            continue
-        if got is None or len(rd.problems) > n:
-            continue
-        subs = got if isinstance(got, list) else [got]
-        if not _derived_ok(rd, subs, path, s):
+
+        def derive(
+            _subs: Any, kind: Any = kind, name: str = name, s: Any = s, path: str = path
+        ) -> list[Subsystem] | None:
+            values = check(rd, kind, s, path)
+            if values is None:
+                return None
+            n = len(rd.problems)
+            try:
+                got = kind.derive(rd, name, values, s, path)
+            except (ValueError, ArithmeticError) as exc:
+                rd.error(path, f"cannot derive the subsystem from these values: {exc}")
+                return None
+            if got is None or len(rd.problems) > n:
+                return None
+            subs = got if isinstance(got, list) else [got]
+            return subs if _derived_ok(rd, subs, path, s) else None
+
+        subs = derive(None) if records is None else records.derive(rd, path, s, derive)
+        if subs is None:
             continue
         for sub in subs:
             if sub.name in made or (sub.name != name and sub.name in t):
@@ -348,7 +356,11 @@ def _derived_ok(rd: Reader, subs: list[Subsystem], path: str, s: Mapping[str, An
 
 @np.errstate(all="ignore")  # derive functions may meet inf/nan; the results are checked
 def _read_connections(
-    rd: Reader, data: Any, subs: dict[str, Subsystem], declared: Mapping[str, None]
+    rd: Reader,
+    data: Any,
+    subs: dict[str, Subsystem],
+    declared: Mapping[str, None],
+    records: Records | None = None,
 ) -> list[Connection]:
     out: list[Connection] = []
     if data is _MISSING:
@@ -397,28 +409,46 @@ def _read_connections(
             continue
         if kind is None:
             continue
-        values = check(rd, kind, s, path)
-        if values is None:
-            continue
-        n = len(rd.problems)
-        try:
-            got = kind.derive(rd, name, values, s, ends, subs, path)
-        except (ValueError, ArithmeticError) as exc:
-            rd.error(path, f"cannot derive the coupling from these values: {exc}")
-            continue
-        if got is None or len(rd.problems) > n:
-            continue
-        cons = got if isinstance(got, list) else [got]
-        if all(positive_finite(c.coupling_loss_factor) for c in cons) or all(
-            check_derived(
-                rd,
-                path,
-                {f"coupling loss factor of {c.name!r}": c.coupling_loss_factor},
-                tuple(f"{path}.{k}" for k in s if k not in ("kind", "description")),
-            )
-            for c in cons
-        ):
-            out.extend(cons)
+
+        def derive(
+            seen: Any,
+            kind: Any = kind,
+            name: str = name,
+            s: Any = s,
+            path: str = path,
+            ends: list[Subsystem] = ends,
+        ) -> list[Connection] | None:
+            values = check(rd, kind, s, path)
+            if values is None:
+                return None
+            n = len(rd.problems)
+            try:
+                got = kind.derive(rd, name, values, s, ends, seen, path)
+            except (ValueError, ArithmeticError) as exc:
+                rd.error(path, f"cannot derive the coupling from these values: {exc}")
+                return None
+            if got is None or len(rd.problems) > n:
+                return None
+            cons = got if isinstance(got, list) else [got]
+            if all(positive_finite(c.coupling_loss_factor) for c in cons) or all(
+                check_derived(
+                    rd,
+                    path,
+                    {f"coupling loss factor of {c.name!r}": c.coupling_loss_factor},
+                    tuple(f"{path}.{k}" for k in s if k not in ("kind", "description")),
+                )
+                for c in cons
+            ):
+                return cons
+            return None
+
+        got = (
+            derive(subs)
+            if records is None
+            else records.derive(rd, path, s, derive, ends=ends, subs=subs)
+        )
+        if got is not None:
+            out.extend(got)
     return out
 
 
@@ -445,6 +475,7 @@ def _read_excitations(
     declared: Mapping[str, None],
     cons: Sequence[Connection] = (),
     raw_connections: Any = _MISSING,
+    records: Records | None = None,
 ) -> list[Excitation]:
     out: list[Excitation] = []
     if data is _MISSING:
@@ -472,27 +503,43 @@ def _read_excitations(
         key = given[0]
         kind = EXCITATION_KINDS[key]
         sname = rd.name_ref(s["subsystem"], f"{path}.subsystem", declared, "subsystem")
-        values = check(rd, kind, {k: v for k, v in s.items() if k in kind.allowed}, path)
-        if sname is None or sname not in subs or values is None:
+        if sname is None or sname not in subs:
+            check(rd, kind, {k: v for k, v in s.items() if k in kind.allowed}, path)
             continue
         sub = subs[sname]
-        if sub.sink:
-            rd.error(f"{path}.subsystem", f"{sname!r} is the exterior; it cannot be excited")
-            continue
         kpath = f"{path}.{key}"
-        v = values[key]
-        with np.errstate(all="ignore"):
-            got = kind.derive(rd, sub, v, kpath, s)
-        if got is None:
+
+        def derive(
+            _subs: Any, kind: Any = kind, s: Any = s, path: str = path, sub: Subsystem = sub,
+            sname: str = sname, key: str = key, kpath: str = kpath,
+        ) -> tuple[Any, str, Any] | None:  # fmt: skip
+            values = check(rd, kind, {k: v for k, v in s.items() if k in kind.allowed}, path)
+            if values is None:
+                return None
+            if sub.sink:
+                rd.error(f"{path}.subsystem", f"{sname!r} is the exterior; it cannot be excited")
+                return None
+            v = values[key]
+            with np.errstate(all="ignore"):
+                got = kind.derive(rd, sub, v, kpath, s)
+            if got is None:
+                return None
+            what, arr = got
+            if not check_derived(
+                rd,
+                kpath,
+                {"power" if what == "power" else "held energy": np.where(arr == 0, 1.0, arr)},
+                (kpath,),
+            ):
+                return None
+            return v, what, arr
+
+        read = (
+            derive(None) if records is None else records.derive(rd, path, s, derive, ends=(sub,))
+        )
+        if read is None:
             continue
-        what, arr = got
-        if not check_derived(
-            rd,
-            kpath,
-            {"power" if what == "power" else "held energy": np.where(arr == 0, 1.0, arr)},
-            (kpath,),
-        ):
-            continue
+        v, what, arr = read
         desc = s.get("description", "")
         desc = desc if isinstance(desc, str) else ""
         if what == "prescribed":
@@ -523,8 +570,21 @@ def _read_excitations(
             Excitation(name, sname, "power", power=arr, level=v, quantity=key, description=desc)
         )
         if key == "diffuse_sound_pressure_level":
-            with np.errstate(all="ignore"):
-                forced = diffuse_nonresonant(rd, sub, v, kpath, s, subs, cons, declared_nr)
+
+            def forced_part(
+                seen: Any, sub: Subsystem = sub, v: Any = v, kpath: str = kpath, s: Any = s
+            ) -> tuple[str, Any] | None:
+                with np.errstate(all="ignore"):
+                    return diffuse_nonresonant(rd, sub, v, kpath, s, seen, cons, declared_nr)
+
+            if records is None:
+                forced = forced_part(subs)
+            else:
+                links = tuple((c.kind, c.a, c.b) for c in cons)
+                forced = records.derive(
+                    rd, f"{path}#nonresonant", s, forced_part, ends=(sub,), subs=subs,
+                    extra=(links, declared_nr),
+                )  # fmt: skip
             if forced is None:
                 continue
             recv, w = forced
@@ -598,11 +658,16 @@ def build(
     base_dir: str | Path = ".",
     strict: bool | None = None,
     allow_outside_files: bool | None = None,
+    records: Records | None = None,
 ) -> Model:
     """Validate parsed model-file data (nested dicts as from ``tomllib``) into a Model.
 
     Used by :func:`loads`, and by analyses that rebuild a model with changed parameters.
     ``strict`` and ``allow_outside_files`` replace those of :func:`load_options` when given.
+    ``records`` (:class:`seatool.kinds.records.Records`, the same instance for every build
+    of one file) takes over the subsystems, couplings and excitations whose tables and
+    inputs are unchanged since the last build instead of deriving them again; the model
+    is the same as without it.
     """
     opts = _options(strict, allow_outside_files)
     if _depth(data, MAX_DEPTH) > MAX_DEPTH:
@@ -632,10 +697,17 @@ def build(
     raw_subs = data.get("subsystems")
     rd.declared = dict(raw_subs) if isinstance(raw_subs, dict) else {}
     declared = dict.fromkeys(rd.declared)
-    subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING))}
-    if rd.bands is not None:
-        subs = apply_facing(rd, subs)  # facing trims line their cavities
-    cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared)
+    if records is not None:
+        records.begin(rd, data, opts)
+    subs = {s.name: s for s in _read_subsystems(rd, data.get("subsystems", _MISSING), records)}
+    if rd.bands is not None:  # facing trims line their cavities
+        if records is None:
+            subs = apply_facing(rd, subs)
+        else:
+            subs = dict(
+                records.derive(rd, "#facing", None, lambda seen: apply_facing(rd, dict(seen or {})), subs=subs)
+            )
+    cons = _read_connections(rd, data.get("connections", _MISSING), subs, declared, records)
     exs = _read_excitations(
         rd,
         data.get("excitations", _MISSING),
@@ -643,6 +715,7 @@ def build(
         declared,
         cons,
         data.get("connections", _MISSING),
+        records,
     )
     spreads = read_uncertainty_section(rd, data)
     targets = read_targets(rd, data, subs)

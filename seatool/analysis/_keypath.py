@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import copy
 import tomllib
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -18,7 +18,7 @@ import numpy as np
 from ..errors import InputError, Problem
 from ..kinds.spreads import resolve
 
-__all__ = ["numbers", "read_data", "resolve", "with_value"]
+__all__ = ["numbers", "read_data", "resolve", "with_value", "with_values"]
 
 
 def read_data(path: str | Path) -> tuple[dict[str, Any], str, Path]:
@@ -44,16 +44,7 @@ def numbers(value: Any) -> np.ndarray:
     return np.asarray(value, dtype=float)
 
 
-def with_value(
-    data: Mapping[str, Any], path: str, change: Callable[[np.ndarray], np.ndarray]
-) -> dict[str, Any]:
-    """A deep copy of ``data`` with the numbers at ``path`` replaced by ``change(numbers)``."""
-    out = copy.deepcopy(dict(data))
-    parts = path.split(".")
-    node: Any = out
-    for part in parts[:-1]:
-        node = node[part]
-    last = parts[-1]
+def _replace(node: Any, last: str, change: Callable[[np.ndarray], np.ndarray]) -> None:
     value = node[last]
     new = change(numbers(value))
     if isinstance(value, Mapping):
@@ -64,4 +55,38 @@ def with_value(
         node[last] = [float(v) for v in np.asarray(new).ravel()]
     else:
         node[last] = float(np.asarray(new).ravel()[0])
+
+
+def with_value(
+    data: Mapping[str, Any], path: str, change: Callable[[np.ndarray], np.ndarray]
+) -> dict[str, Any]:
+    """A deep copy of ``data`` with the numbers at ``path`` replaced by ``change(numbers)``."""
+    out = copy.deepcopy(dict(data))
+    parts = path.split(".")
+    node: Any = out
+    for part in parts[:-1]:
+        node = node[part]
+    _replace(node, parts[-1], change)
+    return out
+
+
+def with_values(
+    data: Mapping[str, Any], changes: Sequence[tuple[str, Callable[[np.ndarray], np.ndarray]]]
+) -> dict[str, Any]:
+    """``data`` with the numbers at each path replaced by ``change(numbers)``, in order.
+
+    Only the tables on the changed paths are copied; every other table is shared with
+    ``data``, so the result is for reading (a model rebuild), not for changing in place.
+    ``data`` itself is not changed.
+    """
+    out = dict(data)
+    for path, change in changes:
+        parts = path.split(".")
+        node: Any = out
+        for part in parts[:-1]:
+            child = node[part]
+            copied = dict(child) if isinstance(child, Mapping) else list(child)
+            node[part] = copied
+            node = copied
+        _replace(node, parts[-1], change)
     return out

@@ -46,6 +46,7 @@ import pandas as pd
 
 from .. import levels
 from ..errors import InputError, Problem
+from ..kinds.records import Records
 from ..kinds.spreads import read_uncertainty
 from ..levels import db, db_to_ratio
 from ..model import Model, Uncertain
@@ -54,7 +55,7 @@ from ..results import Result
 from ..solve import ITERATIVE_ABOVE, assemble
 from ..solve import solve as core_solve
 from ._batched import batched_dense, batched_sparse
-from ._keypath import read_data, with_value
+from ._keypath import read_data, with_values
 from ._system import level_offset, validity_columns
 
 #: The stacked dense route, under the name the treatment search imports.
@@ -260,7 +261,8 @@ def spread(
     """
     if samples < 1:
         raise InputError([Problem(file, "--samples", f"must be >= 1, got {samples}")])
-    model = build(data, file=file, base_dir=base_dir)
+    records = Records()
+    model = build(data, file=file, base_dir=base_dir, records=records)
     unc = list(model.uncertainty) if uncertain is None else uncertain
     if not unc:
         raise InputError(
@@ -290,7 +292,7 @@ def spread(
             method = "direct (sparse per sample)"
         q = q * db_to_ratio(offsets[None, :, None])
     else:
-        q = _run_rebuild(data, model, unc, draws, file, base_dir, bar)
+        q = _run_rebuild(data, model, unc, draws, file, base_dir, bar, records)
         method = "rebuild per sample"
     sinks = np.array([s.sink for s in model.subsystems])
     q[:, sinks, :] = 0.0
@@ -448,6 +450,34 @@ def _changer(u: Uncertain, x: float) -> Callable[[Array], Array]:
     return change
 
 
+def _balance_arrays(m: Model) -> tuple[Array, Array, Array, Array, Any, Array]:
+    """Damping, modal densities (N, B), stated coupling loss factors (C, B), input powers,
+    held subsystems and held energies of a model, as :func:`seatool.solve.assemble` reads
+    them (the arrays the batched solves take)."""
+    nb = len(m.bands)
+    idx = m.index()
+    damping = np.array([s.damping for s in m.subsystems], dtype=float)
+    modal = np.array([s.modal_density for s in m.subsystems], dtype=float)
+    eta = (
+        np.array([c.coupling_loss_factor for c in m.connections], dtype=float)
+        if m.connections
+        else np.zeros((0, nb))
+    )
+    held = np.array([s.sink for s in m.subsystems], dtype=bool)
+    held_energy = np.zeros((len(m.subsystems), nb))
+    power = np.zeros_like(held_energy)
+    for e in m.excitations:
+        i = idx[e.subsystem]
+        if e.drive == "power":
+            assert e.power is not None
+            power[i] += e.power
+        else:
+            assert e.energy is not None
+            held[i] = True
+            held_energy[i] = e.energy
+    return damping, modal, eta, power, held, held_energy
+
+
 def _run_rebuild(
     data: Mapping[str, Any],
     model: Model,
@@ -456,16 +486,34 @@ def _run_rebuild(
     file: str,
     base_dir: str | Path,
     bar: _Progress,
+    records: Records,
 ) -> Array:
+    """Energies times level offsets (S, N, B) of models rebuilt sample by sample.
+
+    Each sample's model is rebuilt through the reader with ``records`` (only the tables
+    whose inputs changed are derived again: :class:`seatool.kinds.records.Records`). Samples
+    with the nominal model's structure (same connections, same held subsystems and held
+    energies) are solved together at the end by the stacked dense solves of the direct
+    route when the model is small enough; others one by one by :func:`seatool.solve.solve`.
+    """
     ns = draws[0].size
-    n = len(model.subsystems)
-    out = np.empty((ns, n, len(model.bands)))
+    n, nb = len(model.subsystems), len(model.bands)
+    _, _, _, _, held0, held_energy0 = _balance_arrays(model)
+    links0 = [(c.a, c.b) for c in model.connections]
+    stack = int((~held0).sum()) <= min(DENSE_LIMIT, ITERATIVE_ABOVE)
+    out = np.empty((ns, n, nb))
+    offsets = np.empty((ns, n))
+    nc = len(model.connections)
+    damp, modal, power = (_samples_of(np.zeros((n, nb)), ns) for _ in range(3))
+    eta = _samples_of(np.zeros((nc, nb)), ns)
+    batch: list[int] = []
     for k in range(ns):
-        d: Mapping[str, Any] = data
-        for u, dr in zip(unc, draws, strict=True):
-            d = with_value(d, u.parameter, _changer(u, float(dr[k])))
+        d = with_values(
+            data,
+            [(u.parameter, _changer(u, float(dr[k]))) for u, dr in zip(unc, draws, strict=True)],
+        )
         try:
-            m = build(d, file=file, base_dir=base_dir)
+            m = build(d, file=file, base_dir=base_dir, records=records)
         except InputError as exc:
             first = exc.problems[0] if exc.problems else ""
             raise InputError(
@@ -475,11 +523,26 @@ def _run_rebuild(
             raise InputError(
                 [Problem(file, "uncertainty", f"sample {k + 1} changes the set of subsystems")]
             )
-        e = core_solve(m).energy
-        off = np.array([level_offset(m, i) for i in range(n)])
-        out[k] = e * db_to_ratio(off[:, None])
+        offsets[k] = [level_offset(m, i) for i in range(n)]
+        arrays = _balance_arrays(m)
+        same = (
+            stack
+            and [(c.a, c.b) for c in m.connections] == links0
+            and bool(np.array_equal(arrays[4], held0))
+            and bool(np.array_equal(arrays[5], held_energy0))
+        )
+        if same:
+            damp[k], modal[k], eta[k], power[k] = arrays[:4]
+            batch.append(k)
+        else:
+            out[k] = core_solve(m).energy
         bar.update(k + 1)
-    return out
+    if batch:
+        rows = np.array(batch)
+        out[rows] = batched_dense(
+            model, damp[rows], modal[rows], eta[rows], power[rows], held0, held_energy0
+        )
+    return out * db_to_ratio(offsets[:, :, None])
 
 
 def spread_file(path: str | Path, **kwargs: Any) -> Spread:

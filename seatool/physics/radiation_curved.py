@@ -56,11 +56,15 @@ def _locus_breaks(w: FloatArray, wc: float | FloatArray, wm: FloatArray) -> list
         v_kx2 = np.sqrt((1.0 + sq) / (2.0 * r2))
     lo = np.zeros_like(w)
     hi = np.minimum(1.0, 1.0 / np.sqrt(r2))
-    for _ in range(60):
+    for step in range(60):
         mid = 0.5 * (lo + hi)
         above = (1.0 - r2 * mid**2) * (1.0 - mid) ** 2 > eps
-        lo = np.where(above, mid, lo)
-        hi = np.where(above, hi, mid)
+        new_lo = np.where(above, mid, lo)
+        new_hi = np.where(above, hi, mid)
+        # stop once no bracket moves: every later step would repeat this one exactly
+        if step % 8 == 7 and np.array_equal(new_lo, lo) and np.array_equal(new_hi, hi):
+            break
+        lo, hi = new_lo, new_hi
     v_ky = np.where(eps < 1.0, 0.5 * (lo + hi), np.nan)
     return [v_kp, v_kx1, v_kx2, v_ky]
 
@@ -309,8 +313,11 @@ def radiation_efficiency_curved_panel(
 
     p_start = phi_of(w2 / wm)
     cands = [phi_of(w1 / wm)]
-    for w in (w1, w2):
-        cands.extend(phi_of(v) for v in _locus_breaks(w, wc, wm))
+    nb = w1.size
+    # both band edges' loci in one pass (elementwise, so the same values as one by one)
+    breaks = _locus_breaks(np.concatenate([w1, w2]), np.concatenate([wc, wc]), np.tile(wm, 2))
+    for half in (slice(0, nb), slice(nb, 2 * nb)):
+        cands.extend(phi_of(v[half]) for v in breaks)
     half_pi = np.full_like(p_start, 0.5 * np.pi)
     edges = np.sort(
         np.stack([p_start, *(np.clip(c, p_start, half_pi) for c in cands), half_pi], axis=-1),
@@ -374,9 +381,10 @@ def radiation_efficiency_curved_panel(
         in_lattice = (s * c2n >= kx0[bn] ** 2) & (s * (1.0 - c2n) >= ky0[bn] ** 2)
         # in the strips: no acoustically fast mode (s < k^2); slow (edge, corner) modes
         # counted with the bending share of omega^2 (k^2 = omega^2/c0^2), see Notes
-        weight = np.where(
-            in_lattice, weight, np.where(s >= k2, weight * (1.0 - k2_membrane / k2), 0.0)
-        )
+        strip = ~in_lattice
+        k2_st, w_st = k2[strip], weight[strip]
+        k2m_st = np.broadcast_to(k2_membrane, k2.shape)[strip]
+        weight[strip] = np.where(s[strip] >= k2_st, w_st * (1.0 - k2m_st / k2_st), 0.0)
     den = np.bincount(band, weights=weight.sum(axis=1), minlength=f_b.size)
     # sigma on the segments that hold a mode of non-zero modal sigma (fast or edge class;
     # corner modes radiate nothing here); zero-weight nodes add nothing. The per-band data
