@@ -22,7 +22,10 @@ the per-band systems of all samples are solved in batches (stacked dense solves 
 the solver's ``ITERATIVE_ABOVE`` unknowns, then the solver's own batched iterative path
 over the samples of each band up to :data:`DENSE_LIMIT` unknowns, otherwise one sparse
 solve per sample); no model file is rebuilt. Otherwise each sample is rebuilt with
-:func:`seatool.modelfile.build` and solved (slower).
+:func:`seatool.modelfile.build` (slower): the data are copied along the changed key paths
+only, the tables whose inputs did not change are taken over from the previous build
+(:class:`seatool.kinds.records.Records`), and the samples are solved together by the
+stacked dense solves when the model is small enough (one by one otherwise).
 
 Not included here: the ensemble variance of the response over nominally identical builds
 (manufacturing scatter of the modes). That comes from the SEA variance theory, without
