@@ -15,7 +15,6 @@ dask is imported only when a cluster is used.
 
 from __future__ import annotations
 
-import copy
 import os
 import uuid
 from collections.abc import Callable, Mapping
@@ -28,6 +27,7 @@ import numpy.typing as npt
 from .. import progress
 from ..bands import BandAxis
 from ..errors import InputError, Problem
+from ..kinds.records import Records
 from ..model import Uncertain
 from ..modelfile import build
 from ..results import Result
@@ -60,12 +60,14 @@ class Job:
 
 
 def _changed(job: Job, row: Array) -> dict[str, Any]:
-    """A deep copy of the job's data with one sample's values in place."""
-    out = copy.deepcopy(dict(job.data))
+    """The job's data with one sample's values in place: the tables on the changed paths
+    are copied, every other table is shared with ``job.data`` (read, never changed)."""
+    out = dict(job.data)
     for (path, mode, unc), x in zip(job.changes, row, strict=True):
         *head, last = path.split(".")
         node: Any = out
         for part in head:
+            node[part] = dict(node[part])
             node = node[part]
         old = node[last]
         if mode == "set":
@@ -108,10 +110,11 @@ def evaluate_rows(job: Job, start: int, values: Array) -> tuple[int, Array]:
     """
     idx: list[int] | None = None
     out: Array | None = None
+    records = Records()  # the tables a sample leaves unchanged are derived once per batch
     for k, row in enumerate(np.atleast_2d(values)):
         where = f"sample {start + k} ({_describe(job, row)})"
         try:
-            m = build(_changed(job, row), file=job.file, base_dir=job.base_dir)
+            m = build(_changed(job, row), file=job.file, base_dir=job.base_dir, records=records)
             res = Result(m, core_solve(m))
         except InputError as exc:
             first = exc.problems[0].message if exc.problems else str(exc)
