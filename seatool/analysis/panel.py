@@ -262,16 +262,16 @@ def seal_edge_absorption(spec: PanelSpec, f: npt.ArrayLike) -> Array:
     face), the panel as a thin plate
     (:func:`seatool.physics.edge_mounting.elastic_edge_absorption_diffuse`).
     """
-    seal, mat = spec.seal, spec.material
-    s_t, s_r = edge_mounting.seal_stiffness(seal.youngs_modulus, seal.width, seal.thickness)
-    return edge_mounting.elastic_edge_absorption_diffuse(
+    seal = spec.seal
+    return edge_mounting.seal_absorption_diffuse(
         f,
         spec.bending_stiffness,
         spec.mass_per_area,
-        mat.poisson_ratio,
-        s_t,
-        s_r,
+        spec.material.poisson_ratio,
+        seal.youngs_modulus,
         seal.loss_factor,
+        seal.width,
+        seal.thickness,
     )
 
 

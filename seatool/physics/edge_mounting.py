@@ -12,7 +12,8 @@ the edge leaves part of its power in it. This module gives
 * :func:`elastic_edge_absorption`: the absorption coefficient ``1 - |r|^2`` per angle;
 * :func:`elastic_edge_absorption_diffuse`: its diffuse-field average, the ``alpha_k``
   of the edge term of EN ISO 12354-1 Annex C
-  (:func:`seatool.physics.installed_damping.edge_absorption_loss_factor`).
+  (:func:`seatool.physics.installed_damping.edge_absorption_loss_factor`);
+* :func:`seal_absorption_diffuse`: the same for the two strips of :func:`seal_stiffness`.
 
 All functions are pure and broadcast with numpy over frequency bands and angles. The
 derivation is in ``docs/theory/subsystems.md``, section 11.
@@ -32,6 +33,7 @@ __all__ = [
     "elastic_edge_absorption",
     "elastic_edge_absorption_diffuse",
     "elastic_edge_reflection",
+    "seal_absorption_diffuse",
     "seal_stiffness",
 ]
 
@@ -338,3 +340,46 @@ loss_factor
         last(translational), last(rotational), last(loss_factor), theta,
     )  # fmt: skip
     return np.asarray(alpha @ weight, dtype=np.float64)
+
+
+def seal_absorption_diffuse(
+    f: npt.ArrayLike,
+    bending_stiffness: npt.ArrayLike,
+    mass_per_area: npt.ArrayLike,
+    poisson_ratio: npt.ArrayLike,
+    youngs_modulus: npt.ArrayLike,
+    loss_factor: npt.ArrayLike,
+    width: npt.ArrayLike,
+    thickness: npt.ArrayLike,
+) -> FloatArray:
+    """Diffuse bending-wave absorption coefficient of a plate edge held by two lossy strips.
+
+    Parameters
+    ----------
+    f : float or array_like
+        Frequency [Hz].
+    bending_stiffness, mass_per_area, poisson_ratio : float or array_like
+        The plate: D [N m], m'' [kg/m^2], nu [-].
+    youngs_modulus, loss_factor, width, thickness : float or array_like
+        The strips (one on each face): E [Pa], eta_s [-], contact width w [m], thickness
+        t [m].
+
+    Returns
+    -------
+    numpy.ndarray
+        alpha_d [-].
+
+    Notes
+    -----
+    :func:`elastic_edge_absorption_diffuse` with the stiffnesses of :func:`seal_stiffness`
+    (two strips): ``s_t = 2 E w / t``, ``s_r = 2 E w^3 / (12 t)``, both ``(1 + j eta_s)``.
+
+    References
+    ----------
+    .. [1] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-Borne Sound, 3rd ed.
+       Springer (see :func:`elastic_edge_reflection`).
+    """
+    s_t, s_r = seal_stiffness(youngs_modulus, width, thickness)
+    return elastic_edge_absorption_diffuse(
+        f, bending_stiffness, mass_per_area, poisson_ratio, s_t, s_r, loss_factor
+    )
