@@ -50,8 +50,8 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         "--edge-absorption",
         metavar="ALPHA",
         help="bending-wave absorption coefficient (0 .. 1) of the edges: the losses at the "
-        "edges instead of those into a laboratory opening (glazing in gaskets, resilient "
-        "mountings); not with --loss-factor",
+        "edges instead of those into a laboratory opening (a stated absorption; --seal "
+        "computes it for gaskets and sealant); not with --loss-factor",
     )
     seal = defaults.DEFAULT_SEAL
     p.add_argument(
@@ -62,15 +62,15 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         "laboratory losses; by default an EPDM glazing gasket (common practice, from memory): "
         "the four options below",
     )
-    for option, what, value in (
-        ("modulus", "Young's modulus of the strips [Pa]", seal.youngs_modulus),
-        ("loss-factor", "loss factor of the strips", seal.loss_factor),
-        ("width", "contact width of each strip on the panel [m]", seal.width),
-        ("thickness", "thickness of each strip [m]", seal.thickness),
+    for option, metavar, what, value in (
+        ("modulus", "PA", "Young's modulus of the strips [Pa]", seal.youngs_modulus),
+        ("loss-factor", "ETA", "loss factor of the strips", seal.loss_factor),
+        ("width", "M", "contact width of each strip on the panel [m]", seal.width),
+        ("thickness", "M", "thickness of each strip [m]", seal.thickness),
     ):
         p.add_argument(
             f"--seal-{option}",
-            metavar="X",
+            metavar=metavar,
             help=f"{what} (default {value:g}; implies --seal)",
         )
     p.add_argument(

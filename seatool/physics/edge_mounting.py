@@ -99,7 +99,7 @@ def seal_stiffness(
        Proceedings of the Institution of Mechanical Engineers 173, 111-122 (shape factor;
        from memory).
     .. [2] Cremer, L., Heckl, M., Petersson, B.A.T. (2005). Structure-Borne Sound, 3rd ed.
-       Springer, ch. 6 (resilient layers as springs per unit area).
+       Springer (resilient layers as springs per unit area; chapter from memory).
     """
     e = _positive("youngs_modulus", youngs_modulus)
     w = _positive("width", width)
