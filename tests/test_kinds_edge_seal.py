@@ -57,7 +57,7 @@ def test_the_seal_adds_the_same_edge_term_as_the_panel_command():
     f = m.bands.centre
     seal = EdgeSeal(5e6, 0.2, 0.010, 0.004)
     spec = PanelSpec(glass, 0.006, 1.25, 1.5, glass.loss_factor, air, mounting="sealed", seal=seal)
-    lab = PanelSpec(glass, 0.006, 1.25, 1.5, glass.loss_factor, air)
+    lab = PanelSpec(glass, 0.006, 1.25, 1.5, glass.loss_factor, air, mounting="laboratory")
     edge = installed_loss_factor(spec, f) - installed_loss_factor(lab, f)
     np.testing.assert_allclose(sealed["pane"] - plain["pane"], edge, rtol=1e-9)
     np.testing.assert_array_equal(sealed["pane.longitudinal"], plain["pane.longitudinal"])

@@ -31,10 +31,10 @@ def _csv(tmp_path, capsys, *extra: str) -> pd.DataFrame:
     return pd.read_csv(out, comment="#")
 
 
-def test_default_is_the_laboratory_loss_factor(tmp_path, capsys):
+def test_no_seal_is_the_laboratory_loss_factor(tmp_path, capsys):
     # EN ISO 12354-1 Annex C laboratory form, eta_int + m''/(485 sqrt(f)), for the material's
     # internal 0.001 and m'' = 15 kg/m^2: at 100 Hz 0.001 + 15/4850 = 0.004093
-    t = _csv(tmp_path, capsys)
+    t = _csv(tmp_path, capsys, "--no-seal")
     f = t["band_exact_hz"].to_numpy()
     np.testing.assert_allclose(t["loss_factor"], 0.001 + 15.0 / (485.0 * np.sqrt(f)), rtol=1e-9)
     assert t["loss_factor"].iloc[0] == pytest.approx(0.004093, abs=1e-6)
@@ -43,9 +43,24 @@ def test_default_is_the_laboratory_loss_factor(tmp_path, capsys):
 def test_stated_loss_factor_is_used_as_given(tmp_path, capsys):
     t = _csv(tmp_path, capsys, "--loss-factor", "0.02")
     np.testing.assert_allclose(t["loss_factor"], 0.02)
-    # more damping, less resonant transmission: every band at least as high as the default
-    base = _csv(tmp_path, capsys)
+    # more damping, less resonant transmission: every band at least as high as without it
+    base = _csv(tmp_path, capsys, "--no-seal")
     assert np.all(t["transmission_loss_sea_dB"] >= base["transmission_loss_sea_dB"] - 1e-9)
+
+
+def test_glazing_is_sealed_by_default_and_other_panels_are_not(tmp_path, capsys):
+    # Glazing is set in its opening with a resilient seal on each face (common practice;
+    # EN ISO 10140-1 Annex B, from memory): for glass the default is the --seal table, for
+    # sheet steel the laboratory form alone.
+    default, sealed = _csv(tmp_path, capsys), _csv(tmp_path, capsys, "--seal")
+    pd.testing.assert_frame_equal(default, sealed)
+    assert not default.equals(_csv(tmp_path, capsys, "--no-seal"))
+    glass, steel = load_materials()["glass"], load_materials()["steel"]
+    air = load_fluids()["air"]
+    assert PanelSpec(glass, 0.006, 1.25, 1.5, 0.001, air).mounting == "sealed"
+    assert PanelSpec(steel, 0.001, 1.25, 1.5, 2e-4, air).mounting == "laboratory"
+    assert main([*GLASS, "--no-seal", "--seal"]) == 2
+    assert "--no-seal: not with --seal" in capsys.readouterr().err
 
 
 def test_edge_absorption_grows_with_alpha_and_falls_with_frequency(tmp_path, capsys):
@@ -94,7 +109,8 @@ def test_spec_refuses_an_unknown_mounting():
 @pytest.mark.parametrize(
     ("material", "thickness", "extra", "noted"),
     [
-        ("glass", "0.006", [], True),  # 6 mm glass: 0.0017 against 0.008 at 2 kHz
+        ("glass", "0.006", ["--no-seal"], True),  # 6 mm glass: 0.0017 against 0.008 at 2 kHz
+        ("glass", "0.006", [], False),  # glazing is sealed by default
         ("glass", "0.006", ["--loss-factor", "0.02"], False),  # stated: no note
         ("glass", "0.006", ["--edge-absorption", "0.3"], False),
         ("glass", "0.006", ["--seal"], False),  # the seal is the mounting's losses
@@ -178,7 +194,7 @@ def test_seal_refuses_bad_values():
     ],
 )
 def test_the_glazing_seal_is_not_negligible_on_other_panels(material, h, size, largest):
-    # Why the seal is not the default mounting: the glazing gasket's springs are matched to
+    # Why the seal is the default for glazing only: the gasket's springs are matched to
     # the edge impedance of some panel in some band, not only to glass. For a 150 mm
     # concrete wall (f_c 126 Hz) its translational stiffness is near D k^3 around 100 Hz
     # (diffuse absorption 0.38): the transmission loss rises by up to 3.5 dB, though such a

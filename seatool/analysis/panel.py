@@ -15,7 +15,8 @@ For a material, a thickness and a size ``lx`` x ``ly``, :func:`panel_table` give
   loss factor is stated (``mounting="stated"``), the material's internal loss factor plus
   the losses into the laboratory opening (``"laboratory"``), plus those of a resilient,
   lossy edge seal (``"sealed"``, :class:`EdgeSeal`), or the losses into edges of a stated
-  absorption coefficient (``"edges"``).
+  absorption coefficient (``"edges"``); without a stated mounting glazing is sealed and
+  every other panel in the laboratory opening (:func:`default_mounting`).
 
 Bad treatment input raises :class:`seatool.errors.InputError` whose key paths start with
 the :class:`PanelSpec` field name (``damping_layer``, ``cover``, ``trim``).
@@ -48,10 +49,12 @@ __all__ = [
     "DEFAULT_ROOM_VOLUMES",
     "DEFAULT_SEAL",
     "EdgeSeal",
+    "GLAZING_MATERIALS",
     "MOUNTINGS",
     "PanelSpec",
     "basic_columns",
     "coupling_columns",
+    "default_mounting",
     "MOUNTING_NOTE",
     "installed_loss_factor",
     "mounting_note",
@@ -127,6 +130,35 @@ class EdgeSeal:
 #: the ratings across these ranges.
 DEFAULT_SEAL = EdgeSeal(youngs_modulus=5.0e6, loss_factor=0.2, width=0.010, thickness=0.004)
 
+#: Built-in materials whose panels are glazing. Glazing is set into its frame, and into the
+#: opening of a test laboratory, with a resilient seal on each face (gaskets, sealant or
+#: putty: common practice; the laboratory mounting of glazing in EN ISO 10140-1:2016
+#: Annex B, from memory), so :func:`default_mounting` gives them ``"sealed"``.
+GLAZING_MATERIALS = frozenset({"glass", "pmma", "polycarbonate"})
+
+
+def default_mounting(material: Material) -> str:
+    """The mounting of a panel of ``material`` when none is given.
+
+    ``"sealed"`` (the laboratory opening plus :data:`DEFAULT_SEAL`) for the glazing
+    materials of :data:`GLAZING_MATERIALS`, ``"laboratory"`` for every other material:
+    heavy or stiff panels (walls, floors, sheet metal) are built into the opening rigidly,
+    and a seal under them would wrongly free their edges (on 150 mm concrete the seal's
+    edge term changes the transmission loss by up to 3.5 dB, docs/theory/subsystems.md,
+    section 11.1).
+
+    Parameters
+    ----------
+    material : Material
+        The panel's material (its ``name`` decides).
+
+    Returns
+    -------
+    str
+        ``"sealed"`` or ``"laboratory"``.
+    """
+    return "sealed" if material.name in GLAZING_MATERIALS else "laboratory"
+
 
 @dataclass(frozen=True)
 class PanelSpec:
@@ -156,8 +188,10 @@ class PanelSpec:
         Constraining cover over the damping layer: material name and thickness [m].
     trim : str or None
         Trim layer or build-up of the treatment library on one face.
-    mounting : {"laboratory", "sealed", "edges", "stated"}
-        Losses at the edges added to ``loss_factor`` (:func:`installed_loss_factor`).
+    mounting : {"laboratory", "sealed", "edges", "stated"} or None
+        Losses at the edges added to ``loss_factor`` (:func:`installed_loss_factor`);
+        None (the default) takes :func:`default_mounting` of the material: ``"sealed"``
+        for glazing, ``"laboratory"`` otherwise.
     edge_absorption : float
         Bending-wave absorption coefficient of every edge for ``mounting="edges"`` [-].
     seal : EdgeSeal
@@ -175,11 +209,13 @@ class PanelSpec:
     damping_layer: str | None = None
     cover: tuple[str, float] | None = None
     trim: str | None = None
-    mounting: str = "laboratory"
+    mounting: str | None = None
     edge_absorption: float = 0.0
     seal: EdgeSeal = DEFAULT_SEAL
 
     def __post_init__(self) -> None:
+        if self.mounting is None:
+            object.__setattr__(self, "mounting", default_mounting(self.material))
         if self.mounting not in MOUNTINGS:
             msg = f"mounting must be one of {MOUNTINGS}, got {self.mounting!r}"
             raise ValueError(msg)

@@ -60,7 +60,12 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         help="the panel held in the opening by a resilient, lossy strip on each face "
         "(glazing gasket, sealant bead): adds the bending-wave absorption of its edges to the "
         "laboratory losses; by default an EPDM glazing gasket (common practice, from memory): "
-        "the four options below",
+        "the four options below; the default mounting of glazing (glass, pmma, polycarbonate)",
+    )
+    p.add_argument(
+        "--no-seal",
+        action="store_true",
+        help="the laboratory opening's losses alone, also for glazing (whose default is --seal)",
     )
     for option, metavar, what, value in (
         ("modulus", "PA", "Young's modulus of the strips [Pa]", seal.youngs_modulus),
@@ -174,7 +179,7 @@ def spec_from_args(
     lx = _num(problems, args.lx, "--lx")
     ly = _num(problems, args.ly, "--ly")
     eta = _num(problems, args.loss_factor, "--loss-factor")
-    mounting = "stated" if eta is not None else "laboratory"
+    mounting: str | None = "stated" if eta is not None else None
     alpha = _num(problems, args.edge_absorption, "--edge-absorption", minimum=None)
     if alpha is not None:
         if not 0.0 <= alpha <= 1.0:
@@ -195,6 +200,11 @@ def spec_from_args(
             if given is not None:
                 problems.append(Problem("", "--seal", f"not with {option}"))
         mounting = "sealed"
+    if args.no_seal:
+        for given, option in ((eta, "--loss-factor"), (alpha, "--edge-absorption"), (seal, "--seal")):
+            if given is not None:
+                problems.append(Problem("", "--no-seal", f"not with {option}"))
+        mounting = "laboratory"
     lo = _num(problems, args.lowest, "--lowest")
     hi = _num(problems, args.highest, "--highest")
     fluids = seatool.materials.load_fluids()
@@ -371,10 +381,16 @@ def _loss_factor_text(spec: seatool.PanelSpec) -> str:
         return f"{spec.loss_factor:g} (stated, as mounted)"
     if spec.mounting == "sealed":
         seal = spec.seal
+        glazing = (
+            "; the default for glazing, --no-seal for the opening alone"
+            if spec.material.name in seatool.analysis.panel.GLAZING_MATERIALS
+            else ""
+        )
         return (
             f"{spec.loss_factor:g} internal + laboratory opening (EN ISO 12354-1 Annex C) + "
             f"edge seal ({seal.youngs_modulus / 1e6:g} MPa, loss factor {seal.loss_factor:g}, strips "
             f"{seal.width * 1e3:g} mm wide, {seal.thickness * 1e3:g} mm thick on both faces)"
+            + glazing
         )
     if spec.mounting == "edges":
         return (
