@@ -88,13 +88,65 @@ def test_float_glass_6mm_octave_spectrum_with_installed_glazing_damping(eta):
     assert np.all(np.abs(dev) <= 4.0), np.round(dev, 1)
 
 
+@pytest.mark.measured
+def test_float_glass_6mm_rating_with_its_glazing_seal():
+    # The same published Rw 31 (-2; -3) dB, now with the losses of the glazing's mounting
+    # predicted rather than stated: the pane held by an EPDM gasket on each face (the
+    # documented default seal, 5 MPa, loss factor 0.2, 10 mm x 4 mm: typical values chosen
+    # before this comparison, common practice, from memory), its edge absorption from the
+    # bending-wave reflection at a lossy elastic edge (seatool.physics.edge_mounting).
+    # Found 31 (-3; -2). Across the plausible seal range (2 - 10 MPa, 0.1 - 0.5, 5 - 15 mm,
+    # 2 - 6 mm) the rating spans 28 - 32 (docs/theory/subsystems.md, section 11). This is
+    # the default mounting of glazing (no mounting given).
+    _, got = _panel("glass", 0.006, WINDOW)
+    assert abs(got.rw - 31) <= 1, got
+    assert abs(got.c - -2) <= 1 and abs(got.ctr - -3) <= 1, got
+
+
+@pytest.mark.measured
+def test_float_glass_6mm_octave_spectrum_with_its_glazing_seal():
+    # The band shape with the default glazing seal against the remembered laboratory
+    # spectrum (tolerance as for the stated loss factors above, 4 dB): the octaves 125 Hz -
+    # 2 kHz lie within it (found -3.9, -3.7, -2.9, -1.0, -0.1 dB), the coincidence octave
+    # 2 kHz within 1 dB (the laboratory mounting: -4.5 dB). The 4 kHz octave is outside
+    # (-4.8 dB, the laboratory mounting -8.3): the seal's absorption falls above its
+    # matching frequency (diffuse 0.48 at 2 kHz, 0.22 at 5 kHz); kept visible by the
+    # regression test below.
+    r, _ = _panel("glass", 0.006, WINDOW, mounting="sealed")
+    dev = _octaves(r) - GLASS_6MM_OCTAVES
+    assert np.all(np.abs(dev[:5]) <= 4.0), np.round(dev, 1)
+    assert abs(dev[4]) <= 1.0, np.round(dev, 1)
+
+
 @pytest.mark.regression
-def test_float_glass_default_laboratory_mounting_rates_below_the_measurement():
-    # Known shortfall, kept visible: with the default mounting (internal 0.001 plus the
+def test_float_glass_with_its_glazing_seal_is_low_at_4_khz():
+    # Known shortfall with the default seal: the 4 kHz octave is 4.8 dB below the
+    # remembered laboratory spectrum (8.3 dB with the laboratory mounting).
+    r, _ = _panel("glass", 0.006, WINDOW, mounting="sealed")
+    dev = _octaves(r) - GLASS_6MM_OCTAVES
+    assert dev[5] == pytest.approx(-4.8, abs=0.2), np.round(dev, 1)
+
+
+@pytest.mark.regression
+def test_gypsum_board_dip_is_not_explained_by_an_edge_seal():
+    # Known shortfall: the same glazing seal on 12.5 mm gypsum board (3 m x 3.3 m) raises
+    # the 3.15 kHz band from 20.1 to 21.0 dB (20.2 - 21.9 across the plausible seal range),
+    # against about 25 - 28 dB measured on single boards (from memory): an edge seal does
+    # not supply the 0.07 - 0.15 loss factor the dip would need (the seal gives 0.02).
+    r, got = _panel("gypsum_board", 0.0125, (3.0, 3.3), mounting="sealed")
+    at = list(BANDS.nominal).index(3150)
+    assert r[at] == pytest.approx(21.0, abs=0.2), r[at]
+    assert got.rw == 29, got
+
+
+@pytest.mark.regression
+def test_float_glass_in_the_laboratory_opening_alone_rates_below_the_measurement():
+    # Known shortfall, kept visible: without its seal (internal 0.001 plus the
     # laboratory-opening term of EN ISO 12354-1 Annex C, made for heavy walls) glass rates
     # Rw 27, 4 dB below the published 31 dB: the damping of the glazing's mounting is
-    # missing (docs/validation.md, "Measured"). Before the installed damping it was 26.
-    _, got = _panel("glass", 0.006, WINDOW)
+    # missing (docs/validation.md, "Measured"); the sealed mounting, the default for glazing,
+    # supplies it (above). Before the installed damping it was 26.
+    _, got = _panel("glass", 0.006, WINDOW, mounting="laboratory")
     assert got.rw == 27, got
 
 

@@ -13,8 +13,10 @@ For a material, a thickness and a size ``lx`` x ``ly``, :func:`panel_table` give
   model of the panel (:func:`two_room_model`, :func:`room_transmission_loss`);
 * the panel's total loss factor as mounted (:func:`installed_loss_factor`): unless a
   loss factor is stated (``mounting="stated"``), the material's internal loss factor plus
-  the losses into the laboratory opening (``"laboratory"``, the default) or into edges of
-  a stated absorption coefficient (``"edges"``).
+  the losses into the laboratory opening (``"laboratory"``), plus those of a resilient,
+  lossy edge seal (``"sealed"``, :class:`EdgeSeal`), or the losses into edges of a stated
+  absorption coefficient (``"edges"``); without a stated mounting glazing is sealed and
+  every other panel in the laboratory opening (:func:`default_mounting`).
 
 Bad treatment input raises :class:`seatool.errors.InputError` whose key paths start with
 the :class:`PanelSpec` field name (``damping_layer``, ``cover``, ``trim``).
@@ -38,22 +40,27 @@ from ..levels import db
 from ..materials import Fluid, Material
 from ..model import Model
 from ..modelfile import Reader, build
-from ..physics import coupling, damping, installed_damping, plates, radiation
+from ..physics import coupling, damping, edge_mounting, installed_damping, plates, radiation
 from ..physics import validity as pv
 from ..solve import solve
 
 __all__ = [
     "DEFAULT_REVERBERATION_TIME",
     "DEFAULT_ROOM_VOLUMES",
+    "DEFAULT_SEAL",
+    "EdgeSeal",
+    "GLAZING_MATERIALS",
     "MOUNTINGS",
     "PanelSpec",
     "basic_columns",
     "coupling_columns",
+    "default_mounting",
     "MOUNTING_NOTE",
     "installed_loss_factor",
     "mounting_note",
     "panel_table",
     "room_transmission_loss",
+    "seal_edge_absorption",
     "treatment_columns",
     "two_room_model",
 ]
@@ -66,17 +73,91 @@ DEFAULT_ROOM_VOLUMES = (60.0, 75.0)
 #: Default reverberation time of both rooms [s] (common practice for test rooms).
 DEFAULT_REVERBERATION_TIME = 1.5
 #: How the panel's edges lose energy (:func:`installed_loss_factor`).
-MOUNTINGS = ("laboratory", "edges", "stated")
+MOUNTINGS = ("laboratory", "sealed", "edges", "stated")
 #: The note of :func:`mounting_note`.
 MOUNTING_NOTE = (
     "note: at coincidence this panel loses more by radiation than internally and into a "
     "laboratory opening, so its coincidence dip depends on the losses of its mounting "
     "(putty, gaskets, screws), which the laboratory form (fitted to heavy walls) does not "
-    "give: state the loss factor as mounted (--loss-factor) or the edges' absorption "
+    "give: for a panel held in gaskets or sealant add its edge seal (--seal, --seal-*), or "
+    "state the loss factor as mounted (--loss-factor) or the edges' absorption "
     "(--edge-absorption); see docs/theory/subsystems.md, section 11"
 )
 #: Shape of the rooms: side ratios (product 1) of a shoebox, common practice.
 _ROOM_RATIOS = (0.8, 1.0, 1.25)
+
+
+@dataclass(frozen=True)
+class EdgeSeal:
+    """A resilient strip on each face of the panel along its whole perimeter.
+
+    The panel sits in a rigid frame (the laboratory opening) through the two strips
+    (:func:`seatool.physics.edge_mounting.seal_stiffness`).
+
+    Attributes
+    ----------
+    youngs_modulus : float
+        Effective compression modulus of the strip material [Pa].
+    loss_factor : float
+        Loss factor of the strip material [-].
+    width : float
+        Contact width of each strip on the panel face [m].
+    thickness : float
+        Thickness of each strip between panel and frame [m].
+    """
+
+    youngs_modulus: float
+    loss_factor: float
+    width: float
+    thickness: float
+
+    def __post_init__(self) -> None:
+        for name in ("youngs_modulus", "width", "thickness"):
+            v = getattr(self, name)
+            if not (np.isfinite(v) and v > 0):
+                msg = f"{name} of the seal must be finite and > 0, got {v!r}"
+                raise ValueError(msg)
+        if not (np.isfinite(self.loss_factor) and self.loss_factor >= 0):
+            msg = f"loss_factor of the seal must be finite and >= 0, got {self.loss_factor!r}"
+            raise ValueError(msg)
+
+
+#: A glazing gasket of EPDM rubber (values common practice, from memory, not fitted to any
+#: measurement): Shore A 60 - 70, Young's modulus about 5 MPa (plausible 2 - 10 MPa), loss
+#: factor 0.2 (0.1 - 0.5), 10 mm contact width (5 - 15 mm), 4 mm thick (2 - 6 mm). A
+#: silicone or polyurethane sealant bead lies in the same range (0.5 - 5 MPa, 0.1 - 0.3);
+#: putty and butyl are softer and lossier. docs/theory/subsystems.md, section 11, shows
+#: the ratings across these ranges.
+DEFAULT_SEAL = EdgeSeal(youngs_modulus=5.0e6, loss_factor=0.2, width=0.010, thickness=0.004)
+
+#: Built-in materials whose panels are glazing. Glazing is set into its frame, and into the
+#: opening of a test laboratory, with a resilient seal on each face (gaskets, sealant or
+#: putty: common practice; the laboratory mounting of glazing in EN ISO 10140-1:2016
+#: Annex B, from memory), so :func:`default_mounting` gives them ``"sealed"``.
+GLAZING_MATERIALS = frozenset({"glass", "pmma", "polycarbonate"})
+
+
+def default_mounting(material: Material) -> str:
+    """The mounting of a panel of ``material`` when none is given.
+
+    ``"sealed"`` (the laboratory opening plus :data:`DEFAULT_SEAL`) for the glazing
+    materials of :data:`GLAZING_MATERIALS`, ``"laboratory"`` for every other material:
+    heavy or stiff panels (walls, floors, sheet metal) are built into the opening rigidly,
+    and a seal under them would wrongly free their edges (on 150 mm concrete the seal's
+    edge term changes the transmission loss by up to 3.5 dB, docs/theory/subsystems.md,
+    section 11.1).
+
+    Parameters
+    ----------
+    material : Material
+        The panel's material (its ``name`` decides).
+
+    Returns
+    -------
+    str
+        ``"sealed"`` or ``"laboratory"``.
+    """
+    return "sealed" if material.name in GLAZING_MATERIALS else "laboratory"
 
 
 @dataclass(frozen=True)
@@ -107,10 +188,14 @@ class PanelSpec:
         Constraining cover over the damping layer: material name and thickness [m].
     trim : str or None
         Trim layer or build-up of the treatment library on one face.
-    mounting : {"laboratory", "edges", "stated"}
-        Losses at the edges added to ``loss_factor`` (:func:`installed_loss_factor`).
+    mounting : {"laboratory", "sealed", "edges", "stated"} or None
+        Losses at the edges added to ``loss_factor`` (:func:`installed_loss_factor`);
+        None (the default) takes :func:`default_mounting` of the material: ``"sealed"``
+        for glazing, ``"laboratory"`` otherwise.
     edge_absorption : float
         Bending-wave absorption coefficient of every edge for ``mounting="edges"`` [-].
+    seal : EdgeSeal
+        The edge seal of ``mounting="sealed"``.
     """
 
     material: Material
@@ -124,10 +209,13 @@ class PanelSpec:
     damping_layer: str | None = None
     cover: tuple[str, float] | None = None
     trim: str | None = None
-    mounting: str = "laboratory"
+    mounting: str | None = None
     edge_absorption: float = 0.0
+    seal: EdgeSeal = DEFAULT_SEAL
 
     def __post_init__(self) -> None:
+        if self.mounting is None:
+            object.__setattr__(self, "mounting", default_mounting(self.material))
         if self.mounting not in MOUNTINGS:
             msg = f"mounting must be one of {MOUNTINGS}, got {self.mounting!r}"
             raise ValueError(msg)
@@ -169,6 +257,9 @@ def installed_loss_factor(spec: PanelSpec, f: npt.ArrayLike) -> Array:
       heavy opening of a test laboratory,
       :func:`seatool.physics.installed_damping.laboratory_loss_factor`
       (EN ISO 12354-1:2017 Annex C);
+    * ``"sealed"``: the laboratory value plus the edge term of the seal's bending-wave
+      absorption on the whole perimeter (:func:`seal_edge_absorption`, diffuse average,
+      in the edge term of EN ISO 12354-1:2017 Annex C);
     * ``"edges"``: the internal loss factor plus the absorption of ``edge_absorption`` on
       the whole perimeter,
       :func:`seatool.physics.installed_damping.edge_absorption_loss_factor`
@@ -181,15 +272,43 @@ def installed_loss_factor(spec: PanelSpec, f: npt.ArrayLike) -> Array:
     if spec.mounting == "stated":
         return np.full(f_a.shape, float(spec.loss_factor))
     if spec.mounting == "edges":
-        edge = installed_damping.edge_absorption_loss_factor(
-            f_a,
-            spec.area,
-            2.0 * (spec.lx + spec.ly) * spec.edge_absorption,
-            spec.critical_frequency,
-            c0=spec.fluid.sound_speed,
-        )
-        return np.asarray(spec.loss_factor + edge, dtype=np.float64)
-    return installed_damping.laboratory_loss_factor(f_a, spec.mass_per_area, spec.loss_factor)
+        return np.asarray(spec.loss_factor + _edge_term(spec, f_a, spec.edge_absorption))
+    lab = installed_damping.laboratory_loss_factor(f_a, spec.mass_per_area, spec.loss_factor)
+    if spec.mounting == "sealed":
+        return np.asarray(lab + _edge_term(spec, f_a, seal_edge_absorption(spec, f_a)))
+    return lab
+
+
+def _edge_term(spec: PanelSpec, f: Array, alpha: npt.ArrayLike) -> Array:
+    """The edge term of EN ISO 12354-1 Annex C with ``alpha`` on the whole perimeter."""
+    return installed_damping.edge_absorption_loss_factor(
+        f,
+        spec.area,
+        2.0 * (spec.lx + spec.ly) * np.asarray(alpha, dtype=np.float64),
+        spec.critical_frequency,
+        c0=spec.fluid.sound_speed,
+    )
+
+
+def seal_edge_absorption(spec: PanelSpec, f: npt.ArrayLike) -> Array:
+    """Diffuse-field bending-wave absorption coefficient of the panel's edge seal [-].
+
+    The seal's strips (:attr:`PanelSpec.seal`) as translational and rotational springs per
+    unit length (:func:`seatool.physics.edge_mounting.seal_stiffness`, one strip on each
+    face), the panel as a thin plate
+    (:func:`seatool.physics.edge_mounting.elastic_edge_absorption_diffuse`).
+    """
+    seal = spec.seal
+    return edge_mounting.seal_absorption_diffuse(
+        f,
+        spec.bending_stiffness,
+        spec.mass_per_area,
+        spec.material.poisson_ratio,
+        seal.youngs_modulus,
+        seal.loss_factor,
+        seal.width,
+        seal.thickness,
+    )
 
 
 def mounting_note(spec: PanelSpec, bands: BandAxis, table: pd.DataFrame) -> str | None:
@@ -225,20 +344,24 @@ def mounting_note(spec: PanelSpec, bands: BandAxis, table: pd.DataFrame) -> str 
 
 def basic_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:
     """Coincidence frequency, modal density, modes in band, installed loss factor, modal
-    overlap, bending wavelength."""
+    overlap, bending wavelength; with ``mounting="sealed"`` also ``seal_absorption`` (the
+    edge seal's diffuse bending-wave absorption coefficient, :func:`seal_edge_absorption`)."""
     f = bands.centre
     d, m = spec.bending_stiffness, spec.mass_per_area
     n = plates.plate_bending_modal_density(f, spec.area, d, m)
     k = plates.plate_bending_wavenumber(f, d, m)
     eta = installed_loss_factor(spec, f)
-    return {
+    out = {
         "critical_frequency_hz": np.full(f.shape, spec.critical_frequency),
         "modal_density_per_hz": n,
         "modes_in_band": pv.modes_in_band(n, bands.width),
         "loss_factor": eta,
-        "modal_overlap": pv.modal_overlap(f, n, eta),
-        "bending_wavelength_m": 2.0 * np.pi / k,
     }
+    if spec.mounting == "sealed":
+        out["seal_absorption"] = seal_edge_absorption(spec, f)
+    out["modal_overlap"] = pv.modal_overlap(f, n, eta)
+    out["bending_wavelength_m"] = 2.0 * np.pi / k
+    return out
 
 
 def treatment_columns(spec: PanelSpec, bands: BandAxis) -> dict[str, Array]:

@@ -50,9 +50,34 @@ def _arguments(p: argparse.ArgumentParser) -> None:
         "--edge-absorption",
         metavar="ALPHA",
         help="bending-wave absorption coefficient (0 .. 1) of the edges: the losses at the "
-        "edges instead of those into a laboratory opening (glazing in gaskets, resilient "
-        "mountings); not with --loss-factor",
+        "edges instead of those into a laboratory opening (a stated absorption; --seal "
+        "computes it for gaskets and sealant); not with --loss-factor",
     )
+    seal = defaults.DEFAULT_SEAL
+    p.add_argument(
+        "--seal",
+        action="store_true",
+        help="the panel held in the opening by a resilient, lossy strip on each face "
+        "(glazing gasket, sealant bead): adds the bending-wave absorption of its edges to the "
+        "laboratory losses; by default an EPDM glazing gasket (common practice, from memory): "
+        "the four options below; the default mounting of glazing (glass, pmma, polycarbonate)",
+    )
+    p.add_argument(
+        "--no-seal",
+        action="store_true",
+        help="the laboratory opening's losses alone, also for glazing (whose default is --seal)",
+    )
+    for option, metavar, what, value in (
+        ("modulus", "PA", "Young's modulus of the strips [Pa]", seal.youngs_modulus),
+        ("loss-factor", "ETA", "loss factor of the strips", seal.loss_factor),
+        ("width", "M", "contact width of each strip on the panel [m]", seal.width),
+        ("thickness", "M", "thickness of each strip [m]", seal.thickness),
+    ):
+        p.add_argument(
+            f"--seal-{option}",
+            metavar=metavar,
+            help=f"{what} (default {value:g}; implies --seal)",
+        )
     p.add_argument(
         "--fluid",
         metavar="NAME",
@@ -154,7 +179,7 @@ def spec_from_args(
     lx = _num(problems, args.lx, "--lx")
     ly = _num(problems, args.ly, "--ly")
     eta = _num(problems, args.loss_factor, "--loss-factor")
-    mounting = "stated" if eta is not None else "laboratory"
+    mounting: str | None = "stated" if eta is not None else None
     alpha = _num(problems, args.edge_absorption, "--edge-absorption", minimum=None)
     if alpha is not None:
         if not 0.0 <= alpha <= 1.0:
@@ -169,6 +194,17 @@ def spec_from_args(
             )
         else:
             mounting = "edges"
+    seal = _seal(problems, args)
+    if seal is not None:
+        for given, option in ((eta, "--loss-factor"), (alpha, "--edge-absorption")):
+            if given is not None:
+                problems.append(Problem("", "--seal", f"not with {option}"))
+        mounting = "sealed"
+    if args.no_seal:
+        for given, option in ((eta, "--loss-factor"), (alpha, "--edge-absorption"), (seal, "--seal")):
+            if given is not None:
+                problems.append(Problem("", "--no-seal", f"not with {option}"))
+        mounting = "laboratory"
     lo = _num(problems, args.lowest, "--lowest")
     hi = _num(problems, args.highest, "--highest")
     fluids = seatool.materials.load_fluids()
@@ -250,8 +286,29 @@ def spec_from_args(
         trim=args.trim or None,
         mounting=mounting,
         edge_absorption=alpha or 0.0,
+        seal=seal or seatool.analysis.panel.DEFAULT_SEAL,
     )
     return spec, bands
+
+
+def _seal(problems: list[Problem], args: argparse.Namespace) -> Any:
+    """The :class:`EdgeSeal` of ``--seal`` and ``--seal-*`` (None without them)."""
+    given = {
+        "youngs_modulus": _num(problems, args.seal_modulus, "--seal-modulus"),
+        "loss_factor": _num(problems, args.seal_loss_factor, "--seal-loss-factor", minimum=None),
+        "width": _num(problems, args.seal_width, "--seal-width"),
+        "thickness": _num(problems, args.seal_thickness, "--seal-thickness"),
+    }
+    raw = (args.seal_modulus, args.seal_loss_factor, args.seal_width, args.seal_thickness)
+    if not args.seal and all(v is None for v in raw):
+        return None
+    eta = given["loss_factor"]
+    if eta is not None and eta < 0:
+        problems.append(Problem("", "--seal-loss-factor", f"must be >= 0, got {eta:g}"))
+        return None
+    default = seatool.analysis.panel.DEFAULT_SEAL
+    values = {k: getattr(default, k) if v is None else v for k, v in given.items()}
+    return seatool.analysis.panel.EdgeSeal(**values)
 
 
 def _positive(problems: list[Problem], value: Any, option: str) -> float | None:
@@ -322,6 +379,19 @@ def render(spec: seatool.PanelSpec, table: Any, bands: seatool.BandAxis) -> str:
 def _loss_factor_text(spec: seatool.PanelSpec) -> str:
     if spec.mounting == "stated":
         return f"{spec.loss_factor:g} (stated, as mounted)"
+    if spec.mounting == "sealed":
+        seal = spec.seal
+        glazing = (
+            "; the default for glazing, --no-seal for the opening alone"
+            if spec.material.name in seatool.analysis.panel.GLAZING_MATERIALS
+            else ""
+        )
+        return (
+            f"{spec.loss_factor:g} internal + laboratory opening (EN ISO 12354-1 Annex C) + "
+            f"edge seal ({seal.youngs_modulus / 1e6:g} MPa, loss factor {seal.loss_factor:g}, strips "
+            f"{seal.width * 1e3:g} mm wide, {seal.thickness * 1e3:g} mm thick on both faces)"
+            + glazing
+        )
     if spec.mounting == "edges":
         return (
             f"{spec.loss_factor:g} internal + edges of absorption coefficient "

@@ -14,6 +14,7 @@ import numpy.typing as npt
 
 from ..model import Subsystem
 from ..physics import orthotropic_plates, plates, sandwich
+from .edge_seal import EDGE_SEAL_KEY, add_edge_seal
 from .fields import (
     LX,
     LY,
@@ -78,10 +79,14 @@ def _plate(
         }
         return n, props, "plate_bending_modal_density (thin plate; Cremer et al. 2005)"
 
-    return finish_panel(
+    subs = finish_panel(
         rd, name, s, path, role="plate", mat=mat, geom=geom, thickness=h,
         m_bare=mat.density * h, fluid=fluid, bending=bending, extra={}, fields=fields,
     )  # fmt: skip
+    if subs is None or v["edge_seal"] is None:
+        return subs
+    sealed = add_edge_seal(rd, v["edge_seal"], f"{path}.edge_seal", subs[0], mat.poisson_ratio)
+    return None if sealed is None else [sealed, *subs[1:]]
 
 
 def _orthotropic(
@@ -190,7 +195,7 @@ def _sandwich(
 
 PLATE = Kind(
     "subsystem", "plate", "Thin flat isotropic plate.",
-    (MATERIAL, THICKNESS, LX, LY, WAVE_FIELDS, *PANEL_COMMON),
+    (MATERIAL, THICKNESS, LX, LY, WAVE_FIELDS, *PANEL_COMMON, EDGE_SEAL_KEY),
     _plate,
 )  # fmt: skip
 

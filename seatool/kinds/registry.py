@@ -29,6 +29,7 @@ from . import (
     beams,
     cavities,
     damping_forms,
+    edge_seal,
     excitations,
     given,
     junction_lines,
@@ -78,6 +79,7 @@ KINDS: tuple[Kind, ...] = (
     *excitations.EXCITATION_KINDS,
     *damping_forms.DAMPING_KINDS,
     plate_treatment.TREATMENT,
+    edge_seal.EDGE_SEAL,
     *layers.LAYER_KINDS,
     *low_frequency.LOW_FREQUENCY_KINDS,
 )
