@@ -85,12 +85,12 @@ def _mode_class_sigma(
     d = s - k2
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         fast = k / np.sqrt(-d)
-        ex = d * np.sqrt(d)
-        edge_y = k * (2.0 * ky2 - (k2 - kx2)) / (l2 * np.sqrt(ky2) * ex)
-        edge_x = k * (2.0 * kx2 - (k2 - ky2)) / (l1 * np.sqrt(kx2) * ex)
-    edge = np.where(ky2 < k2, edge_x, 0.0)
-    if not closed:
-        edge = edge + np.where(kx2 < k2, edge_y, 0.0)
+        # e(q, p, l) = k (2 q^2 - (k^2 - p^2)) / (l q d^(3/2)) with d = k_p^2 - k^2 and
+        # k_p^2 = p^2 + q^2, i.e. k (q^2 + d) / (l q d^(3/2)): fewer whole-array operations
+        k_ex = k / (d * np.sqrt(d))
+        edge = np.where(ky2 < k2, k_ex * (kx2 + d) / (l1 * np.sqrt(kx2)), 0.0)
+        if not closed:
+            edge = edge + np.where(kx2 < k2, k_ex * (ky2 + d) / (l2 * np.sqrt(ky2)), 0.0)
     # capped; fmin takes the cap where sigma is not a number (0/0 at a class boundary)
     out: FloatArray = np.fmin(np.where(s < k2, fast, edge), cap)
     return out
