@@ -25,7 +25,7 @@ from typing import Any
 
 import numpy as np
 import pytest
-from scipy import integrate
+from scipy import integrate, optimize
 
 from seatool import modelfile
 from seatool.physics import junction_waves, junctions, memo, radiation_curved
@@ -147,22 +147,39 @@ def test_line_junction_average_against_adaptive_quadrature():
     assert coarse_worst > 1e-2  # the bound can fail
 
 
-def test_line_junction_peak_above_the_in_plane_cut_off():
-    # the cause of the slow convergence: at 501 Hz the transmitted bending power peaks at
-    # tau ~ 1 in a width of about 1e-3 in s, just above the shear cut-off (s_S = 0.0536)
-    # near the plate's Rayleigh wavenumber (c_R / c_S = 0.9274 for nu = 0.3 under plane
-    # stress, nu' = nu/(1 + nu); Viktorov 1967, Rayleigh and Lamb Waves, eq. 1.9, from
-    # memory). A rule resolving this peak needs a break at it.
+def _rayleigh_ratio(nu: float) -> float:
+    """c_R / c_S of the edge (Rayleigh) wave of a thin plate in plane stress.
+
+    Rayleigh's equation (2 - x^2)^2 = 4 sqrt(1 - x^2 kappa^2) sqrt(1 - x^2), x = c_R/c_S,
+    with kappa^2 = c_S^2/c_L^2 = (1 - nu)/2 for the plate's longitudinal speed
+    sqrt(E/(rho (1 - nu^2))) (Rayleigh 1885, Proc. Lond. Math. Soc. 17, 4-11; plane-stress
+    form as in Graff 1975, Wave Motion in Elastic Solids, sec. 6.3, from memory).
+    """
+    k2 = (1.0 - nu) / 2.0
+
+    def g(x: float) -> float:
+        return (2.0 - x * x) ** 2 - 4.0 * math.sqrt(1.0 - x * x * k2) * math.sqrt(1.0 - x * x)
+
+    return float(optimize.brentq(g, 0.5, 0.99))
+
+
+@pytest.mark.parametrize("f", [158.0, 501.0, 1995.0])
+def test_line_junction_peak_is_at_the_plate_edge_wave(f):
+    # the cause of the slow convergence: the transmitted bending power peaks at tau > 0.9
+    # in a half-width of under 1e-2 in s = sin(theta), just above the shear cut-off, within
+    # 1 % of the plates' Rayleigh (edge-wave) wavenumber k_S / 0.916 (measured 0.2-0.4 %):
+    # a nearly undamped in-plane edge wave of the junction. The end-clustered rule between
+    # the cut-offs does not resolve it.
     plates = _floor_wall()
-    f = 501.0
     k_b, _, k_s = junctions.wavenumbers(f, plates[0])
-    s = np.linspace(1.001 * k_s / k_b, 0.2, 4001)
+    s_r = k_s / _rayleigh_ratio(STEEL[2]) / k_b
+    s = np.linspace(1.001 * k_s / k_b, 1.5 * k_s / k_b, 8001)
     tau = junctions.line_junction_transmission(f, np.arcsin(s), plates)[:, 1, 0]
     i = int(np.argmax(tau))
     assert tau[i] > 0.9
-    assert 1.0 < s[i] / (k_s / k_b) < 1.0 / 0.9  # between the shear and ~Rayleigh wavenumber
+    assert abs(s[i] / s_r - 1.0) < 1e-2
     half = s[tau > 0.5 * tau[i]]
-    assert half[-1] - half[0] < 2e-3
+    assert half[-1] - half[0] < 1e-2
 
 
 def _curved_error(calls: list[tuple[tuple[Any, ...], dict[str, Any]]], na: int, nw: int) -> float:
