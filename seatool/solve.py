@@ -40,6 +40,7 @@ __all__ = [
     "SolveError",
     "assemble",
     "condition_bound",
+    "drives",
     "free_block_matrices",
     "solve",
     "solve_free",
@@ -110,11 +111,33 @@ class Assembly:
         return sp.csc_matrix(sp.coo_matrix((vals, (rows, cols)), shape=(n, n)))
 
 
+def drives(model: Model) -> tuple[npt.NDArray[np.bool_], Array, Array]:
+    """Held subsystems (N,), held energies (N, B) and input powers (N, B) of ``model``.
+
+    Sinks and subsystems with an energy excitation are held (their energy is given, zero
+    for a sink); power excitations of one subsystem add up.
+    """
+    idx = model.index()
+    n, nb = len(model.subsystems), len(model.bands)
+    held = np.array([s.sink for s in model.subsystems], dtype=bool)
+    held_energy = np.zeros((n, nb))
+    power = np.zeros((n, nb))
+    for e in model.excitations:
+        i = idx[e.subsystem]
+        if e.drive == "power":
+            assert e.power is not None
+            power[i] += e.power
+        else:
+            assert e.energy is not None
+            held[i] = True
+            held_energy[i] = e.energy
+    return held, held_energy, power
+
+
 def assemble(model: Model) -> Assembly:
     """Assemble per-band loss-factor arrays of ``model`` (vectorised over bands)."""
     idx = model.index()
     nb = len(model.bands)
-    n = len(model.subsystems)
     modal = np.array([s.modal_density for s in model.subsystems], dtype=float)
     damping = np.array([s.damping for s in model.subsystems], dtype=float)
     sink = np.array([s.sink for s in model.subsystems], dtype=bool)
@@ -131,18 +154,7 @@ def assemble(model: Model) -> Assembly:
     diag = np.where(sink[:, None], 0.0, damping).copy()
     add_rows(diag, a, eta_ab)
     add_rows(diag, b, eta_ba)
-    held = sink.copy()
-    held_energy = np.zeros((n, nb))
-    power = np.zeros((n, nb))
-    for e in model.excitations:
-        i = idx[e.subsystem]
-        if e.drive == "power":
-            assert e.power is not None
-            power[i] += e.power
-        else:
-            assert e.energy is not None
-            held[i] = True
-            held_energy[i] = e.energy
+    held, held_energy, power = drives(model)
     return Assembly(
         eta_ab=eta_ab,
         eta_ba=eta_ba,

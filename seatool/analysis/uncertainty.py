@@ -55,7 +55,7 @@ from ..levels import db, db_to_ratio
 from ..model import Model, Uncertain
 from ..modelfile import build
 from ..results import Result
-from ..solve import ITERATIVE_ABOVE, assemble
+from ..solve import ITERATIVE_ABOVE, assemble, drives
 from ..solve import solve as core_solve
 from ._batched import batched_dense, batched_sparse
 from ._keypath import read_data, with_values
@@ -457,27 +457,14 @@ def _balance_arrays(m: Model) -> tuple[Array, Array, Array, Array, Any, Array]:
     """Damping, modal densities (N, B), stated coupling loss factors (C, B), input powers,
     held subsystems and held energies of a model, as :func:`seatool.solve.assemble` reads
     them (the arrays the batched solves take)."""
-    nb = len(m.bands)
-    idx = m.index()
     damping = np.array([s.damping for s in m.subsystems], dtype=float)
     modal = np.array([s.modal_density for s in m.subsystems], dtype=float)
     eta = (
         np.array([c.coupling_loss_factor for c in m.connections], dtype=float)
         if m.connections
-        else np.zeros((0, nb))
+        else np.zeros((0, len(m.bands)))
     )
-    held = np.array([s.sink for s in m.subsystems], dtype=bool)
-    held_energy = np.zeros((len(m.subsystems), nb))
-    power = np.zeros_like(held_energy)
-    for e in m.excitations:
-        i = idx[e.subsystem]
-        if e.drive == "power":
-            assert e.power is not None
-            power[i] += e.power
-        else:
-            assert e.energy is not None
-            held[i] = True
-            held_energy[i] = e.energy
+    held, held_energy, power = drives(m)
     return damping, modal, eta, power, held, held_energy
 
 
