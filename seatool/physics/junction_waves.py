@@ -23,6 +23,10 @@ series with its edge, :func:`interlayer_compliance`); without one the junction i
 Conventions as in :mod:`seatool.physics.junctions`: time dependence exp(+j omega t); local
 axes ``x`` (in the plate, away from the junction), ``y`` (along the junction), ``n`` (plate
 normal); global line dofs ``(U_X, U_Z, V, Theta)``.
+
+Why this file is a little longer than about 600 lines: the scattering solve, the incident
+fields and the diffuse average share the stacked array layout and its band grouping;
+splitting them would put one layout in two places.
 """
 
 from __future__ import annotations
