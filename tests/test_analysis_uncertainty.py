@@ -141,8 +141,8 @@ tolerance = {tol_rel}
         np.testing.assert_allclose(t[f"p{100 * q:g}_dB"], want, rtol=0, atol=tol)
 
 
-def test_direct_and_rebuild_and_sparse_routes_agree(monkeypatch):
-    extra = """
+#: Three spreads on the compressor enclosure (a damping, a coupling, a modal density).
+THREE_SPREADS = """
 [uncertainty.a]
 parameter = "subsystems.walls.damping"
 distribution = "lognormal"
@@ -156,6 +156,10 @@ parameter = "subsystems.workshop_air.modal_density"
 distribution = "lognormal"
 factor = 1.2
 """
+
+
+def test_direct_and_rebuild_and_sparse_routes_agree(monkeypatch):
+    extra = THREE_SPREADS
     data = _data(COMPRESSOR, extra)
     dense = spread(data, samples=40, seed=5, base_dir="models")
     rebuilt = spread(data, samples=40, seed=5, base_dir="models", force_rebuild=True)
@@ -175,20 +179,7 @@ def test_batched_iterative_route_matches_dense_solves(monkeypatch):
     # Samples solved on the solver's iterative path (conjugate gradients over the samples
     # of each band, every energy verified by its balance) against the batched dense
     # route (numpy.linalg.solve, LAPACK), an independent method, to 1e-9 dB.
-    extra = """
-[uncertainty.a]
-parameter = "subsystems.walls.damping"
-distribution = "lognormal"
-factor = 1.4
-[uncertainty.b]
-parameter = "connections.walls_outside.coupling_loss_factor"
-distribution = "uniform"
-tolerance = 0.3
-[uncertainty.c]
-parameter = "subsystems.workshop_air.modal_density"
-distribution = "lognormal"
-factor = 1.2
-"""
+    extra = THREE_SPREADS
     import importlib
 
     solve_mod = importlib.import_module("seatool.solve")
